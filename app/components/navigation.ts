@@ -1,0 +1,13 @@
+import type { Role } from "~/lib/roles";
+
+export type NavItem = { to: string; label: string; roles: Role[] };
+
+/** What each role may open; the server checks the same roles on every route. */
+export const NAV_ITEMS: NavItem[] = [
+  { to: "/", label: "Home", roles: [] },
+  { to: "/admin/users", label: "People and roles", roles: ["admin", "chief"] },
+];
+
+export function navFor(roles: readonly Role[]): NavItem[] {
+  return NAV_ITEMS.filter((item) => item.roles.length === 0 || item.roles.some((role) => roles.includes(role)));
+}

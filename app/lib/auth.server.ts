@@ -1,0 +1,153 @@
+import { createHash } from "node:crypto";
+import bcrypt from "bcryptjs";
+import { redirect } from "react-router";
+import { Authenticator } from "remix-auth";
+import { FormStrategy } from "remix-auth-form";
+import { recordAudit } from "./audit.server";
+import { db } from "./db.server";
+import { apiError, clientAddress, httpError, isApiRequest, rethrowDatabaseDown } from "./http.server";
+import { decideAccess, isRole, type Role } from "./roles";
+import { getSession } from "./session.server";
+import { SignInFormSchema } from "./sign-in-form";
+import { recordSignInAttempt, signInWaitMinutes } from "./sign-in-throttle.server";
+
+export type SessionUser = { id: number; email: string; name: string; roles: Role[]; epoch: number };
+
+export const PASSWORD_COST = 12;
+export const SIGN_IN_FAILED = "The email or password is incorrect.";
+
+export class SignInError extends Error {
+  constructor(
+    message: string,
+    readonly status = 400,
+  ) {
+    super(message);
+  }
+}
+
+export function hashPassword(password: string): Promise<string> {
+  return bcrypt.hash(password, PASSWORD_COST);
+}
+
+async function loadUser(
+  where: { "users.id": number } | { "users.email": string },
+): Promise<(SessionUser & { active: boolean; passwordHash: string }) | null> {
+  const row = await db("users").where(where).first();
+  if (!row) return null;
+  const roles = await db("user_roles").where({ user_id: row.id }).pluck("role");
+  return {
+    id: row.id,
+    email: row.email,
+    name: row.name,
+    roles: roles.filter(isRole),
+    epoch: row.session_epoch,
+    active: Boolean(row.active),
+    passwordHash: row.password_hash,
+  };
+}
+
+// A real hash of a random string, compared against when the email is unknown so that the time taken
+// does not reveal which accounts exist.
+const UNKNOWN_USER_HASH = "$2b$12$7o80WsQEliveu/MAPwq3R..nX65OI.AgcOWzddKzqpYIqe6kZTVvm";
+
+export const authenticator = new Authenticator<SessionUser>();
+
+authenticator.use(
+  new FormStrategy(async ({ form, request }) => {
+    const parsed = SignInFormSchema.safeParse(Object.fromEntries(form));
+    if (!parsed.success) throw new SignInError(SIGN_IN_FAILED);
+    const { email, password } = parsed.data;
+    const address = clientAddress(request);
+    const wait = await signInWaitMinutes(email, address);
+    if (wait > 0) {
+      throw new SignInError(`Too many failed sign-ins. Try again in ${wait} minute${wait === 1 ? "" : "s"}.`, 429);
+    }
+    const user = await loadUser({ "users.email": email });
+    const matches = await bcrypt.compare(password, user?.passwordHash ?? UNKNOWN_USER_HASH);
+    if (!user || !matches || !user.active) {
+      await recordSignInAttempt(email, address, false);
+      await recordAudit({
+        actorUserId: user?.id ?? null,
+        actorLabel: email,
+        action: "sign_in_failed",
+        entityType: "user",
+        entityId: user?.id ?? null,
+        summary: !user ? "unknown email" : !matches ? "wrong password" : "deactivated account",
+        clientAddress: address,
+      });
+      throw new SignInError(SIGN_IN_FAILED);
+    }
+    await recordSignInAttempt(email, address, true);
+    await recordAudit({
+      actorUserId: user.id,
+      actorLabel: user.email,
+      action: "sign_in",
+      entityType: "user",
+      entityId: user.id,
+      clientAddress: address,
+    });
+    return { id: user.id, email: user.email, name: user.name, roles: user.roles, epoch: user.epoch };
+  }),
+  "form",
+);
+
+export function hashToken(token: string): string {
+  return createHash("sha256").update(token).digest("hex");
+}
+
+async function userFromBearer(request: Request): Promise<SessionUser | null> {
+  const header = request.headers.get("Authorization");
+  const match = header?.match(/^Bearer\s+(\S+)$/i);
+  if (!match) return null;
+  const token = await db("api_tokens")
+    .where({ token_hash: hashToken(match[1]) })
+    .whereNull("revoked_at")
+    .first();
+  if (!token) return null;
+  const user = await loadUser({ "users.id": token.user_id });
+  if (!user || !user.active) return null;
+  await db("api_tokens").where({ id: token.id }).update({ last_used_at: db.fn.now() });
+  return user;
+}
+
+async function userFromSession(request: Request): Promise<SessionUser | null> {
+  const session = await getSession(request);
+  const userId = session.get("userId");
+  if (typeof userId !== "number") return null;
+  const user = await loadUser({ "users.id": userId });
+  if (!user || !user.active || user.epoch !== session.get("epoch")) return null;
+  return user;
+}
+
+/** The signed-in person (by bearer token or session), or null. Never throws for a bad cookie. */
+export async function getUser(request: Request): Promise<SessionUser | null> {
+  try {
+    if (request.headers.has("Authorization")) return await userFromBearer(request);
+    return await userFromSession(request);
+  } catch (error) {
+    rethrowDatabaseDown(request, error);
+  }
+}
+
+/**
+ * The guard that opens every loader and action: the signed-in user holding one of `roles`
+ * (any signed-in user when empty). Pages redirect to sign-in; `/api/*` answers 401/403 JSON.
+ */
+export async function requireUser(request: Request, roles: readonly Role[] = []): Promise<SessionUser> {
+  const user = await getUser(request);
+  const decision = decideAccess(user?.roles ?? null, roles);
+  if (decision === "allow" && user) return user;
+  const api = isApiRequest(request);
+  if (decision === "sign-in") {
+    if (api) apiError(401, "Sign in, or send a valid API token as 'Authorization: Bearer <token>'.");
+    const url = new URL(request.url);
+    throw redirect(`/sign-in?redirectTo=${encodeURIComponent(url.pathname + url.search)}`);
+  }
+  if (api) apiError(403, "Your roles do not allow this.");
+  httpError(403, "Your roles do not allow you to use this page.");
+}
+
+export function safeRedirectTo(target: string | null | undefined, fallback = "/"): string {
+  if (!target || !target.startsWith("/") || target.startsWith("//") || target.startsWith("/\\")) return fallback;
+  return target;
+}

@@ -1,0 +1,52 @@
+import { data } from "react-router";
+
+/** The one way a loader or action stops with a status and a message a person can act on. */
+export function httpError(status: number, message: string): never {
+  throw data({ message }, { status });
+}
+
+export function invariantResponse(condition: unknown, message: string, status = 404): asserts condition {
+  if (!condition) httpError(status, message);
+}
+
+/** Errors for `/api/*` routes: always JSON, never a page. */
+export function apiError(status: number, message: string, extra: Record<string, unknown> = {}): never {
+  throw Response.json({ error: message, ...extra }, { status });
+}
+
+export function isApiRequest(request: Request): boolean {
+  return new URL(request.url).pathname.startsWith("/api/");
+}
+
+const DATABASE_DOWN_CODES = new Set([
+  "ECONNREFUSED",
+  "ECONNRESET",
+  "ETIMEDOUT",
+  "PROTOCOL_CONNECTION_LOST",
+  "ER_CON_COUNT_ERROR",
+  "ER_ACCESS_DENIED_ERROR",
+]);
+
+export function isDatabaseDown(error: unknown): boolean {
+  if (!error || typeof error !== "object") return false;
+  const code = (error as { code?: unknown }).code;
+  if (typeof code === "string" && DATABASE_DOWN_CODES.has(code)) return true;
+  const name = (error as { name?: unknown }).name;
+  return name === "KnexTimeoutError";
+}
+
+export const DATABASE_DOWN_MESSAGE =
+  "The records database is not answering right now. Nothing was lost or half-saved; please try again in a minute.";
+
+/** Turns a database outage into a clear 503 for pages and APIs alike; rethrows anything else. */
+export function rethrowDatabaseDown(request: Request, error: unknown): never {
+  if (isDatabaseDown(error)) {
+    if (isApiRequest(request)) apiError(503, DATABASE_DOWN_MESSAGE);
+    httpError(503, DATABASE_DOWN_MESSAGE);
+  }
+  throw error;
+}
+
+export function clientAddress(request: Request): string {
+  return request.headers.get("x-foamtally-client-address") ?? "unknown";
+}

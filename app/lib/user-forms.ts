@@ -1,0 +1,49 @@
+import { z } from "zod";
+import { ROLES } from "./roles";
+
+const name = z
+  .string({ error: "Enter a name." })
+  .trim()
+  .min(1, "Enter a name.")
+  .max(120, "A name has at most 120 characters.");
+
+const email = z
+  .string({ error: "Enter an email address." })
+  .trim()
+  .toLowerCase()
+  .max(254, "An email address has at most 254 characters.")
+  .pipe(z.email("Enter a valid email address."));
+
+const newPassword = z
+  .string({ error: "Enter a password." })
+  .min(12, "Use at least 12 characters.")
+  .max(200, "A password has at most 200 characters.");
+
+const roles = z.array(z.enum(ROLES), { error: "Choose at least one role." }).min(1, "Choose at least one role.");
+
+export const CreateUserSchema = z.object({
+  intent: z.literal("create"),
+  name,
+  email,
+  password: newPassword,
+  roles,
+});
+
+export const UpdateUserSchema = z.object({
+  intent: z.literal("update"),
+  userId: z.coerce.number().int().positive(),
+  name,
+  roles,
+  active: z.preprocess((value) => value === "on" || value === "true", z.boolean()),
+});
+
+export const ChangePasswordSchema = z
+  .object({
+    currentPassword: z.string({ error: "Enter your current password." }).min(1, "Enter your current password."),
+    newPassword,
+    confirmPassword: z.string({ error: "Repeat the new password." }),
+  })
+  .refine((value) => value.newPassword === value.confirmPassword, {
+    path: ["confirmPassword"],
+    message: "The two new passwords do not match.",
+  });

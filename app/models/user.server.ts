@@ -1,0 +1,119 @@
+import bcrypt from "bcryptjs";
+import { recordAudit } from "~/lib/audit.server";
+import { hashPassword, type SessionUser } from "~/lib/auth.server";
+import { db } from "~/lib/db.server";
+import { isRole, type Role } from "~/lib/roles";
+
+export type UserRow = { id: number; email: string; name: string; active: boolean; roles: Role[] };
+
+export async function listUsers(): Promise<UserRow[]> {
+  const [users, roles] = await Promise.all([
+    db("users").select("id", "email", "name", "active").orderBy("name"),
+    db("user_roles").select("user_id", "role"),
+  ]);
+  return users.map((user) => ({
+    id: user.id,
+    email: user.email,
+    name: user.name,
+    active: Boolean(user.active),
+    roles: roles.filter((row) => row.user_id === user.id && isRole(row.role)).map((row) => row.role as Role),
+  }));
+}
+
+export class DuplicateEmailError extends Error {}
+
+export async function createUser(
+  input: { email: string; name: string; password: string; roles: Role[] },
+  actor: SessionUser | null,
+  clientAddress?: string,
+): Promise<number> {
+  const passwordHash = await hashPassword(input.password);
+  return db.transaction(async (trx) => {
+    const existing = await trx("users").where({ email: input.email }).first();
+    if (existing) throw new DuplicateEmailError(input.email);
+    const [id] = await trx("users").insert({ email: input.email, name: input.name, password_hash: passwordHash });
+    if (input.roles.length) await trx("user_roles").insert(input.roles.map((role) => ({ user_id: id, role })));
+    await recordAudit(
+      {
+        actorUserId: actor?.id ?? null,
+        actorLabel: actor?.email ?? "seed",
+        action: "user_created",
+        entityType: "user",
+        entityId: id,
+        after: { email: input.email, name: input.name, roles: input.roles },
+        clientAddress,
+      },
+      trx,
+    );
+    return id;
+  });
+}
+
+export async function updateUser(
+  userId: number,
+  changes: { name: string; roles: Role[]; active: boolean },
+  actor: SessionUser,
+  clientAddress?: string,
+): Promise<boolean> {
+  return db.transaction(async (trx) => {
+    const before = await trx("users").where({ id: userId }).forUpdate().first();
+    if (!before) return false;
+    const beforeRoles = await trx("user_roles").where({ user_id: userId }).pluck("role");
+    const deactivating = Boolean(before.active) && !changes.active;
+    await trx("users")
+      .where({ id: userId })
+      .update({
+        name: changes.name,
+        active: changes.active,
+        updated_at: trx.fn.now(),
+        // A deactivated person's sessions stop at once; tokens stop because the user is inactive.
+        session_epoch: deactivating ? before.session_epoch + 1 : before.session_epoch,
+      });
+    await trx("user_roles").where({ user_id: userId }).delete();
+    if (changes.roles.length) await trx("user_roles").insert(changes.roles.map((role) => ({ user_id: userId, role })));
+    await recordAudit(
+      {
+        actorUserId: actor.id,
+        actorLabel: actor.email,
+        action: deactivating ? "user_deactivated" : "user_updated",
+        entityType: "user",
+        entityId: userId,
+        before: { name: before.name, active: Boolean(before.active), roles: beforeRoles.sort() },
+        after: { name: changes.name, active: changes.active, roles: [...changes.roles].sort() },
+        clientAddress,
+      },
+      trx,
+    );
+    return true;
+  });
+}
+
+/** Changes a password after checking the current one; other sessions of the person end. */
+export async function changePassword(
+  user: SessionUser,
+  currentPassword: string,
+  newPassword: string,
+  clientAddress?: string,
+): Promise<{ ok: true; epoch: number } | { ok: false }> {
+  const row = await db("users").where({ id: user.id }).first();
+  if (!row || !(await bcrypt.compare(currentPassword, row.password_hash))) return { ok: false };
+  const passwordHash = await hashPassword(newPassword);
+  const epoch = row.session_epoch + 1;
+  await db.transaction(async (trx) => {
+    await trx("users")
+      .where({ id: user.id })
+      .update({ password_hash: passwordHash, session_epoch: epoch, updated_at: trx.fn.now() });
+    await recordAudit(
+      {
+        actorUserId: user.id,
+        actorLabel: user.email,
+        action: "password_changed",
+        entityType: "user",
+        entityId: user.id,
+        clientAddress,
+      },
+      trx,
+    );
+  });
+  return { ok: true, epoch };
+}

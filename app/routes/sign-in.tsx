@@ -1,0 +1,77 @@
+import { getFormProps, useForm } from "@conform-to/react";
+import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
+import { useEffect } from "react";
+import { data, Form, redirect, useNavigation } from "react-router";
+import type { Route } from "./+types/sign-in";
+import { FormErrors, TextField } from "~/components/form-fields";
+import { authenticator, getUser, safeRedirectTo, SignInError } from "~/lib/auth.server";
+import { DATABASE_DOWN_MESSAGE, isDatabaseDown } from "~/lib/http.server";
+import { commitSession, getSession } from "~/lib/session.server";
+import { SignInFormSchema } from "~/lib/sign-in-form";
+
+export const meta: Route.MetaFunction = () => [{ title: "Sign in · Foamtally" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await getUser(request);
+  const redirectTo = safeRedirectTo(new URL(request.url).searchParams.get("redirectTo"));
+  if (user) throw redirect(redirectTo);
+  return { redirectTo };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const formData = await request.clone().formData();
+  const submission = parseWithZod(formData, { schema: SignInFormSchema });
+  if (submission.status !== "success") {
+    return data({ result: submission.reply({ hideFields: ["password"] }) }, { status: 400 });
+  }
+  try {
+    const user = await authenticator.authenticate("form", request);
+    const session = await getSession(request);
+    session.set("userId", user.id);
+    session.set("epoch", user.epoch);
+    throw redirect(safeRedirectTo(submission.value.redirectTo), {
+      headers: { "Set-Cookie": await commitSession(session) },
+    });
+  } catch (error) {
+    if (error instanceof Response) throw error;
+    if (!(error instanceof SignInError) && !isDatabaseDown(error)) throw error;
+    const message = error instanceof SignInError ? error.message : DATABASE_DOWN_MESSAGE;
+    const status = error instanceof SignInError ? error.status : 503;
+    return data({ result: submission.reply({ formErrors: [message], hideFields: ["password"] }) }, { status });
+  }
+}
+
+export default function SignIn({ loaderData, actionData }: Route.ComponentProps) {
+  const navigation = useNavigation();
+  const [form, fields] = useForm({
+    id: "sign-in",
+    lastResult: actionData?.result,
+    constraint: getZodConstraint(SignInFormSchema),
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseWithZod(formData, { schema: SignInFormSchema }),
+  });
+  // After a refused attempt the email stays and the password is cleared, as people expect.
+  useEffect(() => {
+    const password = actionData ? document.getElementById(fields.password.id) : null;
+    if (password instanceof HTMLInputElement) password.value = "";
+  }, [actionData, fields.password.id]);
+  return (
+    <section className="mx-auto max-w-md" aria-labelledby="sign-in-title">
+      <div className="card">
+        <h1 id="sign-in-title" className="text-2xl font-bold">
+          Sign in to Foamtally
+        </h1>
+        <p className="mt-1 text-sm text-slate-ft">Foam-usage records for your department.</p>
+        <Form method="post" className="mt-6 space-y-4" {...getFormProps(form)}>
+          <FormErrors id={form.errorId} errors={form.errors} />
+          <input type="hidden" name="redirectTo" value={loaderData.redirectTo} />
+          <TextField label="Email" field={fields.email} type="email" autoComplete="username" autoFocus />
+          <TextField label="Password" field={fields.password} type="password" autoComplete="current-password" />
+          <button type="submit" className="btn-primary w-full" disabled={navigation.state === "submitting"}>
+            {navigation.state === "submitting" ? "Signing in…" : "Sign in"}
+          </button>
+        </Form>
+      </div>
+    </section>
+  );
+}

@@ -1,0 +1,32 @@
+#!/usr/bin/env bash
+# npm run demo: install, start MariaDB and the local fakes, migrate, seed (empty database only), build, serve.
+set -euo pipefail
+root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+cd "$root"
+bash scripts/install-deps.sh
+# shellcheck source=scripts/env.sh
+source scripts/env.sh
+bash scripts/db.sh up
+npm run --silent db:migrate
+if bash scripts/db.sh is-empty; then
+  echo "Seeding the invented Alder Bend demo district…"
+  npm run --silent db:seed
+else
+  echo "The database already has data; the demo seed was not run."
+fi
+npm run --silent build
+bash scripts/fakes.sh start
+port="${PORT:-3000}"
+cat <<TXT
+
+Foamtally demo: http://127.0.0.1:$port
+Demo accounts (password: demo-password — demo data only, invented people):
+  officer@alderbend.example   company officer
+  enviro@alderbend.example    environmental officer
+  chief@alderbend.example     chief
+  records@alderbend.example   records clerk
+  admin@alderbend.example     administrator
+Stop with Ctrl-C; \`npm run db:stop\` stops MariaDB.
+
+TXT
+exec node scripts/serve.js

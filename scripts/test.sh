@@ -1,0 +1,43 @@
+#!/usr/bin/env bash
+# npm test: the same set-up as the demo, then every check. Exits non-zero on the first failure
+# and stops what it started.
+set -euo pipefail
+root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+cd "$root"
+bash scripts/install-deps.sh
+# shellcheck source=scripts/env.sh
+source scripts/env.sh
+export TEST_DB_NAME="${TEST_DB_NAME:-foamtally_test}"
+export FAKES_TAG="test-${E2E_PORT:-3101}"
+export BUILD_DIR="${BUILD_DIR:-build-test-${E2E_PORT:-3101}}"
+
+if [ ! -x /usr/bin/chromium ]; then
+  if [ "$(id -u)" -eq 0 ]; then
+    echo "Installing Debian's chromium for the end-to-end tests…"
+    DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null ||
+      { apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null; }
+  else
+    echo "Chromium is missing. Run once: sudo apt-get install -y chromium" >&2
+    exit 1
+  fi
+fi
+
+bash scripts/db.sh up
+cleanup() { bash scripts/fakes.sh stop || true; }
+trap cleanup EXIT
+
+step() { printf '\n== %s ==\n' "$1"; }
+step "type check"; npm run --silent typecheck
+step "lint"; npm run --silent lint
+step "format"; npm run --silent format:check
+step "unit and integration tests (Vitest, MariaDB ${TEST_DB_NAME})"
+NODE_OPTIONS="--import tsx" npx vitest run
+step "build"; npm run --silent build >/dev/null
+step "end-to-end tests (Playwright, Chromium)"
+DB_NAME="$TEST_DB_NAME" NODE_OPTIONS="--import tsx" node -e '
+  const { freshTestDatabase } = await import("./tests/support/test-database.ts");
+  await freshTestDatabase({ seed: true });
+' --input-type=module
+bash scripts/fakes.sh start
+npx playwright test
+echo; echo "All checks passed."

@@ -1,0 +1,51 @@
+import knexFactory from "knex";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import knexConfig from "../../knexfile";
+import { testDatabaseName } from "../support/test-database";
+
+// Its own database, so that rolling everything back does not disturb other test files.
+const name = `${testDatabaseName()}_migrations`;
+const server = knexFactory({
+  ...knexConfig,
+  connection: { ...(knexConfig.connection as object), database: undefined },
+});
+const knex = knexFactory({ ...knexConfig, connection: { ...(knexConfig.connection as object), database: name } });
+
+beforeAll(async () => {
+  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
+  await server.raw(`CREATE DATABASE \`${name}\``);
+});
+
+afterAll(async () => {
+  await knex.destroy();
+  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
+  await server.destroy();
+});
+
+async function tableNames(): Promise<string[]> {
+  const [rows] = await knex.raw("SHOW TABLES");
+  return (rows as Record<string, string>[])
+    .map((row) => Object.values(row)[0])
+    .filter((table) => !table.startsWith("knex_"));
+}
+
+describe("migrations", () => {
+  it("run up from zero, down to zero, and up again", async () => {
+    await knex.migrate.latest();
+    const tables = await tableNames();
+    expect(tables).toEqual(expect.arrayContaining(["users", "user_roles", "audit_events", "events", "discharges"]));
+
+    await knex.migrate.rollback(undefined, true);
+    expect(await tableNames()).toEqual([]);
+
+    await knex.migrate.latest();
+    expect((await tableNames()).sort()).toEqual(tables.sort());
+  });
+
+  it("make the audit log append-only in the database itself", async () => {
+    await knex("audit_events").insert({ action: "probe", entity_type: "test" });
+    await expect(knex("audit_events").update({ action: "changed" })).rejects.toThrow(/append-only/);
+    await expect(knex("audit_events").delete()).rejects.toThrow(/append-only/);
+    expect(await knex("audit_events").where({ action: "probe" }).count({ n: "*" })).toEqual([{ n: 1 }]);
+  });
+});

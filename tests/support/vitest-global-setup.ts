@@ -1,0 +1,5 @@
+import { freshTestDatabase } from "./test-database";
+
+export default async function setup() {
+  await freshTestDatabase();
+}
