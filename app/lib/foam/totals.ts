@@ -1,0 +1,271 @@
+import { flowInGpm, volumeFromGallons, type FlowUnit, type Volume } from "./units";
+
+export type FlowBasis = "water" | "solution";
+export type FoamClass = "A" | "B";
+
+export type DischargeInput = {
+  flow: number;
+  flowUnit: FlowUnit;
+  /** What the flow figure measures: water before injection, or foam solution (nozzle/eductor rating). */
+  basis: FlowBasis;
+  /** Concentrate as a percentage (3 means 3 %); null for a water-only line. */
+  percent: number | null;
+  minutes: number;
+  productId?: number | null;
+  apparatusId?: number | null;
+  startedAt?: Date | null;
+  endedAt?: Date | null;
+};
+
+export type ProductFacts = {
+  id: number;
+  name: string;
+  foamClass: FoamClass;
+  nominalPercents: number[];
+  pfasContaining: boolean;
+};
+
+export type ApparatusFacts = {
+  id: number;
+  unitId: string;
+  proportionerMaxConcentrateGpm: number | null;
+  waterFlowMinGpm: number | null;
+  waterFlowMaxGpm: number | null;
+};
+
+export type TankReading = {
+  apparatusId: number | null;
+  productId: number | null;
+  refillGal: number | null;
+  levelBeforeGal: number | null;
+  levelAfterGal: number | null;
+};
+
+export type WarningCode =
+  | "percent_unusual_for_class"
+  | "proportioner_limit"
+  | "flow_out_of_range"
+  | "outside_event_window"
+  | "drawdown_mismatch";
+
+export type UsageWarning = { code: WarningCode; message: string; field?: string };
+
+export type Totals = { water: Volume; concentrate: Volume; solution: Volume };
+
+export type DischargeResult = Totals & {
+  /** Water flow through the proportioner, gpm. */
+  waterGpm: number;
+  concentrateGpm: number;
+  setPercent: number | null;
+  /** The percentage achieved: lower than set when the proportioner's maximum rate was reached. */
+  effectivePercent: number | null;
+  foamClass: FoamClass | null;
+  pfasContaining: boolean;
+  warnings: UsageWarning[];
+};
+
+export type UsageContext = {
+  products?: ReadonlyMap<number, ProductFacts>;
+  apparatus?: ReadonlyMap<number, ApparatusFacts>;
+  eventWindow?: { start: Date | null; end: Date | null };
+  tankReadings?: TankReading[];
+  /** Largest share by which computed concentrate may differ from the tank drawdown before a warning. */
+  drawdownTolerance?: number;
+};
+
+/**
+ * Class A: 0.1–1.0 % (fire-service training material; NFPA 1145 ranges, from memory).
+ * Class B: at least the rated percent and no more than 30 % above it or 1 point above it, whichever is
+ * less (NFPA 11 / UL 162 proportioning accuracy, as summarised by the trade).
+ */
+export function usualPercentRange(foamClass: FoamClass, nominalPercents: number[]): Array<[number, number]> {
+  if (foamClass === "A") return [[0.1, 1.0]];
+  const rated = nominalPercents.length ? nominalPercents : [1, 3, 6];
+  return rated.map((percent) => [percent, Math.min(percent * 1.3, percent + 1)]);
+}
+
+const EPSILON = 1e-9;
+
+function formatNumber(value: number, places = 2): string {
+  return Number(value.toFixed(places)).toString();
+}
+
+export function computeDischarge(input: DischargeInput, context: UsageContext = {}): DischargeResult {
+  const product = input.productId != null ? context.products?.get(input.productId) : undefined;
+  const apparatus = input.apparatusId != null ? context.apparatus?.get(input.apparatusId) : undefined;
+  const warnings: UsageWarning[] = [];
+  const flowGpm = flowInGpm(input.flow, input.flowUnit);
+  const setShare = input.percent ? input.percent / 100 : 0;
+
+  let concentrateGpm = flowGpm * setShare;
+  let effectivePercent = input.percent ? input.percent : null;
+  const maximum = apparatus?.proportionerMaxConcentrateGpm;
+  if (maximum != null && setShare > 0 && concentrateGpm > maximum + EPSILON) {
+    concentrateGpm = maximum;
+    effectivePercent = (maximum / flowGpm) * 100;
+    warnings.push({
+      code: "proportioner_limit",
+      field: "percent",
+      message:
+        `${formatNumber(flowGpm)} gpm at ${formatNumber(input.percent!)} % needs ${formatNumber(flowGpm * setShare, 3)} gpm of ` +
+        `concentrate, above ${apparatus!.unitId}'s proportioner maximum of ${formatNumber(maximum, 3)} gpm: ` +
+        `the effective percentage was about ${formatNumber(effectivePercent, 3)} %.`,
+    });
+  }
+
+  const waterGpm = input.basis === "water" ? flowGpm : flowGpm - concentrateGpm;
+  const waterGal = waterGpm * input.minutes;
+  const concentrateGal = concentrateGpm * input.minutes;
+  const solutionGal = input.basis === "water" ? waterGal + concentrateGal : flowGpm * input.minutes;
+
+  if (product && input.percent) {
+    const ranges = usualPercentRange(product.foamClass, product.nominalPercents);
+    const usual = ranges.some(([low, high]) => input.percent! >= low - EPSILON && input.percent! <= high + EPSILON);
+    if (!usual) {
+      const described = ranges.map(([low, high]) => `${formatNumber(low)}–${formatNumber(high)} %`).join(" or ");
+      warnings.push({
+        code: "percent_unusual_for_class",
+        field: "percent",
+        message: `${formatNumber(input.percent)} % is outside the usual ${described} for ${product.name} (Class ${product.foamClass}).`,
+      });
+    }
+  }
+
+  if (apparatus) {
+    const { waterFlowMinGpm: low, waterFlowMaxGpm: high } = apparatus;
+    if ((low != null && waterGpm < low - EPSILON) || (high != null && waterGpm > high + EPSILON)) {
+      warnings.push({
+        code: "flow_out_of_range",
+        field: "flow",
+        message: `${formatNumber(waterGpm)} gpm of water is outside ${apparatus.unitId}'s range of ${low ?? "?"}–${high ?? "?"} gpm.`,
+      });
+    }
+  }
+
+  const window = context.eventWindow;
+  if (window && (input.startedAt || input.endedAt)) {
+    const early = input.startedAt && window.start && input.startedAt < window.start;
+    const late = input.endedAt && window.end && input.endedAt > window.end;
+    if (early || late) {
+      warnings.push({
+        code: "outside_event_window",
+        field: early ? "startedAt" : "endedAt",
+        message: "This discharge's times fall outside the event's start and clear times.",
+      });
+    }
+  }
+
+  return {
+    water: volumeFromGallons(waterGal),
+    concentrate: volumeFromGallons(concentrateGal),
+    solution: volumeFromGallons(solutionGal),
+    waterGpm,
+    concentrateGpm,
+    setPercent: input.percent ? input.percent : null,
+    effectivePercent,
+    foamClass: product?.foamClass ?? null,
+    pfasContaining: product?.pfasContaining ?? false,
+    warnings,
+  };
+}
+
+export function sumTotals(items: Totals[]): Totals {
+  let water = 0;
+  let concentrate = 0;
+  let solution = 0;
+  for (const item of items) {
+    water += item.water.gal;
+    concentrate += item.concentrate.gal;
+    solution += item.solution.gal;
+  }
+  return {
+    water: volumeFromGallons(water),
+    concentrate: volumeFromGallons(concentrate),
+    solution: volumeFromGallons(solution),
+  };
+}
+
+function groupTotals<K>(
+  inputs: DischargeInput[],
+  results: DischargeResult[],
+  keyOf: (input: DischargeInput, result: DischargeResult) => K,
+): Array<{ key: K; totals: Totals }> {
+  const groups = new Map<K, Totals[]>();
+  inputs.forEach((input, index) => {
+    const key = keyOf(input, results[index]);
+    groups.set(key, [...(groups.get(key) ?? []), results[index]]);
+  });
+  return [...groups].map(([key, items]) => ({ key, totals: sumTotals(items) }));
+}
+
+export type UsageResult = {
+  discharges: DischargeResult[];
+  totals: Totals;
+  byApparatus: Array<{ apparatusId: number | null; totals: Totals }>;
+  byProduct: Array<{ productId: number | null; totals: Totals }>;
+  byClass: Array<{ foamClass: FoamClass | null; totals: Totals }>;
+  /** Warnings about the event as a whole, such as a tank drawdown that does not match. */
+  eventWarnings: UsageWarning[];
+  pfasContaining: boolean;
+};
+
+/** Water, concentrate and foam solution for every discharge of an event, with its groupings and warnings. */
+export function computeUsage(inputs: DischargeInput[], context: UsageContext = {}): UsageResult {
+  const discharges = inputs.map((input) => computeDischarge(input, context));
+  const eventWarnings = drawdownWarnings(inputs, discharges, context);
+  return {
+    discharges,
+    totals: sumTotals(discharges),
+    byApparatus: groupTotals(inputs, discharges, (input) => input.apparatusId ?? null).map(({ key, totals }) => ({
+      apparatusId: key,
+      totals,
+    })),
+    byProduct: groupTotals(inputs, discharges, (input) => input.productId ?? null).map(({ key, totals }) => ({
+      productId: key,
+      totals,
+    })),
+    byClass: groupTotals(inputs, discharges, (_input, result) => result.foamClass).map(({ key, totals }) => ({
+      foamClass: key,
+      totals,
+    })),
+    eventWarnings,
+    pfasContaining: discharges.some((result) => result.pfasContaining && result.concentrate.gal > 0),
+  };
+}
+
+/** The concentrate a tank lost according to a refill amount or before/after levels, or null if unknown. */
+export function tankDrawdownGal(reading: TankReading): number | null {
+  if (reading.refillGal != null) return reading.refillGal;
+  if (reading.levelBeforeGal != null && reading.levelAfterGal != null)
+    return reading.levelBeforeGal - reading.levelAfterGal;
+  return null;
+}
+
+function drawdownWarnings(inputs: DischargeInput[], results: DischargeResult[], context: UsageContext): UsageWarning[] {
+  const tolerance = context.drawdownTolerance ?? 0.15;
+  const warnings: UsageWarning[] = [];
+  for (const reading of context.tankReadings ?? []) {
+    const actual = tankDrawdownGal(reading);
+    if (actual == null) continue;
+    const computed = inputs.reduce((sum, input, index) => {
+      const sameApparatus = reading.apparatusId == null || input.apparatusId === reading.apparatusId;
+      const sameProduct = reading.productId == null || input.productId === reading.productId;
+      return sameApparatus && sameProduct ? sum + results[index].concentrate.gal : sum;
+    }, 0);
+    const larger = Math.max(Math.abs(actual), computed);
+    if (larger < EPSILON) continue;
+    const share = Math.abs(computed - actual) / larger;
+    if (share > tolerance + EPSILON) {
+      const unit = reading.apparatusId != null ? context.apparatus?.get(reading.apparatusId)?.unitId : undefined;
+      warnings.push({
+        code: "drawdown_mismatch",
+        field: "tankReadings",
+        message:
+          `Computed concentrate ${formatNumber(computed)} gal differs from the tank drawdown of ${formatNumber(actual)} gal` +
+          `${unit ? ` on ${unit}` : ""} by ${formatNumber(share * 100, 0)} % (more than ${formatNumber(tolerance * 100, 0)} %). ` +
+          "The proportioner may need calibration.",
+      });
+    }
+  }
+  return warnings;
+}
