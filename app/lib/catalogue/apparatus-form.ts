@@ -1,0 +1,159 @@
+import { z } from "zod";
+
+export const DISCHARGE_METHODS = ["compressed_air", "aspirated", "non_aspirated", "monitor", "wetting"] as const;
+export type DischargeMethod = (typeof DISCHARGE_METHODS)[number];
+
+export const DISCHARGE_METHOD_LABELS: Record<DischargeMethod, string> = {
+  compressed_air: "Compressed-air foam",
+  aspirated: "Aspirated",
+  non_aspirated: "Non-aspirated",
+  monitor: "Monitor",
+  wetting: "Wetting",
+};
+
+export const FLOW_BASES = ["water", "solution"] as const;
+export const FLOW_BASIS_LABELS: Record<(typeof FLOW_BASES)[number], string> = {
+  water: "Water flow (direct injection)",
+  solution: "Foam-solution flow (nozzle or eductor rating)",
+};
+
+const checkbox = z.preprocess((value) => value === "on" || value === "true", z.boolean());
+
+const optionalNumber = (label: string, { max = 1_000_000, positive = false } = {}) =>
+  z
+    .string()
+    .trim()
+    .optional()
+    .transform((value, ctx) => {
+      if (!value) return null;
+      const number = Number(value);
+      if (!Number.isFinite(number) || number < 0 || (positive && number === 0)) {
+        ctx.addIssue({
+          code: "custom",
+          message: `${label} must be a number ${positive ? "above zero" : "of zero or more"}.`,
+        });
+        return z.NEVER;
+      }
+      if (number > max) {
+        ctx.addIssue({ code: "custom", message: `${label} is at most ${max.toLocaleString("en-US")}.` });
+        return z.NEVER;
+      }
+      return number;
+    });
+
+export const StationFormSchema = z.object({
+  code: z
+    .string({ error: "Enter a short station code, e.g. S1." })
+    .trim()
+    .min(1, "Enter a short station code, e.g. S1.")
+    .max(16, "A code has at most 16 characters.")
+    .regex(/^[A-Za-z0-9-]+$/, "Use letters, digits and hyphens only."),
+  name: z
+    .string({ error: "Enter the station's name." })
+    .trim()
+    .min(1, "Enter the station's name.")
+    .max(120, "A name has at most 120 characters."),
+  address: z
+    .string()
+    .trim()
+    .max(200, "An address has at most 200 characters.")
+    .optional()
+    .transform((value) => value ?? ""),
+  latitude: z
+    .string()
+    .trim()
+    .optional()
+    .transform((value, ctx) => {
+      if (!value) return null;
+      const number = Number(value);
+      if (!Number.isFinite(number) || number < -90 || number > 90) {
+        ctx.addIssue({ code: "custom", message: "Latitude is a number from -90 to 90." });
+        return z.NEVER;
+      }
+      return number;
+    }),
+  longitude: z
+    .string()
+    .trim()
+    .optional()
+    .transform((value, ctx) => {
+      if (!value) return null;
+      const number = Number(value);
+      if (!Number.isFinite(number) || number < -180 || number > 180) {
+        ctx.addIssue({ code: "custom", message: "Longitude is a number from -180 to 180." });
+        return z.NEVER;
+      }
+      return number;
+    }),
+  active: checkbox,
+});
+
+export type StationFormValue = z.infer<typeof StationFormSchema>;
+
+export const OutletSchema = z.object({
+  name: z
+    .string({ error: "Name the outlet, e.g. Crosslay 1." })
+    .trim()
+    .min(1, "Name the outlet, e.g. Crosslay 1.")
+    .max(60, "An outlet name has at most 60 characters."),
+  foamCapable: checkbox,
+  defaultFlowGpm: optionalNumber("The default flow", { max: 10_000, positive: true }),
+  defaultFlowBasis: z.enum(FLOW_BASES, { error: "Choose what the flow figure measures." }).default("water"),
+  defaultMethod: z.enum(DISCHARGE_METHODS, { error: "Choose a method." }).optional(),
+});
+
+export const ApparatusFormSchema = z
+  .object({
+    unitId: z
+      .string({ error: "Enter the unit identifier, e.g. E1." })
+      .trim()
+      .min(1, "Enter the unit identifier, e.g. E1.")
+      .max(24, "A unit identifier has at most 24 characters."),
+    description: z
+      .string()
+      .trim()
+      .max(160, "A description has at most 160 characters.")
+      .optional()
+      .transform((value) => value ?? ""),
+    stationId: z.coerce.number({ error: "Choose a station." }).int().positive("Choose a station.").optional(),
+    concentrateTankGal: optionalNumber("The concentrate tank size", { max: 100_000 }),
+    proportionerMaxConcentrateGpm: optionalNumber("The proportioner's maximum concentrate rate", {
+      max: 1_000,
+      positive: true,
+    }),
+    waterFlowMinGpm: optionalNumber("The minimum water flow", { max: 20_000 }),
+    waterFlowMaxGpm: optionalNumber("The maximum water flow", { max: 20_000, positive: true }),
+    compressedAirCfm: optionalNumber("The compressed-air capacity", { max: 10_000 }),
+    active: checkbox,
+    outlets: z.array(OutletSchema).max(30, "At most 30 outlets.").default([]),
+  })
+  .superRefine((value, ctx) => {
+    if (
+      value.waterFlowMinGpm != null &&
+      value.waterFlowMaxGpm != null &&
+      value.waterFlowMinGpm > value.waterFlowMaxGpm
+    ) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["waterFlowMaxGpm"],
+        message: "The maximum water flow must be at least the minimum.",
+      });
+    }
+    const seen = new Set<string>();
+    value.outlets.forEach((outlet, index) => {
+      const key = outlet.name.toLowerCase();
+      if (seen.has(key)) {
+        ctx.addIssue({ code: "custom", path: ["outlets", index, "name"], message: "Two outlets have this name." });
+      }
+      seen.add(key);
+      if (outlet.defaultMethod === "compressed_air" && !value.compressedAirCfm) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["outlets", index, "defaultMethod"],
+          message: "Compressed-air foam needs the apparatus's compressed-air capacity (cfm).",
+        });
+      }
+    });
+  });
+
+export type ApparatusFormValue = z.infer<typeof ApparatusFormSchema>;

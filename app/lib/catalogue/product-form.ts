@@ -1,0 +1,142 @@
+import { z } from "zod";
+
+export const FOAM_TYPES = [
+  "class-a",
+  "afff",
+  "ar-afff",
+  "fffp",
+  "ar-fffp",
+  "f3",
+  "protein",
+  "fluoroprotein",
+  "other",
+] as const;
+export type FoamType = (typeof FOAM_TYPES)[number];
+
+export const FOAM_TYPE_LABELS: Record<FoamType, string> = {
+  "class-a": "Class A",
+  afff: "AFFF",
+  "ar-afff": "AR-AFFF (alcohol-resistant)",
+  fffp: "FFFP",
+  "ar-fffp": "AR-FFFP (alcohol-resistant)",
+  f3: "Fluorine-free (F3)",
+  protein: "Protein",
+  fluoroprotein: "Fluoroprotein",
+  other: "Other",
+};
+
+export const PFAS_CONTENT_UNITS = ["g_per_l", "mg_per_l", "percent_w_w"] as const;
+export type PfasContentUnit = (typeof PFAS_CONTENT_UNITS)[number];
+
+export const PFAS_CONTENT_UNIT_LABELS: Record<PfasContentUnit, string> = {
+  g_per_l: "g per litre of concentrate",
+  mg_per_l: "mg per litre of concentrate",
+  percent_w_w: "% by weight (w/w)",
+};
+
+/** Largest safety sheet accepted, in bytes. */
+export const SAFETY_SHEET_MAX_BYTES = 10 * 1024 * 1024;
+
+/** "3, 6" → [3, 6]; null when any part is not a percentage between 0 and 100 (exclusive). */
+export function parseNominalPercents(text: string): number[] | null {
+  const parts = text
+    .split(/[,;\s]+/)
+    .map((part) => part.replace(/%$/, "").trim())
+    .filter(Boolean);
+  const values = parts.map(Number);
+  if (values.some((value) => !Number.isFinite(value) || value <= 0 || value >= 100)) return null;
+  return [...new Set(values)].sort((a, b) => a - b);
+}
+
+export function formatNominalPercents(values: number[]): string {
+  return values.join(", ");
+}
+
+const optionalText = (max: number, label: string) =>
+  z
+    .string()
+    .trim()
+    .max(max, `${label} has at most ${max} characters.`)
+    .optional()
+    .transform((value) => value || null);
+
+const optionalNonNegative = (label: string) =>
+  z
+    .string()
+    .trim()
+    .optional()
+    .transform((value, ctx) => {
+      if (!value) return null;
+      const number = Number(value);
+      if (!Number.isFinite(number) || number < 0) {
+        ctx.addIssue({ code: "custom", message: `${label} must be a number of zero or more.` });
+        return z.NEVER;
+      }
+      return number;
+    });
+
+const checkbox = z.preprocess((value) => value === "on" || value === "true", z.boolean());
+
+export const ProductFormSchema = z
+  .object({
+    name: z
+      .string({ error: "Enter the product's name." })
+      .trim()
+      .min(1, "Enter the product's name.")
+      .max(120, "A name has at most 120 characters."),
+    maker: optionalText(120, "The maker"),
+    foamClass: z.enum(["A", "B"], { error: "Choose Class A or Class B." }),
+    foamType: z.enum(FOAM_TYPES, { error: "Choose the foam type." }),
+    nominalPercents: z
+      .string({ error: "Enter at least one nominal percentage, e.g. 3 or 3, 6." })
+      .trim()
+      .transform((value, ctx) => {
+        const parsed = parseNominalPercents(value);
+        if (!parsed || parsed.length === 0) {
+          ctx.addIssue({
+            code: "custom",
+            message: "Enter percentages above 0 and below 100, separated by commas, e.g. 3, 6.",
+          });
+          return z.NEVER;
+        }
+        return parsed;
+      }),
+    pfasContaining: checkbox,
+    pfasContent: optionalNonNegative("The PFAS content"),
+    pfasContentUnit: z.enum(PFAS_CONTENT_UNITS, { error: "Choose a unit for the PFAS content." }).optional(),
+    pfasContentBasis: optionalText(2000, "The basis"),
+    pfasContentSource: optionalText(2000, "The source"),
+    unitCostPerGal: optionalNonNegative("The unit cost"),
+    active: checkbox,
+    notes: optionalText(4000, "The notes"),
+  })
+  .superRefine((value, ctx) => {
+    if (value.foamClass === "A" && value.foamType !== "class-a" && value.foamType !== "other") {
+      ctx.addIssue({ code: "custom", path: ["foamType"], message: "A Class A product has type Class A or Other." });
+    }
+    if (value.foamClass === "B" && value.foamType === "class-a") {
+      ctx.addIssue({ code: "custom", path: ["foamType"], message: "Choose a Class B type for a Class B product." });
+    }
+    if (value.pfasContent != null && !value.pfasContentUnit) {
+      ctx.addIssue({ code: "custom", path: ["pfasContentUnit"], message: "Choose a unit for the PFAS content." });
+    }
+    if (value.pfasContent != null && !value.pfasContentSource) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["pfasContentSource"],
+        message: "Name where the PFAS figure comes from (safety sheet, lab report, estimate).",
+      });
+    }
+    if (value.pfasContent != null && value.pfasContent > 0 && !value.pfasContaining) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["pfasContaining"],
+        message: "A product with a PFAS content above zero is PFAS-containing.",
+      });
+    }
+    if (value.pfasContentUnit === "percent_w_w" && value.pfasContent != null && value.pfasContent > 100) {
+      ctx.addIssue({ code: "custom", path: ["pfasContent"], message: "A share by weight is at most 100 %." });
+    }
+  });
+
+export type ProductFormValue = z.infer<typeof ProductFormSchema>;

@@ -1,0 +1,146 @@
+import type { DischargeMethod } from "~/lib/catalogue/apparatus-form";
+import { parseNominalPercents, type FoamType } from "~/lib/catalogue/product-form";
+import { db, type Db } from "~/lib/db.server";
+import type { ApparatusFacts, FlowBasis, FoamClass, ProductFacts } from "~/lib/foam/totals";
+
+/** DECIMAL columns arrive as strings; null stays null. */
+export function numberOrNull(value: unknown): number | null {
+  if (value === null || value === undefined || value === "") return null;
+  const number = Number(value);
+  return Number.isFinite(number) ? number : null;
+}
+
+export function nominalPercentsOf(stored: string | null | undefined): number[] {
+  return parseNominalPercents(stored ?? "") ?? [];
+}
+
+export type ActiveProduct = {
+  id: number;
+  name: string;
+  foamClass: FoamClass;
+  foamType: FoamType;
+  nominalPercents: number[];
+  pfasContaining: boolean;
+};
+
+/** Products an officer may choose on a usage report, by name. */
+export async function listActiveProducts(connection: Db = db): Promise<ActiveProduct[]> {
+  const rows = await connection("foam_products")
+    .where({ active: true })
+    .select("id", "name", "foam_class", "foam_type", "nominal_percents", "pfas_containing")
+    .orderBy("name");
+  return rows.map((row) => ({
+    id: row.id,
+    name: row.name,
+    foamClass: row.foam_class,
+    foamType: row.foam_type,
+    nominalPercents: nominalPercentsOf(row.nominal_percents),
+    pfasContaining: Boolean(row.pfas_containing),
+  }));
+}
+
+export type OutletDefaults = {
+  name: string;
+  foamCapable: boolean;
+  defaultFlowGpm: number | null;
+  defaultFlowBasis: FlowBasis;
+  defaultMethod: DischargeMethod | null;
+};
+
+export type ActiveApparatus = {
+  id: number;
+  unitId: string;
+  description: string;
+  stationId: number | null;
+  proportionerMaxConcentrateGpm: number | null;
+  waterFlowMinGpm: number | null;
+  waterFlowMaxGpm: number | null;
+  compressedAirCfm: number | null;
+  concentrateTankGal: number | null;
+  outlets: OutletDefaults[];
+};
+
+function outletOf(row: Record<string, unknown>): OutletDefaults {
+  return {
+    name: String(row.name),
+    foamCapable: Boolean(row.foam_capable),
+    defaultFlowGpm: numberOrNull(row.default_flow_gpm),
+    defaultFlowBasis: row.default_flow_basis === "solution" ? "solution" : "water",
+    defaultMethod: (row.default_method as DischargeMethod | null) ?? null,
+  };
+}
+
+/** Apparatus an officer may choose on a usage report, with the defaults of their outlets. */
+export async function listActiveApparatus(connection: Db = db): Promise<ActiveApparatus[]> {
+  const rows = await connection("apparatus").where({ active: true }).orderBy("unit_id");
+  const outlets = rows.length
+    ? await connection("apparatus_outlets")
+        .whereIn(
+          "apparatus_id",
+          rows.map((row) => row.id),
+        )
+        .orderBy(["apparatus_id", "id"])
+    : [];
+  return rows.map((row) => ({
+    id: row.id,
+    unitId: row.unit_id,
+    description: row.description,
+    stationId: row.station_id ?? null,
+    proportionerMaxConcentrateGpm: numberOrNull(row.proportioner_max_concentrate_gpm),
+    waterFlowMinGpm: numberOrNull(row.water_flow_min_gpm),
+    waterFlowMaxGpm: numberOrNull(row.water_flow_max_gpm),
+    compressedAirCfm: numberOrNull(row.compressed_air_cfm),
+    concentrateTankGal: numberOrNull(row.concentrate_tank_gal),
+    outlets: outlets.filter((outlet) => outlet.apparatus_id === row.id).map(outletOf),
+  }));
+}
+
+/** Facts of the given products (active or not: an old report keeps its product) for the usage checks. */
+export async function productFactsMap(ids: Iterable<number>, connection: Db = db): Promise<Map<number, ProductFacts>> {
+  const wanted = [...new Set(ids)];
+  const map = new Map<number, ProductFacts>();
+  if (wanted.length === 0) return map;
+  const rows = await connection("foam_products")
+    .whereIn("id", wanted)
+    .select("id", "name", "foam_class", "nominal_percents", "pfas_containing");
+  for (const row of rows) {
+    map.set(row.id, {
+      id: row.id,
+      name: row.name,
+      foamClass: row.foam_class,
+      nominalPercents: nominalPercentsOf(row.nominal_percents),
+      pfasContaining: Boolean(row.pfas_containing),
+    });
+  }
+  return map;
+}
+
+/** Facts of the given apparatus (active or not) for the usage checks. */
+export async function apparatusFactsMap(
+  ids: Iterable<number>,
+  connection: Db = db,
+): Promise<Map<number, ApparatusFacts>> {
+  const wanted = [...new Set(ids)];
+  const map = new Map<number, ApparatusFacts>();
+  if (wanted.length === 0) return map;
+  const rows = await connection("apparatus")
+    .whereIn("id", wanted)
+    .select("id", "unit_id", "proportioner_max_concentrate_gpm", "water_flow_min_gpm", "water_flow_max_gpm");
+  for (const row of rows) {
+    map.set(row.id, {
+      id: row.id,
+      unitId: row.unit_id,
+      proportionerMaxConcentrateGpm: numberOrNull(row.proportioner_max_concentrate_gpm),
+      waterFlowMinGpm: numberOrNull(row.water_flow_min_gpm),
+      waterFlowMaxGpm: numberOrNull(row.water_flow_max_gpm),
+    });
+  }
+  return map;
+}
+
+export type StationOption = { id: number; code: string; name: string; active: boolean };
+
+export async function listStationOptions(connection: Db = db): Promise<StationOption[]> {
+  const rows = await connection("stations").select("id", "code", "name", "active").orderBy("code");
+  return rows.map((row) => ({ id: row.id, code: row.code, name: row.name, active: Boolean(row.active) }));
+}
