@@ -135,3 +135,26 @@ export function periodQuery(period: Pick<ReportPeriod, "from" | "to" | "year" | 
     ? `year=${period.year}&quarter=${period.quarter}`
     : `from=${period.from}&to=${period.to}`;
 }
+
+/**
+ * A converter from instants to the agency's wall-clock time, as a Date whose UTC fields hold the
+ * local date and time: spreadsheet cells have no time zone, so they show these fields as they are.
+ */
+export function wallClockIn(timeZone: string): (instant: Date | null) => Date | null {
+  const format = new Intl.DateTimeFormat("en-US", {
+    timeZone,
+    hourCycle: "h23",
+    year: "numeric",
+    month: "2-digit",
+    day: "2-digit",
+    hour: "2-digit",
+    minute: "2-digit",
+    second: "2-digit",
+  });
+  return (instant) => {
+    if (!instant) return null;
+    const parts = format.formatToParts(instant);
+    const get = (type: string) => Number(parts.find((part) => part.type === type)?.value);
+    return new Date(Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"), get("second")));
+  };
+}

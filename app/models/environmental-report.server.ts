@@ -1,0 +1,603 @@
+import type { Knex } from "knex";
+import { db, type Db } from "~/lib/db.server";
+import { isPfasContentUnit, pfasGrams, gramsToPoundsMass, rollingWindowTotals } from "~/lib/foam/pfas";
+import type { ReportPeriod } from "~/lib/reporting/period";
+
+/** Labels used in the exports; the Summary formulas match on these exact strings. */
+export const KIND_LABELS = {
+  incident: "Incident",
+  training: "Training",
+  test: "Test",
+  flush: "Flush",
+} as const;
+export type EventKind = keyof typeof KIND_LABELS;
+export const EVENT_KINDS = Object.keys(KIND_LABELS) as EventKind[];
+
+export const DISPOSITION_LABELS = {
+  contained: "Contained and collected",
+  soil: "To soil",
+  storm_drain: "To storm drain",
+  surface_water: "To surface water",
+  sanitary_sewer: "To sanitary sewer",
+  evaporated_unknown: "Evaporated or unknown",
+} as const;
+export type Disposition = keyof typeof DISPOSITION_LABELS;
+export const DISPOSITIONS = Object.keys(DISPOSITION_LABELS) as Disposition[];
+
+export const WATER_ONLY = "Water only";
+export const NOT_PLACED = "(not placed)";
+export const NONE_STATED = "(none stated)";
+
+export type AgencyFacts = {
+  name: string;
+  timeZone: string;
+  pfasReportableLb: number;
+  reportRecipients: string[];
+  releaseAlertRecipients: string[];
+};
+
+export function splitAddresses(list: string | null | undefined): string[] {
+  return (list ?? "")
+    .split(/[,;\s]+/)
+    .map((address) => address.trim())
+    .filter((address) => address.includes("@"));
+}
+
+export async function agencyFacts(connection: Db = db): Promise<AgencyFacts> {
+  const row = await connection("agency_settings").where({ id: 1 }).first();
+  return {
+    name: row?.name ?? "(agency name not set)",
+    timeZone: row?.time_zone ?? "America/Chicago",
+    // 1 lb in 24 h: CERCLA reportable quantity for PFOA/PFOS, 40 CFR 302.4 (89 FR 39124).
+    pfasReportableLb: row ? Number(row.pfas_reportable_lb) : 1,
+    reportRecipients: splitAddresses(row?.report_recipients),
+    releaseAlertRecipients: splitAddresses(row?.release_alert_recipients),
+  };
+}
+
+// Rows straight from MariaDB: column names as selected, DECIMAL as strings, counts as numbers or strings.
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+type SqlRow = Record<string, any>;
+
+const num = (value: unknown): number => (value === null || value === undefined ? 0 : Number(value));
+const numOrNull = (value: unknown): number | null => (value === null || value === undefined ? null : Number(value));
+
+/** Accepted reports whose event started in the period: the rows every total counts. */
+export function countedEvents(period: ReportPeriod, connection: Db = db): Knex.QueryBuilder {
+  return connection("events as e")
+    .where("e.status", "accepted")
+    .where("e.started_at", ">=", period.startUtc)
+    .where("e.started_at", "<", period.endUtc);
+}
+
+// The released volume of a disposition: its stated volume, else its share of the event's foam solution.
+const RELEASED_GAL = "COALESCE(r.volume_gal, r.share_percent / 100 * e.solution_gal)";
+
+export type VolumeTotals = { water: number; concentrate: number; solution: number };
+export type ClassTotals = VolumeTotals & { foamClass: string; incident: boolean };
+export type ProductTotals = VolumeTotals & {
+  product: string;
+  foamClass: string;
+  pfasContaining: boolean;
+  incident: boolean;
+};
+
+export type PeriodAggregates = {
+  eventCount: number;
+  dischargeCount: number;
+  releaseCount: number;
+  nonIncidentCount: number;
+  eventsByKind: Record<EventKind, number>;
+  awaitingReview: number;
+  returned: number;
+  byClass: ClassTotals[];
+  byProduct: ProductTotals[];
+  byDisposition: Record<Disposition, number>;
+  byBasinAndWater: { basin: string; receivingWater: string; gallons: number }[];
+  eventTotals: VolumeTotals;
+};
+
+/** Every total of the period, summed by MariaDB itself. */
+export async function periodAggregates(period: ReportPeriod, connection: Db = db): Promise<PeriodAggregates> {
+  const kinds: SqlRow[] = await countedEvents(period, connection).select("e.kind").count({ n: "*" }).groupBy("e.kind");
+  const eventsByKind = Object.fromEntries(EVENT_KINDS.map((kind) => [kind, 0])) as Record<EventKind, number>;
+  for (const row of kinds) eventsByKind[row.kind as EventKind] = num(row.n);
+  const eventCount = Object.values(eventsByKind).reduce((a, b) => a + b, 0);
+
+  const pending: SqlRow[] = await connection("events")
+    .whereIn("status", ["filed", "returned"])
+    .where("started_at", ">=", period.startUtc)
+    .where("started_at", "<", period.endUtc)
+    .select("status")
+    .count({ n: "*" })
+    .groupBy("status");
+  const pendingOf = (status: string) => num(pending.find((row) => row.status === status)?.n);
+
+  const eventTotalsRow = await countedEvents(period, connection)
+    .sum({ water: "e.water_gal", concentrate: "e.concentrate_gal", solution: "e.solution_gal" })
+    .first();
+
+  const classRows: SqlRow[] = await countedEvents(period, connection)
+    .join("discharges as d", "d.event_id", "e.id")
+    .leftJoin("foam_products as p", "p.id", "d.product_id")
+    .select(connection.raw("COALESCE(p.foam_class, '') AS foam_class"))
+    .select(connection.raw("e.kind = 'incident' AS incident"))
+    .count({ n: "*" })
+    .sum({ water: "d.water_gal", concentrate: "d.concentrate_gal", solution: "d.solution_gal" })
+    .groupByRaw("COALESCE(p.foam_class, ''), e.kind = 'incident'");
+  const byClass: ClassTotals[] = classRows.map((row) => ({
+    foamClass: row.foam_class ? `Class ${row.foam_class}` : WATER_ONLY,
+    incident: Boolean(Number(row.incident)),
+    water: num(row.water),
+    concentrate: num(row.concentrate),
+    solution: num(row.solution),
+  }));
+  const dischargeCount = classRows.reduce((sum, row) => sum + num(row.n), 0);
+
+  const productRows: SqlRow[] = await countedEvents(period, connection)
+    .join("discharges as d", "d.event_id", "e.id")
+    .leftJoin("foam_products as p", "p.id", "d.product_id")
+    .select("p.name", "p.foam_class", "p.pfas_containing")
+    .select(connection.raw("e.kind = 'incident' AS incident"))
+    .sum({ water: "d.water_gal", concentrate: "d.concentrate_gal", solution: "d.solution_gal" })
+    .groupByRaw("p.id, p.name, p.foam_class, p.pfas_containing, e.kind = 'incident'")
+    .orderBy("p.name");
+  const byProduct: ProductTotals[] = productRows.map((row) => ({
+    product: row.name ?? WATER_ONLY,
+    foamClass: row.foam_class ? `Class ${row.foam_class}` : WATER_ONLY,
+    pfasContaining: Boolean(row.pfas_containing),
+    incident: Boolean(Number(row.incident)),
+    water: num(row.water),
+    concentrate: num(row.concentrate),
+    solution: num(row.solution),
+  }));
+
+  const dispositionRows: SqlRow[] = await countedEvents(period, connection)
+    .join("runoff_dispositions as r", "r.event_id", "e.id")
+    .select("r.disposition")
+    .count({ n: "*" })
+    .select(connection.raw(`SUM(${RELEASED_GAL}) AS gallons`))
+    .groupBy("r.disposition");
+  const byDisposition = Object.fromEntries(DISPOSITIONS.map((d) => [d, 0])) as Record<Disposition, number>;
+  for (const row of dispositionRows) byDisposition[row.disposition as Disposition] = num(row.gallons);
+  const releaseCount = dispositionRows.reduce((sum, row) => sum + num(row.n), 0);
+
+  const basinRows: SqlRow[] = await countedEvents(period, connection)
+    .join("runoff_dispositions as r", "r.event_id", "e.id")
+    .select(connection.raw(`COALESCE(NULLIF(e.drainage_basin, ''), ?) AS basin`, [NOT_PLACED]))
+    .select(connection.raw(`COALESCE(NULLIF(r.receiving_water, ''), ?) AS receiving_water`, [NONE_STATED]))
+    .select(connection.raw(`SUM(${RELEASED_GAL}) AS gallons`))
+    .groupBy("basin", "receiving_water")
+    .orderBy(["basin", "receiving_water"]);
+
+  return {
+    eventCount,
+    dischargeCount,
+    releaseCount,
+    nonIncidentCount: eventCount - eventsByKind.incident,
+    eventsByKind,
+    awaitingReview: pendingOf("filed"),
+    returned: pendingOf("returned"),
+    byClass,
+    byProduct,
+    byDisposition,
+    byBasinAndWater: basinRows.map((row) => ({
+      basin: row.basin,
+      receivingWater: row.receiving_water,
+      gallons: num(row.gallons),
+    })),
+    eventTotals: {
+      water: num(eventTotalsRow?.water),
+      concentrate: num(eventTotalsRow?.concentrate),
+      solution: num(eventTotalsRow?.solution),
+    },
+  };
+}
+
+export type EventExportRow = {
+  number: string;
+  kind: string;
+  status: string;
+  revision: number;
+  startedAt: Date | null;
+  clearedAt: Date | null;
+  station: string;
+  address: string;
+  latitude: number | null;
+  longitude: number | null;
+  drainageBasin: string;
+  nearestWaterway: string;
+  nearestWaterwayM: number | null;
+  withinWaterwayBuffer: string;
+  water: number;
+  concentrate: number;
+  solution: number;
+  pfasContaining: string;
+  hasWarnings: string;
+};
+
+const yesNo = (value: unknown): string => (value === null || value === undefined ? "" : Number(value) ? "Yes" : "No");
+
+/** Events of the period, oldest first, one row at a time from MariaDB. */
+export async function* streamEventRows(period: ReportPeriod, connection: Db = db): AsyncGenerator<EventExportRow> {
+  const query = countedEvents(period, connection)
+    .leftJoin("stations as s", "s.id", "e.station_id")
+    .select(
+      "e.number",
+      "e.kind",
+      "e.status",
+      "e.revision",
+      "e.started_at",
+      "e.cleared_at",
+      "s.code as station_code",
+      "s.name as station_name",
+      "e.address",
+      "e.latitude",
+      "e.longitude",
+      "e.drainage_basin",
+      "e.nearest_waterway",
+      "e.nearest_waterway_m",
+      "e.within_waterway_buffer",
+      "e.water_gal",
+      "e.concentrate_gal",
+      "e.solution_gal",
+      "e.pfas_containing",
+      "e.has_warnings",
+    )
+    .orderBy(["e.started_at", "e.id"]);
+  for await (const row of query.stream()) {
+    yield {
+      number: row.number,
+      kind: KIND_LABELS[row.kind as EventKind],
+      status: row.status,
+      revision: Number(row.revision),
+      startedAt: row.started_at,
+      clearedAt: row.cleared_at,
+      station: row.station_code ? `${row.station_code} ${row.station_name}` : "",
+      address: row.address ?? "",
+      latitude: numOrNull(row.latitude),
+      longitude: numOrNull(row.longitude),
+      drainageBasin: row.drainage_basin || NOT_PLACED,
+      nearestWaterway: row.nearest_waterway ?? "",
+      nearestWaterwayM: numOrNull(row.nearest_waterway_m),
+      withinWaterwayBuffer: yesNo(row.within_waterway_buffer),
+      water: num(row.water_gal),
+      concentrate: num(row.concentrate_gal),
+      solution: num(row.solution_gal),
+      pfasContaining: yesNo(row.pfas_containing),
+      hasWarnings: yesNo(row.has_warnings),
+    };
+  }
+}
+
+export type DischargeExportRow = {
+  eventNumber: string;
+  kind: string;
+  position: number;
+  apparatus: string;
+  outlet: string;
+  product: string;
+  foamClass: string;
+  foamType: string;
+  pfasContaining: string;
+  percent: number | null;
+  effectivePercent: number | null;
+  flow: number | null;
+  flowUnit: string;
+  flowBasis: string;
+  minutes: number | null;
+  water: number;
+  concentrate: number;
+  solution: number;
+  warnings: string;
+};
+
+function warningText(raw: unknown): string {
+  if (typeof raw !== "string" || raw === "") return "";
+  try {
+    const list = JSON.parse(raw) as { code?: string; message?: string }[];
+    return Array.isArray(list) ? list.map((item) => item.message ?? item.code ?? "").join("; ") : "";
+  } catch {
+    return raw;
+  }
+}
+
+/** Discharges of the period in event order, one row at a time. */
+export async function* streamDischargeRows(
+  period: ReportPeriod,
+  connection: Db = db,
+): AsyncGenerator<DischargeExportRow> {
+  const query = countedEvents(period, connection)
+    .join("discharges as d", "d.event_id", "e.id")
+    .leftJoin("foam_products as p", "p.id", "d.product_id")
+    .leftJoin("apparatus as a", "a.id", "d.apparatus_id")
+    .select(
+      "e.number",
+      "e.kind",
+      "d.position",
+      "a.unit_id",
+      "d.outlet",
+      "p.name as product",
+      "p.foam_class",
+      "p.foam_type",
+      "p.pfas_containing",
+      "d.percent",
+      "d.effective_percent",
+      "d.flow",
+      "d.flow_unit",
+      "d.flow_basis",
+      "d.minutes",
+      "d.water_gal",
+      "d.concentrate_gal",
+      "d.solution_gal",
+      "d.warnings",
+    )
+    .orderBy(["e.started_at", "e.id", "d.position"]);
+  for await (const row of query.stream()) {
+    yield {
+      eventNumber: row.number,
+      kind: KIND_LABELS[row.kind as EventKind],
+      position: Number(row.position),
+      apparatus: row.unit_id ?? "",
+      outlet: row.outlet ?? "",
+      product: row.product ?? WATER_ONLY,
+      foamClass: row.foam_class ? `Class ${row.foam_class}` : WATER_ONLY,
+      foamType: row.foam_type ?? "",
+      pfasContaining: row.product ? yesNo(row.pfas_containing) : "No",
+      percent: numOrNull(row.percent),
+      effectivePercent: numOrNull(row.effective_percent),
+      flow: numOrNull(row.flow),
+      flowUnit: row.flow_unit,
+      flowBasis: row.flow_basis === "solution" ? "Foam solution" : "Water",
+      minutes: numOrNull(row.minutes),
+      water: num(row.water_gal),
+      concentrate: num(row.concentrate_gal),
+      solution: num(row.solution_gal),
+      warnings: warningText(row.warnings),
+    };
+  }
+}
+
+export type ReleaseExportRow = {
+  eventNumber: string;
+  kind: string;
+  startedAt: Date | null;
+  disposition: string;
+  sharePercent: number | null;
+  statedGallons: number | null;
+  releasedGallons: number;
+  receivingWater: string;
+  drainageBasin: string;
+  nearestWaterway: string;
+  disposalReference: string;
+  sewerNotice: string;
+  notes: string;
+};
+
+export async function* streamReleaseRows(period: ReportPeriod, connection: Db = db): AsyncGenerator<ReleaseExportRow> {
+  const query = countedEvents(period, connection)
+    .join("runoff_dispositions as r", "r.event_id", "e.id")
+    .select(
+      "e.number",
+      "e.kind",
+      "e.started_at",
+      "r.disposition",
+      "r.share_percent",
+      "r.volume_gal",
+      connection.raw(`${RELEASED_GAL} AS released_gal`),
+      "r.receiving_water",
+      "e.drainage_basin",
+      "e.nearest_waterway",
+      "r.disposal_reference",
+      "r.sewer_notice",
+      "r.notes",
+    )
+    .orderBy(["e.started_at", "e.id", "r.id"]);
+  for await (const row of query.stream()) {
+    yield {
+      eventNumber: row.number,
+      kind: KIND_LABELS[row.kind as EventKind],
+      startedAt: row.started_at,
+      disposition: DISPOSITION_LABELS[row.disposition as Disposition],
+      sharePercent: numOrNull(row.share_percent),
+      statedGallons: numOrNull(row.volume_gal),
+      releasedGallons: num(row.released_gal),
+      receivingWater: row.receiving_water || NONE_STATED,
+      drainageBasin: row.drainage_basin || NOT_PLACED,
+      nearestWaterway: row.nearest_waterway ?? "",
+      disposalReference: row.disposal_reference ?? "",
+      sewerNotice: row.sewer_notice ?? "",
+      notes: row.notes ?? "",
+    };
+  }
+}
+
+export type NonIncidentExportRow = {
+  eventNumber: string;
+  kind: string;
+  startedAt: Date | null;
+  station: string;
+  products: string;
+  water: number;
+  concentrate: number;
+  solution: number;
+  runoff: string;
+};
+
+export async function* streamNonIncidentRows(
+  period: ReportPeriod,
+  connection: Db = db,
+): AsyncGenerator<NonIncidentExportRow> {
+  const query = countedEvents(period, connection)
+    .whereNot("e.kind", "incident")
+    .leftJoin("stations as s", "s.id", "e.station_id")
+    .select(
+      "e.number",
+      "e.kind",
+      "e.started_at",
+      "s.code as station_code",
+      "s.name as station_name",
+      "e.water_gal",
+      "e.concentrate_gal",
+      "e.solution_gal",
+      connection.raw(
+        `(SELECT GROUP_CONCAT(DISTINCT p.name ORDER BY p.name SEPARATOR '; ') FROM discharges d
+           JOIN foam_products p ON p.id = d.product_id WHERE d.event_id = e.id) AS products`,
+      ),
+      connection.raw(
+        `(SELECT GROUP_CONCAT(DISTINCT r.disposition ORDER BY r.disposition SEPARATOR ',') FROM runoff_dispositions r
+           WHERE r.event_id = e.id) AS dispositions`,
+      ),
+    )
+    .orderBy(["e.started_at", "e.id"]);
+  for await (const row of query.stream()) {
+    yield {
+      eventNumber: row.number,
+      kind: KIND_LABELS[row.kind as EventKind],
+      startedAt: row.started_at,
+      station: row.station_code ? `${row.station_code} ${row.station_name}` : "",
+      products: row.products ?? WATER_ONLY,
+      water: num(row.water_gal),
+      concentrate: num(row.concentrate_gal),
+      solution: num(row.solution_gal),
+      runoff: String(row.dispositions ?? "")
+        .split(",")
+        .filter(Boolean)
+        .map((code) => DISPOSITION_LABELS[code as Disposition] ?? code)
+        .join("; "),
+    };
+  }
+}
+
+export type PfasRow = {
+  eventId: number;
+  eventNumber: string;
+  kind: string;
+  startedAt: Date | null;
+  product: string;
+  content: number | null;
+  contentUnit: string;
+  contentBasis: string;
+  contentSource: string;
+  concentrateGallons: number;
+  /** Share of the event's foam solution not contained and collected, 0–1. */
+  shareNotContained: number;
+  dispositionsRecorded: boolean;
+  gramsInConcentrate: number | null;
+  gramsReleased: number | null;
+  poundsReleased: number | null;
+  /** Pounds released in the 24 hours starting with this release, all PFAS products together. */
+  windowPounds: number | null;
+  thresholdReached: "Yes" | "No" | "Unknown";
+};
+
+/**
+ * PFAS-containing concentrate used in the period, one row per event and product. Held in memory:
+ * one row per PFAS event, which the rolling 24-hour check needs side by side.
+ */
+export async function pfasRows(period: ReportPeriod, thresholdLb: number, connection: Db = db): Promise<PfasRow[]> {
+  const rows: SqlRow[] = await countedEvents(period, connection)
+    .join("discharges as d", "d.event_id", "e.id")
+    .join("foam_products as p", "p.id", "d.product_id")
+    .where("p.pfas_containing", true)
+    .select(
+      "e.id",
+      "e.number",
+      "e.kind",
+      "e.started_at",
+      "e.solution_gal as event_solution_gal",
+      "p.name",
+      "p.pfas_content",
+      "p.pfas_content_unit",
+      "p.pfas_content_basis",
+      "p.pfas_content_source",
+      connection.raw(
+        `(SELECT SUM(CASE WHEN r.disposition = 'contained' THEN ${RELEASED_GAL} ELSE 0 END) FROM runoff_dispositions r
+           WHERE r.event_id = e.id) AS contained_gal`,
+      ),
+      connection.raw(`(SELECT COUNT(*) FROM runoff_dispositions r WHERE r.event_id = e.id) AS disposition_count`),
+    )
+    .sum({ concentrate: "d.concentrate_gal" })
+    .groupBy("e.id", "p.id")
+    .orderBy(["e.started_at", "e.id", "p.name"]);
+  const result: PfasRow[] = rows.map((row) => {
+    const solution = num(row.event_solution_gal);
+    const contained = num(row.contained_gal);
+    const shareNotContained = solution > 0 ? Math.min(1, Math.max(0, 1 - contained / solution)) : 1;
+    const content = numOrNull(row.pfas_content);
+    const unit = row.pfas_content_unit;
+    const known = content !== null && isPfasContentUnit(unit);
+    const gramsInConcentrate = known ? pfasGrams(num(row.concentrate), content, unit) : null;
+    const gramsReleased = gramsInConcentrate === null ? null : gramsInConcentrate * shareNotContained;
+    return {
+      eventId: row.id,
+      eventNumber: row.number,
+      kind: KIND_LABELS[row.kind as EventKind],
+      startedAt: row.started_at,
+      product: row.name,
+      content,
+      contentUnit: unit ?? "",
+      contentBasis: row.pfas_content_basis ?? "",
+      contentSource: row.pfas_content_source ?? "",
+      concentrateGallons: num(row.concentrate),
+      shareNotContained,
+      dispositionsRecorded: num(row.disposition_count) > 0,
+      gramsInConcentrate,
+      gramsReleased,
+      poundsReleased: gramsReleased === null ? null : gramsToPoundsMass(gramsReleased),
+      windowPounds: null,
+      thresholdReached: "Unknown",
+    };
+  });
+  const timed = result.filter((row) => row.poundsReleased !== null && row.startedAt);
+  const windows = rollingWindowTotals(
+    timed.map((row) => ({ at: row.startedAt as Date, pounds: row.poundsReleased ?? 0 })),
+  );
+  timed.forEach((row, index) => {
+    row.windowPounds = windows[index];
+  });
+  for (const row of result) {
+    if (row.windowPounds !== null) row.thresholdReached = row.windowPounds >= thresholdLb ? "Yes" : "No";
+  }
+  return result;
+}
+
+export type AmendedEvent = { number: string; revision: number; changedAt: Date; reason: string };
+
+/** Events of the period changed after `since`: new revisions of accepted reports, and late reviews. */
+export async function eventsChangedSince(
+  period: ReportPeriod,
+  since: Date,
+  connection: Db = db,
+): Promise<AmendedEvent[]> {
+  const revisions: SqlRow[] = await connection("event_revisions as v")
+    .join("events as e", "e.id", "v.event_id")
+    .where("e.started_at", ">=", period.startUtc)
+    .where("e.started_at", "<", period.endUtc)
+    .where("v.created_at", ">", since)
+    .select("e.number", "v.revision", "v.created_at", "v.reason")
+    .orderBy(["v.created_at", "e.number"]);
+  const seen = new Set(revisions.map((row) => row.number));
+  const updated: SqlRow[] = await connection("events as e")
+    .where("e.started_at", ">=", period.startUtc)
+    .where("e.started_at", "<", period.endUtc)
+    .where("e.updated_at", ">", since)
+    .select("e.number", "e.revision", "e.updated_at", "e.status")
+    .orderBy(["e.updated_at", "e.number"]);
+  return [
+    ...revisions.map((row) => ({
+      number: row.number,
+      revision: Number(row.revision),
+      changedAt: row.created_at,
+      reason: row.reason,
+    })),
+    ...updated
+      .filter((row) => !seen.has(row.number))
+      .map((row) => ({
+        number: row.number,
+        revision: Number(row.revision),
+        changedAt: row.updated_at,
+        reason: `Record changed after submission (now ${row.status})`,
+      })),
+  ];
+}

@@ -1,0 +1,259 @@
+import { mkdtempSync, readFileSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import * as XLSX from "xlsx";
+import { db } from "~/lib/db.server";
+import { GRAMS_PER_POUND, LITRES_PER_US_GALLON } from "~/lib/foam/units";
+import { parseReportPeriod, type ReportPeriod } from "~/lib/reporting/period";
+import { writeEnvironmentalWorkbook } from "~/reports/environmental-workbook.server";
+import { makeUser } from "../support/factories";
+import { ensureAgency, makeApparatus, makeEvent, makeProduct, makeStation } from "../support/usage-fixtures";
+
+const SHEETS = ["Summary", "Events", "Discharges", "Releases", "Non-incident use", "PFAS", "Method and cautions"];
+
+function quarter(year: number, q: number): ReportPeriod {
+  const result = parseReportPeriod(new URLSearchParams(`year=${year}&quarter=${q}`), "America/Chicago");
+  if (!result.ok) throw new Error(result.message);
+  return result.period;
+}
+
+type Row = Record<string, unknown>;
+const rowsOf = (book: XLSX.WorkBook, sheet: string): Row[] => XLSX.utils.sheet_to_json<Row>(book.Sheets[sheet]);
+const sum = (rows: Row[], column: string, where: (row: Row) => boolean = () => true) =>
+  rows.filter(where).reduce((total, row) => total + Number(row[column] ?? 0), 0);
+
+/** The Summary row whose first two cells are `label` and `second`, as { values, formulas } by column letter. */
+function summaryRow(book: XLSX.WorkBook, label: string, second?: string) {
+  const sheet = book.Sheets.Summary;
+  const range = XLSX.utils.decode_range(sheet["!ref"] ?? "A1");
+  for (let r = range.s.r; r <= range.e.r; r++) {
+    const a = sheet[XLSX.utils.encode_cell({ r, c: 0 })]?.v;
+    const b = sheet[XLSX.utils.encode_cell({ r, c: 1 })]?.v;
+    if (a === label && (second === undefined || b === second)) {
+      const cell = (letter: string) => sheet[`${letter}${r + 1}`] as XLSX.CellObject | undefined;
+      return {
+        value: (letter: string) => cell(letter)?.v,
+        formula: (letter: string) => cell(letter)?.f,
+      };
+    }
+  }
+  throw new Error(`no Summary row ${label} / ${second}`);
+}
+
+let dir: string;
+let pfasProductName: string;
+let stormEventNumber: string;
+
+beforeAll(async () => {
+  dir = mkdtempSync(path.join(tmpdir(), "foamtally-workbook-"));
+  await ensureAgency(db, { pfas_reportable_lb: 1 });
+  const officer = await makeUser(["officer"], "Workbook Officer");
+  const station = await makeStation();
+  const engine = await makeApparatus(station.id);
+  const classA = await makeProduct({ foamClass: "A" });
+  const fluorineFree = await makeProduct({ foamClass: "B", foamType: "f3" });
+  const legacy = await makeProduct({
+    foamClass: "B",
+    foamType: "ar-afff",
+    pfasContaining: true,
+    pfasContent: 10,
+    pfasContentUnit: "g_per_l",
+    pfasContentBasis: "perfluoroalkyl sulfonates",
+    pfasContentSource: "middle of 5–15 g/L for legacy PFOS AFFF (an old product safety sheet)",
+  });
+  pfasProductName = legacy.name;
+  // 2031 Q2 in Chicago: 2031-04-01T05:00Z up to 2031-07-01T05:00Z. Test years keep clear of other tests' rows.
+  const storm = await makeEvent({
+    createdBy: officer.id,
+    startedAt: new Date("2031-04-10T14:00:00Z"),
+    stationId: station.id,
+    drainageBasin: "Test Basin North",
+    discharges: [
+      { productId: classA.id, apparatusId: engine.id, percent: 0.3, water: 1000, concentrate: 3 },
+      // 200 gpm solution × 15 min = 3,000 gal; × 3 % = 90 gal concentrate; water 2,910 gal.
+      {
+        productId: legacy.id,
+        apparatusId: engine.id,
+        percent: 3,
+        flow: 200,
+        flowBasis: "solution",
+        minutes: 15,
+        water: 2910,
+        concentrate: 90,
+      },
+    ],
+    dispositions: [
+      { disposition: "storm_drain", sharePercent: 60, receivingWater: "Test Creek" },
+      { disposition: "contained", sharePercent: 40, disposalReference: "Manifest T-1" },
+    ],
+    pfasContaining: true,
+  });
+  stormEventNumber = storm.number;
+  await makeEvent({
+    createdBy: officer.id,
+    kind: "training",
+    startedAt: new Date("2031-05-02T15:00:00Z"),
+    discharges: [{ productId: fluorineFree.id, percent: 3, water: 500, concentrate: 15 }],
+    dispositions: [{ disposition: "contained", volumeGal: 515, disposalReference: "Pad T-2" }],
+  });
+  await makeEvent({
+    createdBy: officer.id,
+    kind: "flush",
+    startedAt: new Date("2031-06-01T15:00:00Z"),
+    drainageBasin: "Test Basin South",
+    discharges: [{ productId: legacy.id, percent: null, water: 0, concentrate: 10 }],
+    dispositions: [
+      { disposition: "sanitary_sewer", sharePercent: 100, sewerNotice: "Notice T-3 to the treatment works" },
+    ],
+    pfasContaining: true,
+  });
+  // 23:30 on 30 June in Chicago: inside Q2 although it is 1 July in UTC.
+  await makeEvent({
+    createdBy: officer.id,
+    startedAt: new Date("2031-07-01T04:30:00Z"),
+    discharges: [{ productId: classA.id, percent: 0.5, water: 200, concentrate: 1 }],
+  });
+  // 01:00 on 1 July in Chicago: Q3.
+  await makeEvent({
+    createdBy: officer.id,
+    startedAt: new Date("2031-07-01T06:00:00Z"),
+    discharges: [{ productId: classA.id, percent: 0.5, water: 7777, concentrate: 7 }],
+  });
+  await makeEvent({
+    createdBy: officer.id,
+    status: "filed",
+    startedAt: new Date("2031-05-15T15:00:00Z"),
+    discharges: [{ productId: classA.id, percent: 0.5, water: 9999, concentrate: 9 }],
+  });
+});
+
+afterAll(() => {
+  rmSync(dir, { recursive: true, force: true });
+});
+
+async function build(period: ReportPeriod, name: string) {
+  const file = path.join(dir, name);
+  const written = await writeEnvironmentalWorkbook(
+    { period, generatedBy: { name: "Workbook Tester", email: "tester@test.example" } },
+    file,
+  );
+  const book = XLSX.read(readFileSync(file), { cellFormula: true, cellDates: false });
+  return { book, written };
+}
+
+describe("the quarterly environmental workbook", () => {
+  it("has every sheet with units in its headers", async () => {
+    const { book, written } = await build(quarter(2031, 2), "q2.xlsx");
+    expect(book.SheetNames).toEqual(SHEETS);
+    expect(written.sha256).toMatch(/^[0-9a-f]{64}$/);
+    const header = (sheet: string) => XLSX.utils.sheet_to_json<string[]>(book.Sheets[sheet], { header: 1 })[0];
+    expect(header("Discharges")).toEqual(
+      expect.arrayContaining(["Water (US gal)", "Concentrate (US gal)", "Foam solution (US gal)", "Foam solution (L)"]),
+    );
+    expect(header("PFAS")).toEqual(
+      expect.arrayContaining(["Estimated PFAS released (g)", "Estimated PFAS released (lb)", "Threshold reached"]),
+    );
+    expect(book.Sheets.Discharges["!autofilter"]?.ref).toMatch(/^A1:/);
+  });
+
+  it("sums to the detail rows and to MariaDB's own aggregate, with formulas in place", async () => {
+    const period = quarter(2031, 2);
+    const { book } = await build(period, "q2-totals.xlsx");
+    const discharges = rowsOf(book, "Discharges");
+    expect(discharges).toHaveLength(5); // 2 + 1 + 1 + 1 in Q2; the Q3 and the filed events are left out
+    const database = await db("events as e")
+      .join("discharges as d", "d.event_id", "e.id")
+      .where("e.status", "accepted")
+      .where("e.started_at", ">=", period.startUtc)
+      .where("e.started_at", "<", period.endUtc)
+      .sum({ water: "d.water_gal", concentrate: "d.concentrate_gal", solution: "d.solution_gal" })
+      .first();
+
+    const all = summaryRow(book, "All discharges");
+    expect(all.formula("C")).toMatch(/^SUM\(Discharges!\$P\$2:\$P\$6\)$/);
+    for (const [letter, column, key] of [
+      ["C", "Water (US gal)", "water"],
+      ["D", "Concentrate (US gal)", "concentrate"],
+      ["E", "Foam solution (US gal)", "solution"],
+    ] as const) {
+      expect(all.value(letter)).toBeCloseTo(sum(discharges, column), 6);
+      expect(all.value(letter)).toBeCloseTo(Number(database?.[key]), 6);
+    }
+    // 1,000 + 2,910 + 500 + 0 + 200 gal of water; the litre column is gal × 3.785411784 (NIST Handbook 44).
+    expect(all.value("C")).toBeCloseTo(4610, 6);
+    expect(all.value("F")).toBeCloseTo(4610 * LITRES_PER_US_GALLON, 6);
+    expect(all.formula("F")).toMatch(/\*3\.785411784$/);
+
+    const classBIncidents = summaryRow(book, "Class B", "Incidents");
+    expect(classBIncidents.formula("D")).toContain("SUMIFS(");
+    expect(classBIncidents.value("D")).toBeCloseTo(
+      sum(discharges, "Concentrate (US gal)", (row) => row["Foam class"] === "Class B" && row.Kind === "Incident"),
+      6,
+    );
+    expect(classBIncidents.value("D")).toBeCloseTo(90, 6);
+    expect(summaryRow(book, "Class B", "Training, tests, flushes").value("D")).toBeCloseTo(25, 6);
+    expect(summaryRow(book, "Class A", "All use").value("D")).toBeCloseTo(4, 6);
+    expect(summaryRow(book, pfasProductName).value("D")).toBeCloseTo(100, 6);
+
+    const releases = rowsOf(book, "Releases");
+    const storm = summaryRow(book, "To storm drain");
+    // 60 % of the storm event's 4,003 gal of foam solution.
+    expect(storm.value("C")).toBeCloseTo(0.6 * 4003, 6);
+    expect(storm.value("C")).toBeCloseTo(
+      sum(releases, "Released foam solution (US gal)", (row) => row["Where the runoff went"] === "To storm drain"),
+      6,
+    );
+    expect(summaryRow(book, "Contained and collected").value("C")).toBeCloseTo(0.4 * 4003 + 515, 6);
+    expect(summaryRow(book, "Test Basin North", "Test Creek").value("C")).toBeCloseTo(0.6 * 4003, 6);
+    const stormRelease = releases.find((row) => row["Where the runoff went"] === "To storm drain");
+    expect(stormRelease?.["Event number"]).toBe(stormEventNumber);
+
+    expect(summaryRow(book, "Incident").value("C")).toBe(2);
+    expect(summaryRow(book, "Incident").formula("C")).toMatch(/^COUNTIFS\(Events!/);
+    expect(summaryRow(book, "All events").value("C")).toBe(rowsOf(book, "Events").length);
+    expect(summaryRow(book, "Filed, awaiting review (not counted)").value("B")).toBe(1);
+    expect(rowsOf(book, "Non-incident use").map((row) => row.Kind)).toEqual(["Training", "Flush"]);
+  });
+
+  it("estimates PFAS mass as worked out by hand and checks the 24-hour threshold", async () => {
+    const { book } = await build(quarter(2031, 2), "q2-pfas.xlsx");
+    const pfas = rowsOf(book, "PFAS");
+    expect(pfas).toHaveLength(2);
+    // Worked by hand. Inputs: 90 gal of concentrate (200 gpm foam solution × 15 min × 3 %, the
+    // solution-basis formula of API RP 2021 Appendix K); content 10 g/L, the middle of the 5–15 g/L
+    // range for legacy PFOS AFFF (an old product safety sheet; academic measurements from memory);
+    // 1 US gal = 3.785411784 L and 1 lb = 453.59237 g (NIST Handbook 44); 40 % contained, so 60 % released.
+    // 90 × 3.785411784 = 340.68706056 L × 10 g/L = 3,406.8706056 g; × 0.6 = 2,044.12236336 g = 4.5065184 lb.
+    const storm = pfas[0];
+    expect(storm["PFAS in concentrate used (g)"]).toBeCloseTo(3406.8706056, 6);
+    expect(storm["Estimated PFAS released (g)"]).toBeCloseTo(2044.12236336, 6);
+    expect(storm["Estimated PFAS released (lb)"]).toBeCloseTo(2044.12236336 / 453.59237, 9);
+    expect(storm["Estimated PFAS released (lb)"]).toBeCloseTo(4.5065184, 6);
+    // Reportable threshold 1 lb in 24 h: CERCLA RQ for PFOA/PFOS, 40 CFR 302.4 (89 FR 39124).
+    expect(storm["Threshold reached"]).toBe("Yes");
+    // The flush: 10 gal × 3.785411784 × 10 g/L = 378.5411784 g, all to the sewer (not contained) = 0.834540 lb.
+    const flush = pfas[1];
+    expect(flush["Estimated PFAS released (lb)"]).toBeCloseTo(378.5411784 / GRAMS_PER_POUND, 9);
+    expect(flush["Released in the 24 h from this release (lb)"]).toBeCloseTo(0.83454, 5);
+    expect(flush["Threshold reached"]).toBe("No");
+    const reached = summaryRow(book, "Threshold reached in some 24-hour period");
+    expect(reached.value("C")).toBe("Yes");
+    expect(reached.formula("C")).toMatch(/^IF\(C\d+>=C\d+,"Yes","No"\)$/);
+    expect(summaryRow(book, "Estimated PFAS released (lb)").value("C")).toBeCloseTo(
+      (2044.12236336 + 378.5411784) / 453.59237,
+      9,
+    );
+  });
+
+  it("gives a valid workbook that says so for a period without data", async () => {
+    const { book } = await build(quarter(2033, 1), "empty.xlsx");
+    expect(book.SheetNames).toEqual(SHEETS);
+    expect(summaryRow(book, "No data").value("B")).toMatch(/No accepted reports/);
+    expect(summaryRow(book, "All discharges").value("C")).toBe(0);
+    expect(summaryRow(book, "Threshold reached in some 24-hour period").value("C")).toBe("No");
+    expect(XLSX.utils.sheet_to_json<string[]>(book.Sheets.Discharges, { header: 1 })[1]).toEqual([
+      "No discharges in this period.",
+    ]);
+  });
+});
