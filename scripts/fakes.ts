@@ -1,6 +1,7 @@
 // Starts the local fakes of hosted services on loopback. Each fake registers itself here.
 import { existsSync, mkdirSync } from "node:fs";
 import S3rver from "s3rver";
+import { startFakeSmtp } from "./fake-smtp";
 
 if (existsSync(".env")) process.loadEnvFile(".env");
 
@@ -15,6 +16,10 @@ await new S3rver({
   directory: s3Directory,
   configureBuckets: [{ name: process.env.S3_BUCKET || "foamtally", configs: [] }],
 }).run();
+
+// SMTP on loopback that keeps every message under .data/fake-mail/<port>/ for the outbox page.
+const smtp = await startFakeSmtp({ port: Number(process.env.FAKE_SMTP_PORT || 2525) });
+console.log(`fake SMTP on 127.0.0.1:${smtp.port}, messages in ${smtp.directory}`);
 
 console.log("fakes ready");
 setInterval(() => {}, 1 << 30);

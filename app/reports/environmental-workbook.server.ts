@@ -34,8 +34,6 @@ import {
   type DetailTable,
 } from "./environmental-tables.server";
 
-export const XLSX_TYPE = "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet";
-
 export type SubmissionFacts = { submittedAt: Date; submittedBy: string; sha256: string; fileName: string };
 
 export type WorkbookRequest = {

@@ -1,0 +1,135 @@
+import { readFile } from "node:fs/promises";
+import { recordAudit } from "~/lib/audit.server";
+import { db, type Db } from "~/lib/db.server";
+import type { ReportPeriod } from "~/lib/reporting/period";
+
+export type SubmissionSummary = {
+  id: number;
+  periodFrom: string;
+  periodTo: string;
+  label: string;
+  fileName: string;
+  sha256: string;
+  byteSize: number;
+  acceptedReports: number;
+  submittedAt: Date;
+  submittedBy: string;
+  note: string | null;
+};
+
+const toDay = (value: unknown) =>
+  value instanceof Date ? value.toISOString().slice(0, 10) : String(value).slice(0, 10);
+
+function summaryQuery(connection: Db) {
+  return connection("quarterly_submissions as q")
+    .join("users as u", "u.id", "q.submitted_by")
+    .select(
+      "q.id",
+      "q.period_from",
+      "q.period_to",
+      "q.label",
+      "q.file_name",
+      "q.sha256",
+      "q.byte_size",
+      "q.accepted_reports",
+      "q.submitted_at",
+      "q.note",
+      "u.name as submitted_by_name",
+      "u.email as submitted_by_email",
+    );
+}
+
+function toSummary(row: Record<string, unknown>): SubmissionSummary {
+  return {
+    id: Number(row.id),
+    periodFrom: toDay(row.period_from),
+    periodTo: toDay(row.period_to),
+    label: String(row.label),
+    fileName: String(row.file_name),
+    sha256: String(row.sha256),
+    byteSize: Number(row.byte_size),
+    acceptedReports: Number(row.accepted_reports),
+    submittedAt: row.submitted_at as Date,
+    submittedBy: `${row.submitted_by_name} <${row.submitted_by_email}>`,
+    note: (row.note as string | null) ?? null,
+  };
+}
+
+export async function latestSubmissionFor(
+  period: Pick<ReportPeriod, "from" | "to">,
+  connection: Db = db,
+): Promise<SubmissionSummary | null> {
+  const row = await summaryQuery(connection)
+    .where({ "q.period_from": period.from, "q.period_to": period.to })
+    .orderBy("q.submitted_at", "desc")
+    .orderBy("q.id", "desc")
+    .first();
+  return row ? toSummary(row) : null;
+}
+
+export async function listSubmissions(limit = 50): Promise<SubmissionSummary[]> {
+  const rows = await summaryQuery(db).orderBy("q.submitted_at", "desc").orderBy("q.id", "desc").limit(limit);
+  return rows.map(toSummary);
+}
+
+export async function submissionFile(
+  id: number,
+): Promise<{ fileName: string; contentType: string; content: Buffer; sha256: string } | null> {
+  const row = await db("quarterly_submissions").where({ id }).first("file_name", "content_type", "content", "sha256");
+  return row
+    ? { fileName: row.file_name, contentType: row.content_type, content: row.content, sha256: row.sha256 }
+    : null;
+}
+
+export type NewSubmission = {
+  period: ReportPeriod;
+  filePath: string;
+  fileName: string;
+  contentType: string;
+  sha256: string;
+  byteSize: number;
+  acceptedReports: number;
+  note?: string | null;
+  actor: { id: number; email: string };
+  clientAddress?: string | null;
+};
+
+/** Stores the exact file that was submitted with its digest, and audits it, in one transaction. */
+export async function recordSubmission(submission: NewSubmission): Promise<number> {
+  const content = await readFile(submission.filePath);
+  return db.transaction(async (trx) => {
+    const [id] = await trx("quarterly_submissions").insert({
+      period_from: submission.period.from,
+      period_to: submission.period.to,
+      label: submission.period.label,
+      file_name: submission.fileName,
+      content_type: submission.contentType,
+      content,
+      sha256: submission.sha256,
+      byte_size: submission.byteSize,
+      accepted_reports: submission.acceptedReports,
+      submitted_by: submission.actor.id,
+      note: submission.note ?? null,
+    });
+    await recordAudit(
+      {
+        actorUserId: submission.actor.id,
+        actorLabel: submission.actor.email,
+        action: "quarter_submitted",
+        entityType: "quarterly_submission",
+        entityId: id,
+        summary: `${submission.period.label} marked submitted`,
+        after: {
+          period: [submission.period.from, submission.period.to],
+          fileName: submission.fileName,
+          sha256: submission.sha256,
+          byteSize: submission.byteSize,
+          acceptedReports: submission.acceptedReports,
+        },
+        clientAddress: submission.clientAddress ?? null,
+      },
+      trx,
+    );
+    return id;
+  });
+}

@@ -1,0 +1,242 @@
+import type { Knex } from "knex";
+import { recordAudit } from "~/lib/audit.server";
+import { env } from "~/lib/env.server";
+import { gramsToPoundsMass, isPfasContentUnit, pfasGrams } from "~/lib/foam/pfas";
+import { gallonsToLitres } from "~/lib/foam/units";
+import { XLSX_TYPE } from "~/lib/reporting/files";
+import { localDateTime } from "~/lib/reporting/period";
+import {
+  agencyFacts,
+  DISPOSITION_LABELS,
+  KIND_LABELS,
+  type Disposition,
+  type EventKind,
+} from "./environmental-report.server";
+import { queueMail } from "./mail-outbox.server";
+
+const RELEASE_TO_WATER: Disposition[] = ["storm_drain", "surface_water"];
+
+const gal = (value: number) => `${value.toLocaleString("en-US", { maximumFractionDigits: 2 })} US gal`;
+const galAndLitres = (value: number) =>
+  `${gal(value)} (${gallonsToLitres(value).toLocaleString("en-US", { maximumFractionDigits: 1 })} L)`;
+
+export function eventLink(eventId: number): string {
+  return `${env().APP_URL.replace(/\/$/, "")}/events/${eventId}`;
+}
+
+async function environmentalOfficerEmails(trx: Knex.Transaction): Promise<string[]> {
+  return trx("users")
+    .join("user_roles", "user_roles.user_id", "users.id")
+    .where({ "user_roles.role": "environmental", "users.active": true })
+    .pluck("users.email");
+}
+
+/**
+ * Queues a release alert when a filed report used PFAS-containing foam or sent runoff to a storm
+ * drain or surface water. Call it inside the filing transaction; `deliverPendingMail` sends after commit.
+ */
+export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transaction): Promise<void> {
+  const event = await trx("events as e")
+    .leftJoin("stations as s", "s.id", "e.station_id")
+    .where("e.id", eventId)
+    .select("e.*", "s.code as station_code", "s.name as station_name")
+    .first();
+  if (!event) return;
+  const pfasLines: {
+    name: string;
+    pfas_content: string | null;
+    pfas_content_unit: string | null;
+    pfas_content_source: string | null;
+    concentrate: string;
+  }[] = await trx("discharges as d")
+    .join("foam_products as p", "p.id", "d.product_id")
+    .where({ "d.event_id": eventId, "p.pfas_containing": true })
+    .groupBy("p.id")
+    .select("p.name", "p.pfas_content", "p.pfas_content_unit", "p.pfas_content_source")
+    .sum({ concentrate: "d.concentrate_gal" });
+  const dispositions = await trx("runoff_dispositions").where({ event_id: eventId }).orderBy("id");
+  const solution = Number(event.solution_gal);
+  const releasedOf = (row: { volume_gal: string | null; share_percent: string | null }) =>
+    row.volume_gal !== null ? Number(row.volume_gal) : (Number(row.share_percent ?? 0) / 100) * solution;
+  const toWater = dispositions.filter((row) => RELEASE_TO_WATER.includes(row.disposition));
+  if (pfasLines.length === 0 && toWater.length === 0) return;
+
+  const agency = await agencyFacts(trx);
+  const recipients = [...agency.releaseAlertRecipients, ...(await environmentalOfficerEmails(trx))];
+  const contained = dispositions
+    .filter((row) => row.disposition === "contained")
+    .reduce((total, row) => total + releasedOf(row), 0);
+  const shareNotContained = solution > 0 ? Math.min(1, Math.max(0, 1 - contained / solution)) : 1;
+
+  const lines: string[] = [
+    `Report ${event.number} (${KIND_LABELS[event.kind as EventKind]}) was filed and needs your attention.`,
+    "",
+    `Open it: ${eventLink(eventId)}`,
+    "",
+    `Started: ${event.started_at ? `${localDateTime(event.started_at, agency.timeZone)} (${agency.timeZone})` : "not given"}`,
+    `Where: ${event.address || "no address"}${event.station_code ? ` — station ${event.station_code} ${event.station_name}` : ""}`,
+    `Drainage basin: ${event.drainage_basin || "not placed"}; nearest waterway: ${
+      event.nearest_waterway
+        ? `${event.nearest_waterway}${event.nearest_waterway_m !== null ? ` at ${Math.round(Number(event.nearest_waterway_m))} m` : ""}`
+        : "not placed"
+    }`,
+    "",
+    `Water: ${galAndLitres(Number(event.water_gal))}`,
+    `Concentrate: ${galAndLitres(Number(event.concentrate_gal))}`,
+    `Foam solution: ${galAndLitres(solution)}`,
+  ];
+  if (pfasLines.length > 0) {
+    lines.push("", "PFAS-containing foam used:");
+    let pounds = 0;
+    let unknown = false;
+    for (const line of pfasLines) {
+      const concentrate = Number(line.concentrate);
+      const content = line.pfas_content === null ? null : Number(line.pfas_content);
+      if (content === null || !isPfasContentUnit(line.pfas_content_unit)) {
+        unknown = true;
+        lines.push(`- ${line.name}: ${galAndLitres(concentrate)} of concentrate; PFAS content not recorded`);
+        continue;
+      }
+      const grams = pfasGrams(concentrate, content, line.pfas_content_unit) * shareNotContained;
+      pounds += gramsToPoundsMass(grams);
+      lines.push(
+        `- ${line.name}: ${galAndLitres(concentrate)} of concentrate; estimated PFAS released ${grams.toLocaleString(
+          "en-US",
+          {
+            maximumFractionDigits: 1,
+          },
+        )} g (${gramsToPoundsMass(grams).toLocaleString("en-US", { maximumFractionDigits: 3 })} lb), content source: ${
+          line.pfas_content_source || "not stated"
+        }`,
+      );
+    }
+    lines.push(
+      `Share of the foam solution not contained: ${(shareNotContained * 100).toFixed(1)} %${dispositions.length === 0 ? " (no runoff recorded: all counted as released)" : ""}`,
+      `Estimated PFAS released by this report: ${pounds.toLocaleString("en-US", { maximumFractionDigits: 3 })} lb` +
+        `${unknown ? " plus products with no content recorded" : ""}; the agency's threshold is ${agency.pfasReportableLb} lb in any 24 hours ` +
+        `(default 1 lb: CERCLA reportable quantity for PFOA/PFOS, 40 CFR 302.4). ${
+          pounds >= agency.pfasReportableLb
+            ? "This report alone reaches it."
+            : "Other releases within 24 hours add to it."
+        }`,
+    );
+  }
+  if (dispositions.length > 0) {
+    lines.push("", "Where the runoff went:");
+    for (const row of dispositions) {
+      lines.push(
+        `- ${DISPOSITION_LABELS[row.disposition as Disposition]}: ${galAndLitres(releasedOf(row))}` +
+          `${row.receiving_water ? ` to ${row.receiving_water}` : ""}${row.disposal_reference ? `; disposal ${row.disposal_reference}` : ""}` +
+          `${row.sewer_notice ? `; notice ${row.sewer_notice}` : ""}`,
+      );
+    }
+  }
+  lines.push(
+    "",
+    "These figures are estimates from the report as filed. State and local law decide whether and when a release must be reported — some states require a report of a PFAS foam release within 24 hours. Contain and collect what remains and keep it out of drains and waterways.",
+  );
+  const reasons = [
+    pfasLines.length > 0 ? "PFAS-containing foam" : "",
+    toWater.length > 0 ? "runoff to a drain or water" : "",
+  ]
+    .filter(Boolean)
+    .join(" and ");
+  await queueMail(
+    {
+      kind: "release_alert",
+      to: recipients,
+      subject: `Release alert: report ${event.number} — ${reasons}`,
+      text: lines.join("\n"),
+      eventId,
+    },
+    trx,
+  );
+}
+
+/** Queues the reviewer's comment to the officer who wrote the returned report. */
+export async function queueReturnedReportNotice(
+  eventId: number,
+  comment: string,
+  trx: Knex.Transaction,
+): Promise<void> {
+  const event = await trx("events as e")
+    .join("users as u", "u.id", "e.created_by")
+    .where("e.id", eventId)
+    .select("e.number", "e.kind", "u.email", "u.name")
+    .first();
+  if (!event) return;
+  await queueMail(
+    {
+      kind: "returned_report",
+      to: [event.email],
+      subject: `Report ${event.number} was returned for changes`,
+      text: [
+        `${event.name}, your usage report ${event.number} (${KIND_LABELS[event.kind as EventKind]}) was returned with this comment:`,
+        "",
+        comment,
+        "",
+        `Open it to make the changes and file it again: ${eventLink(eventId)}`,
+      ].join("\n"),
+      eventId,
+    },
+    trx,
+  );
+}
+
+export class NoRecipientsError extends Error {}
+
+/**
+ * Queues the period's workbook, as an attachment, to the agency's report recipients. Throws
+ * NoRecipientsError when none are set, so the page can say where to set them.
+ */
+export async function queueQuarterlyWorkbookMail(
+  mail: {
+    periodLabel: string;
+    fileName: string;
+    content: Buffer;
+    sha256: string;
+    submissionId?: number | null;
+    sentBy: { id: number; name: string; email: string };
+    clientAddress?: string | null;
+  },
+  trx: Knex.Transaction,
+): Promise<number> {
+  const agency = await agencyFacts(trx);
+  if (agency.reportRecipients.length === 0) {
+    throw new NoRecipientsError("No report recipients are set in the agency settings.");
+  }
+  const id = await queueMail(
+    {
+      kind: "quarterly_workbook",
+      to: agency.reportRecipients,
+      subject: `${agency.name}: foam use and runoff summary, ${mail.periodLabel}`,
+      text: [
+        `Attached is the foam use and runoff summary of ${agency.name} for ${mail.periodLabel}, sent by ${mail.sentBy.name} <${mail.sentBy.email}>.`,
+        "",
+        `File: ${mail.fileName}`,
+        `SHA-256: ${mail.sha256}`,
+        mail.submissionId
+          ? "This is the file recorded as submitted for the period."
+          : "This period has not been marked as submitted; the file is a current copy.",
+        "",
+        "The figures are estimates computed from the officers' reports; the workbook's Method and cautions sheet explains how.",
+      ].join("\n"),
+      attachment: { filename: mail.fileName, contentType: XLSX_TYPE, content: mail.content },
+      submissionId: mail.submissionId ?? null,
+    },
+    trx,
+  );
+  await recordAudit(
+    {
+      actorUserId: mail.sentBy.id,
+      actorLabel: mail.sentBy.email,
+      action: "quarterly_workbook_queued",
+      entityType: "mail_outbox",
+      entityId: id,
+      summary: `${mail.periodLabel} to ${agency.reportRecipients.join(", ")}`,
+      clientAddress: mail.clientAddress ?? null,
+    },
+    trx,
+  );
+  return id ?? 0;
+}
