@@ -15,5 +15,11 @@ export default [
   route("api/totals", "routes/api.totals.ts"),
   route("api/events", "routes/api.events.ts"),
   route("api/events/:id", "routes/api.events.$id.ts"),
+  route("products", "routes/products.tsx"),
+  route("products/:productId", "routes/products.$productId.tsx"),
+  route("products/:productId/safety-sheet", "routes/products.$productId.safety-sheet.ts"),
+  route("apparatus", "routes/apparatus.tsx"),
+  route("apparatus/:apparatusId", "routes/apparatus.$apparatusId.tsx"),
+  route("stations/:stationId", "routes/stations.$stationId.tsx"),
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

@@ -6,6 +6,8 @@ export type NavItem = { to: string; label: string; roles: Role[] };
 export const NAV_ITEMS: NavItem[] = [
   { to: "/", label: "Home", roles: [] },
   { to: "/admin/users", label: "People and roles", roles: ["admin", "chief"] },
+  { to: "/products", label: "Foam products", roles: ["environmental", "chief"] },
+  { to: "/apparatus", label: "Apparatus and stations", roles: ["chief", "admin"] },
 ];
 
 export function navFor(roles: readonly Role[]): NavItem[] {

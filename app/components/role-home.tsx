@@ -9,13 +9,19 @@ export const ROLE_TASKS: Record<Role, Task[]> = {
   environmental: [
     { label: "Review filed reports", note: "Review is being built." },
     { label: "Quarterly runoff and PFAS summaries", note: "Exports are being built." },
+    { label: "Foam products: PFAS content and safety sheets", to: "/products" },
   ],
   chief: [
     { label: "Usage across the district on the map", note: "The usage map is being built." },
     { label: "People and roles", to: "/admin/users" },
+    { label: "Apparatus, foam systems and stations", to: "/apparatus" },
+    { label: "Foam products", to: "/products" },
   ],
   records: [{ label: "Public-records requests", note: "Records requests are planned and not yet available." }],
-  admin: [{ label: "People and roles", to: "/admin/users" }],
+  admin: [
+    { label: "People and roles", to: "/admin/users" },
+    { label: "Apparatus and stations", to: "/apparatus" },
+  ],
 };
 
 export function RoleHome({ roles }: { roles: Role[] }) {

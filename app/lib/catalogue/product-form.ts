@@ -109,6 +109,11 @@ export const ProductFormSchema = z
     unitCostPerGal: optionalNonNegative("The unit cost"),
     active: checkbox,
     notes: optionalText(4000, "The notes"),
+    safetySheet: z
+      .file({ error: "Choose a PDF file." })
+      .max(SAFETY_SHEET_MAX_BYTES, `A safety sheet is at most ${SAFETY_SHEET_MAX_BYTES / 1024 / 1024} MB.`)
+      .mime(["application/pdf"], "A safety sheet must be a PDF file.")
+      .optional(),
   })
   .superRefine((value, ctx) => {
     if (value.foamClass === "A" && value.foamType !== "class-a" && value.foamType !== "other") {
@@ -140,3 +145,8 @@ export const ProductFormSchema = z
   });
 
 export type ProductFormValue = z.infer<typeof ProductFormSchema>;
+
+/** Whether the bytes start like a PDF document ("%PDF-"), whatever the browser said the type was. */
+export function looksLikePdf(bytes: Uint8Array): boolean {
+  return bytes.length >= 5 && String.fromCharCode(...bytes.slice(0, 5)) === "%PDF-";
+}

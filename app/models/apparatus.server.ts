@@ -1,0 +1,229 @@
+import { recordAudit } from "~/lib/audit.server";
+import type { SessionUser } from "~/lib/auth.server";
+import type { ApparatusFormValue, StationFormValue } from "~/lib/catalogue/apparatus-form";
+import { db } from "~/lib/db.server";
+import { numberOrNull, type OutletDefaults } from "./catalogue.server";
+
+export type StationRecord = {
+  id: number;
+  code: string;
+  name: string;
+  address: string;
+  latitude: number | null;
+  longitude: number | null;
+  active: boolean;
+};
+
+function stationOf(row: Record<string, unknown>): StationRecord {
+  return {
+    id: row.id as number,
+    code: row.code as string,
+    name: row.name as string,
+    address: (row.address as string) ?? "",
+    latitude: numberOrNull(row.latitude),
+    longitude: numberOrNull(row.longitude),
+    active: Boolean(row.active),
+  };
+}
+
+export type ApparatusRecord = {
+  id: number;
+  unitId: string;
+  description: string;
+  stationId: number | null;
+  stationCode: string | null;
+  concentrateTankGal: number | null;
+  proportionerMaxConcentrateGpm: number | null;
+  waterFlowMinGpm: number | null;
+  waterFlowMaxGpm: number | null;
+  compressedAirCfm: number | null;
+  active: boolean;
+  outlets: OutletDefaults[];
+};
+
+function apparatusOf(row: Record<string, unknown>, outlets: Array<Record<string, unknown>>): ApparatusRecord {
+  return {
+    id: row.id as number,
+    unitId: row.unit_id as string,
+    description: (row.description as string) ?? "",
+    stationId: (row.station_id as number | null) ?? null,
+    stationCode: (row.station_code as string | null) ?? null,
+    concentrateTankGal: numberOrNull(row.concentrate_tank_gal),
+    proportionerMaxConcentrateGpm: numberOrNull(row.proportioner_max_concentrate_gpm),
+    waterFlowMinGpm: numberOrNull(row.water_flow_min_gpm),
+    waterFlowMaxGpm: numberOrNull(row.water_flow_max_gpm),
+    compressedAirCfm: numberOrNull(row.compressed_air_cfm),
+    active: Boolean(row.active),
+    outlets: outlets
+      .filter((outlet) => outlet.apparatus_id === row.id)
+      .map((outlet) => ({
+        name: outlet.name as string,
+        foamCapable: Boolean(outlet.foam_capable),
+        defaultFlowGpm: numberOrNull(outlet.default_flow_gpm),
+        defaultFlowBasis: outlet.default_flow_basis === "solution" ? "solution" : "water",
+        defaultMethod: (outlet.default_method as OutletDefaults["defaultMethod"]) ?? null,
+      })),
+  };
+}
+
+export async function listStations(): Promise<StationRecord[]> {
+  return (await db("stations").orderBy("code")).map(stationOf);
+}
+
+export async function getStation(id: number): Promise<StationRecord | null> {
+  const row = await db("stations").where({ id }).first();
+  return row ? stationOf(row) : null;
+}
+
+const apparatusColumns = ["apparatus.*", "stations.code as station_code"];
+
+export async function listApparatus(): Promise<ApparatusRecord[]> {
+  const [rows, outlets] = await Promise.all([
+    db("apparatus")
+      .leftJoin("stations", "stations.id", "apparatus.station_id")
+      .select(apparatusColumns)
+      .orderBy("apparatus.unit_id"),
+    db("apparatus_outlets").orderBy(["apparatus_id", "id"]),
+  ]);
+  return rows.map((row) => apparatusOf(row, outlets));
+}
+
+export async function getApparatus(id: number): Promise<ApparatusRecord | null> {
+  const row = await db("apparatus")
+    .leftJoin("stations", "stations.id", "apparatus.station_id")
+    .where("apparatus.id", id)
+    .first(apparatusColumns);
+  if (!row) return null;
+  const outlets = await db("apparatus_outlets").where({ apparatus_id: id }).orderBy("id");
+  return apparatusOf(row, outlets);
+}
+
+export class DuplicateCodeError extends Error {}
+export class UnknownStationError extends Error {}
+
+/** Creates (id null) or updates a station with its audit row; null when the station does not exist. */
+export async function saveStation(
+  id: number | null,
+  value: StationFormValue,
+  actor: SessionUser,
+  clientAddress?: string,
+): Promise<number | null> {
+  return db.transaction(async (trx) => {
+    const clash = await trx("stations")
+      .where({ code: value.code })
+      .modify((query) => {
+        if (id != null) query.whereNot({ id });
+      })
+      .first("id");
+    if (clash) throw new DuplicateCodeError(value.code);
+    const columns = {
+      code: value.code,
+      name: value.name,
+      address: value.address,
+      latitude: value.latitude,
+      longitude: value.longitude,
+      active: value.active,
+    };
+    let before: StationRecord | undefined;
+    let savedId: number;
+    if (id == null) {
+      [savedId] = await trx("stations").insert(columns);
+    } else {
+      const row = await trx("stations").where({ id }).forUpdate().first();
+      if (!row) return null;
+      before = stationOf(row);
+      await trx("stations").where({ id }).update(columns);
+      savedId = id;
+    }
+    await recordAudit(
+      {
+        actorUserId: actor.id,
+        actorLabel: actor.email,
+        action: id == null ? "station_created" : "station_updated",
+        entityType: "station",
+        entityId: savedId,
+        summary: `${value.code} ${value.name}`,
+        before,
+        after: { ...columns },
+        clientAddress,
+      },
+      trx,
+    );
+    return savedId;
+  });
+}
+
+/**
+ * Creates (id null) or updates an apparatus, its foam system and its outlets (replaced as a set)
+ * with one audit row, in one transaction. Null when the apparatus does not exist.
+ */
+export async function saveApparatus(
+  id: number | null,
+  value: ApparatusFormValue,
+  actor: SessionUser,
+  clientAddress?: string,
+): Promise<number | null> {
+  return db.transaction(async (trx) => {
+    const clash = await trx("apparatus")
+      .where({ unit_id: value.unitId })
+      .modify((query) => {
+        if (id != null) query.whereNot({ id });
+      })
+      .first("id");
+    if (clash) throw new DuplicateCodeError(value.unitId);
+    if (value.stationId != null && !(await trx("stations").where({ id: value.stationId }).first("id"))) {
+      throw new UnknownStationError(String(value.stationId));
+    }
+    const columns = {
+      unit_id: value.unitId,
+      description: value.description,
+      station_id: value.stationId ?? null,
+      concentrate_tank_gal: value.concentrateTankGal,
+      proportioner_max_concentrate_gpm: value.proportionerMaxConcentrateGpm,
+      water_flow_min_gpm: value.waterFlowMinGpm,
+      water_flow_max_gpm: value.waterFlowMaxGpm,
+      compressed_air_cfm: value.compressedAirCfm,
+      active: value.active,
+    };
+    let before: ApparatusRecord | null = null;
+    let savedId: number;
+    if (id == null) {
+      [savedId] = await trx("apparatus").insert(columns);
+    } else {
+      const row = await trx("apparatus").where({ id }).forUpdate().first();
+      if (!row) return null;
+      const outlets = await trx("apparatus_outlets").where({ apparatus_id: id }).orderBy("id");
+      before = apparatusOf(row, outlets);
+      await trx("apparatus").where({ id }).update(columns);
+      await trx("apparatus_outlets").where({ apparatus_id: id }).delete();
+      savedId = id;
+    }
+    if (value.outlets.length) {
+      await trx("apparatus_outlets").insert(
+        value.outlets.map((outlet) => ({
+          apparatus_id: savedId,
+          name: outlet.name,
+          foam_capable: outlet.foamCapable,
+          default_flow_gpm: outlet.defaultFlowGpm,
+          default_flow_basis: outlet.defaultFlowBasis,
+          default_method: outlet.defaultMethod ?? null,
+        })),
+      );
+    }
+    await recordAudit(
+      {
+        actorUserId: actor.id,
+        actorLabel: actor.email,
+        action: id == null ? "apparatus_created" : "apparatus_updated",
+        entityType: "apparatus",
+        entityId: savedId,
+        summary: value.unitId,
+        before: before ?? undefined,
+        after: { ...columns, outlets: value.outlets },
+        clientAddress,
+      },
+      trx,
+    );
+    return savedId;
+  });
+}

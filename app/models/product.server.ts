@@ -1,0 +1,151 @@
+import { randomUUID } from "node:crypto";
+import { recordAudit } from "~/lib/audit.server";
+import type { SessionUser } from "~/lib/auth.server";
+import type { FoamType, PfasContentUnit, ProductFormValue } from "~/lib/catalogue/product-form";
+import { db } from "~/lib/db.server";
+import type { FoamClass } from "~/lib/foam/totals";
+import { deleteObjectQuietly, putObject } from "~/lib/storage.server";
+import { nominalPercentsOf, numberOrNull } from "./catalogue.server";
+
+export type ProductRecord = {
+  id: number;
+  name: string;
+  maker: string;
+  foamClass: FoamClass;
+  foamType: FoamType;
+  nominalPercents: number[];
+  pfasContaining: boolean;
+  pfasContent: number | null;
+  pfasContentUnit: PfasContentUnit | null;
+  pfasContentBasis: string | null;
+  pfasContentSource: string | null;
+  unitCostPerGal: number | null;
+  safetySheetName: string | null;
+  hasSafetySheet: boolean;
+  active: boolean;
+  notes: string | null;
+};
+
+function recordOf(row: Record<string, unknown>): ProductRecord {
+  return {
+    id: row.id as number,
+    name: row.name as string,
+    maker: (row.maker as string) ?? "",
+    foamClass: row.foam_class as FoamClass,
+    foamType: row.foam_type as FoamType,
+    nominalPercents: nominalPercentsOf(row.nominal_percents as string),
+    pfasContaining: Boolean(row.pfas_containing),
+    pfasContent: numberOrNull(row.pfas_content),
+    pfasContentUnit: (row.pfas_content_unit as PfasContentUnit | null) ?? null,
+    pfasContentBasis: (row.pfas_content_basis as string | null) ?? null,
+    pfasContentSource: (row.pfas_content_source as string | null) ?? null,
+    unitCostPerGal: numberOrNull(row.unit_cost_per_gal),
+    safetySheetName: (row.safety_sheet_name as string | null) ?? null,
+    hasSafetySheet: Boolean(row.safety_sheet_key),
+    active: Boolean(row.active),
+    notes: (row.notes as string | null) ?? null,
+  };
+}
+
+export async function listProducts(): Promise<ProductRecord[]> {
+  const rows = await db("foam_products").orderBy([{ column: "active", order: "desc" }, "name"]);
+  return rows.map(recordOf);
+}
+
+export async function getProduct(id: number): Promise<ProductRecord | null> {
+  const row = await db("foam_products").where({ id }).first();
+  return row ? recordOf(row) : null;
+}
+
+export async function getSafetySheetKey(id: number): Promise<{ key: string; name: string } | null> {
+  const row = await db("foam_products").where({ id }).first("safety_sheet_key", "safety_sheet_name");
+  return row?.safety_sheet_key
+    ? { key: row.safety_sheet_key, name: row.safety_sheet_name ?? "safety-sheet.pdf" }
+    : null;
+}
+
+export class DuplicateProductNameError extends Error {}
+
+function columnsOf(value: ProductFormValue) {
+  return {
+    name: value.name,
+    maker: value.maker ?? "",
+    foam_class: value.foamClass,
+    foam_type: value.foamType,
+    nominal_percents: value.nominalPercents.join(","),
+    pfas_containing: value.pfasContaining,
+    pfas_content: value.pfasContent,
+    pfas_content_unit: value.pfasContent == null ? null : (value.pfasContentUnit ?? null),
+    pfas_content_basis: value.pfasContentBasis,
+    pfas_content_source: value.pfasContentSource,
+    unit_cost_per_gal: value.unitCostPerGal,
+    active: value.active,
+    notes: value.notes,
+  };
+}
+
+export type SafetySheetUpload = { name: string; contentType: string; body: Uint8Array };
+
+/**
+ * Creates (id null) or updates a product with its audit row in one transaction. A new safety sheet
+ * is stored first; if the database save then fails, the stored file is removed again.
+ * Returns the id, or null when the product to update does not exist.
+ */
+export async function saveProduct(
+  id: number | null,
+  value: ProductFormValue,
+  safetySheet: SafetySheetUpload | null,
+  actor: SessionUser,
+  clientAddress?: string,
+): Promise<number | null> {
+  let sheetKey: string | null = null;
+  if (safetySheet) {
+    sheetKey = `safety-sheets/${randomUUID()}.pdf`;
+    await putObject(sheetKey, safetySheet.body, safetySheet.contentType);
+  }
+  try {
+    return await db.transaction(async (trx) => {
+      const clash = await trx("foam_products")
+        .where({ name: value.name })
+        .modify((query) => {
+          if (id != null) query.whereNot({ id });
+        })
+        .first("id");
+      if (clash) throw new DuplicateProductNameError(value.name);
+      const columns = {
+        ...columnsOf(value),
+        ...(sheetKey ? { safety_sheet_key: sheetKey, safety_sheet_name: safetySheet!.name } : {}),
+      };
+      let savedId: number;
+      let before: ProductRecord | undefined;
+      if (id == null) {
+        [savedId] = await trx("foam_products").insert(columns);
+      } else {
+        const row = await trx("foam_products").where({ id }).forUpdate().first();
+        if (!row) return null;
+        before = recordOf(row);
+        await trx("foam_products").where({ id }).update(columns);
+        savedId = id;
+      }
+      const after = recordOf((await trx("foam_products").where({ id: savedId }).first())!);
+      await recordAudit(
+        {
+          actorUserId: actor.id,
+          actorLabel: actor.email,
+          action: id == null ? "product_created" : "product_updated",
+          entityType: "foam_product",
+          entityId: savedId,
+          summary: sheetKey ? `${value.name}; safety sheet ${safetySheet!.name}` : value.name,
+          before,
+          after,
+          clientAddress,
+        },
+        trx,
+      );
+      return savedId;
+    });
+  } catch (error) {
+    if (sheetKey) await deleteObjectQuietly(sheetKey);
+    throw error;
+  }
+}

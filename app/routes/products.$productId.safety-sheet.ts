@@ -1,0 +1,31 @@
+import type { Route } from "./+types/products.$productId.safety-sheet";
+import { requireUser } from "~/lib/auth.server";
+import { httpError, invariantResponse } from "~/lib/http.server";
+import { getObject, StorageUnavailableError } from "~/lib/storage.server";
+import { getSafetySheetKey } from "~/models/product.server";
+
+// Safety sheets are for everyone who handles foam, so any signed-in person may read them.
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireUser(request);
+  const id = Number(params.productId);
+  invariantResponse(Number.isInteger(id) && id > 0, "No such product.");
+  const sheet = await getSafetySheetKey(id);
+  invariantResponse(sheet, "This product has no safety sheet.");
+  try {
+    const file = await getObject(sheet.key);
+    const filename = sheet.name.replace(/[^\w.-]+/g, "_");
+    return new Response(new Uint8Array(file.body), {
+      headers: {
+        "Content-Type": "application/pdf",
+        "Content-Disposition": `attachment; filename="${filename}"`,
+        "Cache-Control": "private, no-store",
+        "X-Content-Type-Options": "nosniff",
+      },
+    });
+  } catch (error) {
+    if (error instanceof StorageUnavailableError) {
+      httpError(503, "The file store is not answering right now; please try again in a minute.");
+    }
+    throw error;
+  }
+}

@@ -1,0 +1,98 @@
+import { getFormProps, useForm } from "@conform-to/react";
+import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
+import { data, Form, Link, redirect } from "react-router";
+import type { Route } from "./+types/stations.$stationId";
+import { CheckboxField } from "~/components/catalogue-fields";
+import { FormErrors, TextField } from "~/components/form-fields";
+import { requireUser } from "~/lib/auth.server";
+import { StationFormSchema } from "~/lib/catalogue/apparatus-form";
+import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
+import { flashHeaders } from "~/lib/session.server";
+import { DuplicateCodeError, getStation, saveStation } from "~/models/apparatus.server";
+
+const MANAGERS = ["chief", "admin"] as const;
+
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: `${data?.station ? `Station ${data.station.code}` : "New station"} · Foamtally` },
+];
+
+function stationIdOf(params: { stationId?: string }): number | null {
+  if (params.stationId === "new") return null;
+  const id = Number(params.stationId);
+  if (!Number.isInteger(id) || id <= 0) httpError(404, "No such station.");
+  return id;
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireUser(request, [...MANAGERS]);
+  const id = stationIdOf(params);
+  if (id == null) return { station: null };
+  const station = await getStation(id);
+  invariantResponse(station, "No such station.");
+  return { station };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request, [...MANAGERS]);
+  const id = stationIdOf(params);
+  const submission = parseWithZod(await request.formData(), { schema: StationFormSchema });
+  if (submission.status !== "success") return data({ result: submission.reply() }, { status: 400 });
+  try {
+    const saved = await saveStation(id, submission.value, user, clientAddress(request));
+    invariantResponse(saved, "No such station.");
+  } catch (error) {
+    if (!(error instanceof DuplicateCodeError)) throw error;
+    return data(
+      { result: submission.reply({ fieldErrors: { code: ["Another station has this code."] } }) },
+      { status: 400 },
+    );
+  }
+  throw redirect("/apparatus", {
+    headers: await flashHeaders(request, `Saved station ${submission.value.code}.`),
+  });
+}
+
+export default function StationPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { station } = loaderData;
+  const [form, fields] = useForm({
+    id: "station",
+    lastResult: actionData?.result,
+    constraint: getZodConstraint(StationFormSchema),
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseWithZod(formData, { schema: StationFormSchema }),
+    defaultValue: station
+      ? {
+          code: station.code,
+          name: station.name,
+          address: station.address,
+          latitude: station.latitude?.toString(),
+          longitude: station.longitude?.toString(),
+          active: station.active ? "on" : undefined,
+        }
+      : { active: "on" },
+  });
+  return (
+    <div className="max-w-xl space-y-6">
+      <p>
+        <Link to="/apparatus" className="text-pond-700 underline">
+          ← Apparatus and stations
+        </Link>
+      </p>
+      <h1 className="text-2xl font-bold">{station ? `Station ${station.code}` : "Add a station"}</h1>
+      <Form method="post" className="card space-y-4" {...getFormProps(form)}>
+        <FormErrors id={form.errorId} errors={form.errors} />
+        <TextField label="Code" field={fields.code} hint="Short, e.g. S1." autoComplete="off" />
+        <TextField label="Name" field={fields.name} autoComplete="off" />
+        <TextField label="Address" field={fields.address} autoComplete="off" />
+        <div className="grid gap-4 sm:grid-cols-2">
+          <TextField label="Latitude" field={fields.latitude} inputMode="decimal" hint="Decimal degrees, WGS 84." />
+          <TextField label="Longitude" field={fields.longitude} inputMode="decimal" hint="West is negative." />
+        </div>
+        <CheckboxField label="Open (in service)" field={fields.active} />
+        <button type="submit" className="btn-primary">
+          {station ? "Save station" : "Add station"}
+        </button>
+      </Form>
+    </div>
+  );
+}
