@@ -5,6 +5,9 @@ export type NavItem = { to: string; label: string; roles: Role[] };
 /** What each role may open; the server checks the same roles on every route. */
 export const NAV_ITEMS: NavItem[] = [
   { to: "/", label: "Home", roles: [] },
+  { to: "/events/new", label: "New report", roles: ["officer"] },
+  { to: "/events", label: "Events", roles: ["officer", "environmental", "chief", "records"] },
+  { to: "/events?status=filed", label: "To review", roles: ["environmental", "chief"] },
   { to: "/admin/users", label: "People and roles", roles: ["admin", "chief"] },
   { to: "/products", label: "Foam products", roles: ["environmental", "chief"] },
   { to: "/apparatus", label: "Apparatus and stations", roles: ["chief", "admin"] },

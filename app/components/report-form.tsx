@@ -1,0 +1,640 @@
+import {
+  getFormProps,
+  getInputProps,
+  getSelectProps,
+  getTextareaProps,
+  useForm,
+  type FieldMetadata,
+  type SubmissionResult,
+} from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
+import { useEffect, useMemo, useRef } from "react";
+import { Form, useFetcher, useNavigation } from "react-router";
+import type { z } from "zod";
+import {
+  APPLICATION_METHOD_LABELS,
+  APPLICATION_METHODS,
+  DISPOSITION_LABELS,
+  DISPOSITIONS,
+  DraftPayloadSchema,
+  EVENT_KIND_LABELS,
+  EVENT_KINDS,
+  FiledReportSchema,
+  FLOW_BASIS_LABELS,
+  MAX_DISCHARGE_MINUTES,
+  minutesBetween,
+  type EventStatus,
+} from "~/lib/foam/report-schema";
+import type { UsageWarning } from "~/lib/foam/totals";
+import { ErrorList, FormErrors } from "./form-fields";
+import { UsageCautions } from "./usage-cautions";
+
+export type ProductOption = {
+  id: number;
+  name: string;
+  foamClass: "A" | "B";
+  nominalPercents: number[];
+  pfasContaining: boolean;
+};
+export type OutletOption = {
+  name: string;
+  foamCapable: boolean;
+  defaultFlowGpm: number | null;
+  defaultFlowBasis: "water" | "solution";
+  defaultMethod: string | null;
+};
+export type ApparatusOption = {
+  id: number;
+  unitId: string;
+  description: string;
+  compressedAirCfm: number | null;
+  outlets: OutletOption[];
+};
+export type StationOption = { id: number; code: string; name: string };
+
+export type ReportFormProps = {
+  lastResult?: SubmissionResult<string[]> | null;
+  defaultValue: Record<string, unknown>;
+  eventId?: number;
+  version?: number;
+  status?: EventStatus;
+  submissionKey: string;
+  stations: StationOption[];
+  apparatus: ApparatusOption[];
+  products: ProductOption[];
+  locationPicker?: (props: {
+    latitude: FieldMetadata<number | undefined>;
+    longitude: FieldMetadata<number | undefined>;
+    address: FieldMetadata<string | undefined>;
+  }) => React.ReactNode;
+};
+
+type TotalsVolume = { gal: number; L: number };
+type TotalsResponse = {
+  discharges?: Array<{
+    water: TotalsVolume;
+    concentrate: TotalsVolume;
+    solution: TotalsVolume;
+    effectivePercent: number | null;
+    warnings: UsageWarning[];
+  }>;
+  totals?: { water: TotalsVolume; concentrate: TotalsVolume; solution: TotalsVolume };
+  error?: string;
+};
+
+type ReportShape = z.input<typeof FiledReportSchema>;
+
+const NEW_DISCHARGE = { flowUnit: "gpm", basis: "water" };
+const NEW_DISPOSITION = { disposition: "evaporated_unknown" };
+
+const number = (value: unknown) => {
+  if (typeof value !== "string" || value.trim() === "") return undefined;
+  const parsed = Number(value);
+  return Number.isFinite(parsed) ? parsed : undefined;
+};
+
+/** The lines complete enough for the server to compute, with their place in the form. */
+function computableLines(lines: unknown): Array<{ index: number; line: Record<string, unknown> }> {
+  if (!Array.isArray(lines)) return [];
+  return lines.flatMap((raw, index) => {
+    const line = (raw ?? {}) as Record<string, string | undefined>;
+    const flow = number(line.flow);
+    const minutes = number(line.minutes) ?? minutesBetween(line.startedAt, line.endedAt) ?? undefined;
+    const productId = number(line.productId);
+    const percent = number(line.percent);
+    if (!flow || flow <= 0 || !minutes || minutes <= 0 || minutes > MAX_DISCHARGE_MINUTES) return [];
+    if (productId && (!percent || percent <= 0 || percent >= 100)) return [];
+    return [
+      {
+        index,
+        line: {
+          flow,
+          flowUnit: line.flowUnit === "lpm" ? "lpm" : "gpm",
+          basis: line.basis === "solution" ? "solution" : "water",
+          percent: productId ? percent : null,
+          minutes,
+          productId: productId ?? null,
+          apparatusId: number(line.apparatusId) ?? null,
+        },
+      },
+    ];
+  });
+}
+
+function formatGallons(value: number | undefined) {
+  return value == null ? "—" : value.toLocaleString("en-US", { maximumFractionDigits: 2 });
+}
+
+export function ReportForm(props: ReportFormProps) {
+  const navigation = useNavigation();
+  const totalsFetcher = useFetcher<TotalsResponse>();
+  const [form, fields] = useForm<ReportShape>({
+    id: "usage-report",
+    lastResult: props.lastResult,
+    defaultValue: props.defaultValue as never,
+    shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
+    onValidate({ formData }) {
+      // A draft is kept as typed; only filing is checked.
+      if (formData.get("intent") === "save-draft")
+        return parseWithZod(formData, { schema: DraftPayloadSchema }) as never;
+      return parseWithZod(formData, { schema: FiledReportSchema });
+    },
+  });
+  const discharges = fields.discharges.getFieldList();
+  const dispositions = fields.dispositions.getFieldList();
+  const tankReadings = fields.tankReadings.getFieldList();
+  const productsById = useMemo(() => new Map(props.products.map((product) => [product.id, product])), [props.products]);
+  const apparatusById = useMemo(() => new Map(props.apparatus.map((unit) => [unit.id, unit])), [props.apparatus]);
+
+  // Live totals from the server, debounced while the officer types.
+  const lines = useMemo(() => computableLines(form.value?.discharges), [form.value?.discharges]);
+  const request = JSON.stringify(lines.map((entry) => entry.line));
+  const submitTotals = totalsFetcher.submit;
+  const lastRequest = useRef<string>("");
+  useEffect(() => {
+    if (lines.length === 0 || request === lastRequest.current) return;
+    const timer = setTimeout(() => {
+      lastRequest.current = request;
+      submitTotals(request, { method: "post", action: "/api/totals", encType: "application/json" });
+    }, 350);
+    return () => clearTimeout(timer);
+  }, [request, lines.length, submitTotals]);
+  const computed = lines.length ? totalsFetcher.data : undefined;
+  const resultFor = (index: number) => {
+    const place = lines.findIndex((entry) => entry.index === index);
+    return place >= 0 && computed?.discharges ? computed.discharges[place] : undefined;
+  };
+  const typedLines = Array.isArray(form.value?.discharges) ? form.value.discharges : [];
+  const chosenProducts = typedLines.map((line) => productsById.get(Number(line?.productId)));
+  const pfasChosen = chosenProducts.some((product) => product?.pfasContaining);
+  const classAChosen = chosenProducts.some((product) => product?.foamClass === "A");
+  const saving = navigation.state === "submitting" && navigation.formAction?.includes("/events");
+  const accepted = props.status === "accepted";
+
+  return (
+    <Form method="post" {...getFormProps(form)} className="space-y-6" aria-describedby={form.errorId}>
+      <input type="hidden" name="submissionKey" value={props.submissionKey} />
+      {props.eventId ? <input type="hidden" name="eventId" value={props.eventId} /> : null}
+      {props.version ? <input type="hidden" name="version" value={props.version} /> : null}
+      <FormErrors id={form.errorId} errors={form.errors} />
+
+      <section className="card space-y-4" aria-labelledby="details-title">
+        <h2 id="details-title" className="text-lg font-semibold">
+          Event
+        </h2>
+        <div className="grid gap-4 md:grid-cols-3">
+          <Field label="Event number" field={fields.number} hint="Dispatch or training number." />
+          <SelectField
+            label="Kind"
+            field={fields.kind}
+            options={EVENT_KINDS.map((kind) => [kind, EVENT_KIND_LABELS[kind]])}
+          />
+          <SelectField
+            label="Station"
+            field={fields.stationId}
+            placeholder="Choose the station"
+            options={props.stations.map((station) => [String(station.id), `${station.code} ${station.name}`])}
+          />
+          <Field label="Started" field={fields.startedAt} type="datetime-local" />
+          <Field label="Cleared" field={fields.clearedAt} type="datetime-local" />
+          <Field label="Address or location" field={fields.address} />
+        </div>
+        {props.locationPicker ? (
+          props.locationPicker({ latitude: fields.latitude, longitude: fields.longitude, address: fields.address })
+        ) : (
+          <div className="grid gap-4 md:grid-cols-3">
+            <Field label="Latitude" field={fields.latitude} inputMode="decimal" hint="WGS 84 decimal degrees." />
+            <Field label="Longitude" field={fields.longitude} inputMode="decimal" />
+          </div>
+        )}
+        <div>
+          <label htmlFor={fields.narrative.id} className="field-label">
+            Narrative
+          </label>
+          <textarea
+            {...getTextareaProps(fields.narrative)}
+            key={fields.narrative.key}
+            rows={3}
+            className="field-input"
+          />
+          <ErrorList id={fields.narrative.errorId} errors={fields.narrative.errors} />
+        </div>
+      </section>
+
+      <section className="card space-y-4" aria-labelledby="discharges-title">
+        <div className="flex flex-wrap items-center justify-between gap-2">
+          <h2 id="discharges-title" className="text-lg font-semibold">
+            Discharges
+          </h2>
+          <button
+            type="button"
+            className="btn-secondary"
+            {...form.insert.getButtonProps({ name: fields.discharges.name, defaultValue: NEW_DISCHARGE as never })}
+          >
+            Add a discharge
+          </button>
+        </div>
+        <p className="text-sm text-slate-ft">
+          One line per hose line, monitor or test that flowed. Say whether the flow figure is water through a
+          direct-injection proportioner or the foam-solution rating of a nozzle or eductor.
+        </p>
+        <ErrorList id={fields.discharges.errorId} errors={fields.discharges.errors} />
+        {pfasChosen ? <UsageCautions kind="pfas" /> : null}
+        {classAChosen ? <UsageCautions kind="class-a" /> : null}
+        <ol className="space-y-4">
+          {discharges.map((line, index) => {
+            const row = line.getFieldset();
+            const values = (line.value ?? {}) as Record<string, string | undefined>;
+            const unit = apparatusById.get(Number(values.apparatusId));
+            const product = productsById.get(Number(values.productId));
+            const result = resultFor(index);
+            return (
+              <li
+                key={line.key}
+                className="rounded-md border border-stone-200 p-3"
+                aria-label={`Discharge ${index + 1}`}
+              >
+                <div className="flex flex-wrap items-center justify-between gap-2">
+                  <h3 className="font-semibold">Discharge {index + 1}</h3>
+                  <div className="flex gap-2">
+                    <button
+                      type="button"
+                      className="btn-quiet"
+                      {...form.insert.getButtonProps({
+                        name: fields.discharges.name,
+                        index: index + 1,
+                        defaultValue: values as never,
+                      })}
+                    >
+                      Duplicate<span className="sr-only"> discharge {index + 1}</span>
+                    </button>
+                    <button
+                      type="button"
+                      className="btn-quiet"
+                      {...form.remove.getButtonProps({ name: fields.discharges.name, index })}
+                    >
+                      Remove<span className="sr-only"> discharge {index + 1}</span>
+                    </button>
+                  </div>
+                </div>
+                <div className="mt-2 grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+                  <SelectField
+                    label="Apparatus"
+                    field={row.apparatusId}
+                    placeholder="Not listed / mutual aid"
+                    options={props.apparatus.map((option) => [
+                      String(option.id),
+                      `${option.unitId} ${option.description}`,
+                    ])}
+                    onChange={(event) => {
+                      const chosen = apparatusById.get(Number(event.currentTarget.value));
+                      const outlet = chosen?.outlets.find((item) => item.foamCapable) ?? chosen?.outlets[0];
+                      if (outlet && !values.outlet) {
+                        form.update({ name: row.outlet.name, value: outlet.name });
+                        if (outlet.defaultFlowGpm && !values.flow)
+                          form.update({ name: row.flow.name, value: String(outlet.defaultFlowGpm) });
+                        form.update({ name: row.basis.name, value: outlet.defaultFlowBasis });
+                        if (outlet.defaultMethod) form.update({ name: row.method.name, value: outlet.defaultMethod });
+                      }
+                    }}
+                  />
+                  <div>
+                    <label htmlFor={row.outlet.id} className="field-label">
+                      Outlet
+                    </label>
+                    <input
+                      {...getInputProps(row.outlet, { type: "text" })}
+                      key={row.outlet.key}
+                      list={unit ? `outlets-${unit.id}` : undefined}
+                      className="field-input"
+                    />
+                    {unit ? (
+                      <datalist id={`outlets-${unit.id}`}>
+                        {unit.outlets.map((outlet) => (
+                          <option key={outlet.name} value={outlet.name} />
+                        ))}
+                      </datalist>
+                    ) : null}
+                    <ErrorList id={row.outlet.errorId} errors={row.outlet.errors} />
+                  </div>
+                  <SelectField
+                    label="Concentrate"
+                    field={row.productId}
+                    placeholder="Water only"
+                    options={props.products.map((option) => [
+                      String(option.id),
+                      `${option.name} (Class ${option.foamClass}${option.pfasContaining ? ", contains PFAS" : ""})`,
+                    ])}
+                    onChange={(event) => {
+                      const chosen = productsById.get(Number(event.currentTarget.value));
+                      if (!chosen || values.percent) return;
+                      const compressedAir = values.method === "compressed_air" || (unit?.compressedAirCfm ?? 0) > 0;
+                      // About 0.3 % is the usual compressed-air Class A ratio (common practice, no source).
+                      const suggested = chosen.foamClass === "A" && compressedAir ? 0.3 : chosen.nominalPercents[0];
+                      if (suggested) form.update({ name: row.percent.name, value: String(suggested) });
+                    }}
+                  />
+                  <Field
+                    label="Percent"
+                    field={row.percent}
+                    inputMode="decimal"
+                    hint={
+                      product ? `Nominal ${product.nominalPercents.join(" or ") || "—"} %` : "Blank for water only."
+                    }
+                  />
+                  <Field label="Flow" field={row.flow} inputMode="decimal" />
+                  <SelectField
+                    label="Flow unit"
+                    field={row.flowUnit}
+                    options={[
+                      ["gpm", "gpm"],
+                      ["lpm", "L/min"],
+                    ]}
+                  />
+                  <SelectField label="Flow is" field={row.basis} options={Object.entries(FLOW_BASIS_LABELS)} />
+                  <SelectField
+                    label="Method"
+                    field={row.method}
+                    placeholder="Choose"
+                    options={APPLICATION_METHODS.map((method) => [method, APPLICATION_METHOD_LABELS[method]])}
+                  />
+                  <Field label="Minutes" field={row.minutes} inputMode="decimal" hint="Or give start and end." />
+                  <Field label="Start" field={row.startedAt} type="datetime-local" />
+                  <Field label="End" field={row.endedAt} type="datetime-local" />
+                  {values.method === "compressed_air" ? (
+                    <Field label="Air flow (cfm)" field={row.airFlowCfm} inputMode="decimal" />
+                  ) : null}
+                </div>
+                <LineResult result={result} />
+              </li>
+            );
+          })}
+        </ol>
+      </section>
+
+      <section className="card" aria-labelledby="totals-title" aria-live="polite">
+        <h2 id="totals-title" className="text-lg font-semibold">
+          Totals <span className="text-sm font-normal text-slate-ft">(computed by the server as you type)</span>
+        </h2>
+        <dl className="mt-3 grid grid-cols-3 gap-4" data-testid="live-totals">
+          {(["water", "concentrate", "solution"] as const).map((key) => (
+            <div key={key} className="rounded-md bg-stone-100 p-3">
+              <dt className="text-sm font-semibold text-slate-ft">
+                {key === "solution" ? "Foam solution" : key === "water" ? "Water" : "Concentrate"}
+              </dt>
+              <dd className="text-xl font-bold" data-testid={`total-${key}`}>
+                {formatGallons(computed?.totals?.[key].gal)} gal
+              </dd>
+              <dd className="text-sm text-slate-ft">{formatGallons(computed?.totals?.[key].L)} L</dd>
+            </div>
+          ))}
+        </dl>
+        {totalsFetcher.state !== "idle" ? <p className="mt-2 text-sm text-slate-ft">Updating…</p> : null}
+        <p className="mt-2 text-xs text-slate-ft">
+          Estimates from the figures entered; the saved report keeps the server&apos;s computation.
+        </p>
+      </section>
+
+      <section className="card space-y-4" aria-labelledby="runoff-title">
+        <div className="flex flex-wrap items-center justify-between gap-2">
+          <h2 id="runoff-title" className="text-lg font-semibold">
+            Where the runoff went
+          </h2>
+          <button
+            type="button"
+            className="btn-secondary"
+            {...form.insert.getButtonProps({ name: fields.dispositions.name, defaultValue: NEW_DISPOSITION as never })}
+          >
+            Add a runoff line
+          </button>
+        </div>
+        <UsageCautions kind="runoff" />
+        <p className="text-sm text-slate-ft">
+          Give every line as a share of the foam solution (adding up to 100 %), or every line as a volume in gallons.
+        </p>
+        <ErrorList id={fields.dispositions.errorId} errors={fields.dispositions.errors} />
+        <ol className="space-y-3">
+          {dispositions.map((line, index) => {
+            const row = line.getFieldset();
+            const values = (line.value ?? {}) as Record<string, string | undefined>;
+            return (
+              <li
+                key={line.key}
+                className="rounded-md border border-stone-200 p-3"
+                aria-label={`Runoff line ${index + 1}`}
+              >
+                <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+                  <SelectField
+                    label="Went to"
+                    field={row.disposition}
+                    options={DISPOSITIONS.map((value) => [value, DISPOSITION_LABELS[value]])}
+                  />
+                  <Field label="Share (%)" field={row.sharePercent} inputMode="decimal" />
+                  <Field label="Or volume (gal)" field={row.volumeGal} inputMode="decimal" />
+                  <Field label="Receiving water or drain" field={row.receivingWater} />
+                  {values.disposition === "contained" ? (
+                    <Field
+                      label="Disposal record"
+                      field={row.disposalReference}
+                      hint="Manifest, ticket or drum number."
+                    />
+                  ) : null}
+                  {values.disposition === "sanitary_sewer" ? (
+                    <Field label="Treatment works told" field={row.sewerNotice} hint="Who, and when." />
+                  ) : null}
+                </div>
+                <button
+                  type="button"
+                  className="btn-quiet mt-2"
+                  {...form.remove.getButtonProps({ name: fields.dispositions.name, index })}
+                >
+                  Remove<span className="sr-only"> runoff line {index + 1}</span>
+                </button>
+              </li>
+            );
+          })}
+        </ol>
+      </section>
+
+      <section className="card space-y-4" aria-labelledby="tanks-title">
+        <div className="flex flex-wrap items-center justify-between gap-2">
+          <h2 id="tanks-title" className="text-lg font-semibold">
+            Concentrate tanks after use
+          </h2>
+          <button
+            type="button"
+            className="btn-secondary"
+            {...form.insert.getButtonProps({ name: fields.tankReadings.name })}
+          >
+            Add a tank reading
+          </button>
+        </div>
+        <p className="text-sm text-slate-ft">
+          A refill amount, or the levels before and after, lets Foamtally compare the computed concentrate with the
+          tank.
+        </p>
+        <ol className="space-y-3">
+          {tankReadings.map((line, index) => {
+            const row = line.getFieldset();
+            return (
+              <li
+                key={line.key}
+                className="grid gap-3 rounded-md border border-stone-200 p-3 sm:grid-cols-2 lg:grid-cols-5"
+                aria-label={`Tank reading ${index + 1}`}
+              >
+                <SelectField
+                  label="Apparatus"
+                  field={row.apparatusId}
+                  placeholder="Choose"
+                  options={props.apparatus.map((option) => [String(option.id), option.unitId])}
+                />
+                <SelectField
+                  label="Concentrate"
+                  field={row.productId}
+                  placeholder="Choose"
+                  options={props.products.map((option) => [String(option.id), option.name])}
+                />
+                <Field label="Refilled (gal)" field={row.refillGal} inputMode="decimal" />
+                <Field label="Level before (gal)" field={row.levelBeforeGal} inputMode="decimal" />
+                <Field label="Level after (gal)" field={row.levelAfterGal} inputMode="decimal" />
+                <button
+                  type="button"
+                  className="btn-quiet"
+                  {...form.remove.getButtonProps({ name: fields.tankReadings.name, index })}
+                >
+                  Remove<span className="sr-only"> tank reading {index + 1}</span>
+                </button>
+              </li>
+            );
+          })}
+        </ol>
+      </section>
+
+      {accepted ? (
+        <section className="card" aria-labelledby="revision-title">
+          <h2 id="revision-title" className="text-lg font-semibold">
+            Reason for this revision
+          </h2>
+          <p className="text-sm text-slate-ft">
+            This report was accepted. Your change becomes a new revision and goes back for review.
+          </p>
+          <textarea
+            name="revisionReason"
+            id="revision-reason"
+            aria-label="Reason for this revision"
+            rows={2}
+            className="field-input"
+            maxLength={500}
+            required
+          />
+        </section>
+      ) : null}
+
+      <div className="sticky bottom-0 flex flex-wrap gap-3 border-t border-stone-200 bg-stone-50/95 py-3">
+        <button type="submit" name="intent" value="file" className="btn-primary" disabled={saving}>
+          {accepted ? "File this revision" : "File report"}
+        </button>
+        {!accepted && props.status !== "filed" ? (
+          <button
+            type="submit"
+            name="intent"
+            value="save-draft"
+            className="btn-secondary"
+            formNoValidate
+            disabled={saving}
+          >
+            Save draft
+          </button>
+        ) : null}
+        {saving ? <span className="self-center text-sm">Saving…</span> : null}
+      </div>
+    </Form>
+  );
+}
+
+function LineResult({ result }: { result?: NonNullable<TotalsResponse["discharges"]>[number] }) {
+  if (!result) return null;
+  return (
+    <div className="mt-2 text-sm" data-testid="line-result">
+      <p className="text-slate-ft">
+        Water {formatGallons(result.water.gal)} gal · concentrate {formatGallons(result.concentrate.gal)} gal · solution{" "}
+        {formatGallons(result.solution.gal)} gal
+      </p>
+      {result.warnings.length ? (
+        <ul className="mt-1 space-y-1" aria-label="Warnings for this discharge">
+          {result.warnings.map((warning) => (
+            <li key={warning.code} className="caution" role="note">
+              {warning.message}
+            </li>
+          ))}
+        </ul>
+      ) : null}
+    </div>
+  );
+}
+
+function Field({
+  label,
+  field,
+  type = "text",
+  hint,
+  inputMode,
+}: {
+  label: string;
+  field: FieldMetadata<unknown>;
+  type?: "text" | "datetime-local";
+  hint?: string;
+  inputMode?: "decimal";
+}) {
+  const props = getInputProps(field as FieldMetadata<string>, {
+    type,
+    ariaDescribedBy: hint ? `${field.id}-hint` : undefined,
+  });
+  return (
+    <div>
+      <label htmlFor={field.id} className="field-label">
+        {label}
+      </label>
+      <input {...props} key={props.key} inputMode={inputMode} className="field-input" />
+      {hint ? (
+        <p id={`${field.id}-hint`} className="mt-0.5 text-xs text-slate-ft">
+          {hint}
+        </p>
+      ) : null}
+      <ErrorList id={field.errorId} errors={field.errors} />
+    </div>
+  );
+}
+
+function SelectField({
+  label,
+  field,
+  options,
+  placeholder,
+  onChange,
+}: {
+  label: string;
+  field: FieldMetadata<unknown>;
+  options: Array<[string, string]>;
+  placeholder?: string;
+  onChange?: (event: React.ChangeEvent<HTMLSelectElement>) => void;
+}) {
+  const props = getSelectProps(field as FieldMetadata<string>);
+  return (
+    <div>
+      <label htmlFor={field.id} className="field-label">
+        {label}
+      </label>
+      <select {...props} key={props.key} className="field-input" onChange={onChange}>
+        {placeholder !== undefined ? <option value="">{placeholder}</option> : null}
+        {options.map(([value, text]) => (
+          <option key={value} value={value}>
+            {text}
+          </option>
+        ))}
+      </select>
+      <ErrorList id={field.errorId} errors={field.errors} />
+    </div>
+  );
+}

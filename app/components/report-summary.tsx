@@ -1,0 +1,292 @@
+import {
+  APPLICATION_METHOD_LABELS,
+  DISPOSITION_LABELS,
+  EVENT_KIND_LABELS,
+  FLOW_BASIS_LABELS,
+  type Disposition,
+  type EventKind,
+} from "~/lib/foam/report-schema";
+import type { UsageWarning } from "~/lib/foam/totals";
+import { gallonsToLitres } from "~/lib/foam/units";
+import { UsageCautions } from "./usage-cautions";
+
+type Line = {
+  position: number;
+  apparatus: string | null;
+  outlet: string;
+  product: string | null;
+  foamClass: "A" | "B" | null;
+  pfasContaining: boolean;
+  percent: number | null;
+  effectivePercent: number | null;
+  flow: number;
+  flowUnit: "gpm" | "lpm";
+  basis: "water" | "solution";
+  minutes: number;
+  method: string | null;
+  water: number;
+  concentrate: number;
+  solution: number;
+  warnings: UsageWarning[];
+};
+
+export type SummaryReport = {
+  kind: EventKind;
+  startedAt: string;
+  clearedAt: string;
+  address: string;
+  latitude: number | null;
+  longitude: number | null;
+  station: string | null;
+  narrative: string;
+  authorName: string | null;
+  pfasContaining: boolean;
+  eventWarnings: UsageWarning[];
+  totals: { water: number; concentrate: number; solution: number };
+  geography: {
+    drainageBasin: string | null;
+    nearestWaterway: string | null;
+    nearestWaterwayM: number | null;
+    nearestInlet: string | null;
+    nearestInletM: number | null;
+    withinWaterwayBuffer: boolean | null;
+    outsideJurisdiction: boolean | null;
+  };
+  discharges: Line[];
+  dispositions: Array<{
+    disposition: Disposition;
+    sharePercent: number | null;
+    volumeGal: number | null;
+    releasedGal: number;
+    receivingWater: string;
+    disposalReference: string;
+    sewerNotice: string;
+  }>;
+  tankReadings: Array<{
+    apparatus: string | null;
+    product: string | null;
+    refillGal: number | null;
+    levelBeforeGal: number | null;
+    levelAfterGal: number | null;
+  }>;
+};
+
+const gal = (value: number, digits = 2) => value.toLocaleString("en-US", { maximumFractionDigits: digits });
+const when = (value: string) => (value ? value.replace("T", " ") : "—");
+
+export function ReportSummary({ report }: { report: SummaryReport }) {
+  const { geography } = report;
+  return (
+    <>
+      <section className="card" aria-labelledby="summary-title">
+        <h2 id="summary-title" className="text-lg font-semibold">
+          Event
+        </h2>
+        <dl className="mt-3 grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+          <Item label="Kind" value={EVENT_KIND_LABELS[report.kind]} />
+          <Item label="Station" value={report.station ?? "—"} />
+          <Item label="Started" value={when(report.startedAt)} />
+          <Item label="Cleared" value={when(report.clearedAt)} />
+          <Item label="Address" value={report.address || "—"} />
+          <Item
+            label="Location"
+            value={
+              report.latitude != null && report.longitude != null
+                ? `${report.latitude.toFixed(5)}, ${report.longitude.toFixed(5)}`
+                : "—"
+            }
+          />
+          <Item label="Filed by" value={report.authorName ?? "—"} />
+        </dl>
+        {report.narrative ? <p className="mt-3 whitespace-pre-line">{report.narrative}</p> : null}
+      </section>
+
+      <section className="card" aria-labelledby="totals-heading">
+        <h2 id="totals-heading" className="text-lg font-semibold">
+          Totals
+        </h2>
+        <dl className="mt-3 grid grid-cols-3 gap-4" data-testid="saved-totals">
+          {(["water", "concentrate", "solution"] as const).map((key) => (
+            <div key={key} className="rounded-md bg-stone-100 p-3">
+              <dt className="text-sm font-semibold text-slate-ft">
+                {key === "solution" ? "Foam solution" : key === "water" ? "Water" : "Concentrate"}
+              </dt>
+              <dd className="text-xl font-bold">{gal(report.totals[key])} gal</dd>
+              <dd className="text-sm text-slate-ft">{gal(gallonsToLitres(report.totals[key]))} L</dd>
+            </div>
+          ))}
+        </dl>
+        {report.eventWarnings.map((warning) => (
+          <p key={warning.code} className="caution mt-3" role="note">
+            {warning.message}
+          </p>
+        ))}
+        {report.pfasContaining ? (
+          <div className="mt-3">
+            <UsageCautions kind="pfas" />
+          </div>
+        ) : null}
+      </section>
+
+      <section className="card" aria-labelledby="geo-heading">
+        <h2 id="geo-heading" className="text-lg font-semibold">
+          Drainage and water
+        </h2>
+        {geography.drainageBasin || geography.nearestWaterway ? (
+          <dl className="mt-3 grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+            <Item label="Drainage basin" value={geography.drainageBasin ?? "outside the mapped basins"} />
+            <Item
+              label="Nearest waterway"
+              value={
+                geography.nearestWaterway
+                  ? `${geography.nearestWaterway}, ${gal(geography.nearestWaterwayM ?? 0, 0)} m`
+                  : "—"
+              }
+            />
+            <Item
+              label="Nearest storm inlet"
+              value={
+                geography.nearestInlet ? `${geography.nearestInlet}, ${gal(geography.nearestInletM ?? 0, 0)} m` : "—"
+              }
+            />
+            <Item
+              label="Waterway buffer"
+              value={
+                geography.withinWaterwayBuffer == null
+                  ? "—"
+                  : geography.withinWaterwayBuffer
+                    ? "Inside the buffer"
+                    : "Outside the buffer"
+              }
+            />
+            {geography.outsideJurisdiction ? <Item label="Jurisdiction" value="Outside the district" /> : null}
+          </dl>
+        ) : (
+          <p className="mt-2 text-sm text-slate-ft">
+            No drainage checks yet: they run once the event has a location and the layers are loaded.
+          </p>
+        )}
+      </section>
+
+      <section className="card overflow-x-auto" aria-labelledby="lines-heading">
+        <h2 id="lines-heading" className="text-lg font-semibold">
+          Discharges
+        </h2>
+        <table className="data-table mt-3">
+          <thead>
+            <tr>
+              <th scope="col">#</th>
+              <th scope="col">Apparatus / outlet</th>
+              <th scope="col">Concentrate</th>
+              <th scope="col">Percent</th>
+              <th scope="col">Flow</th>
+              <th scope="col">Minutes</th>
+              <th scope="col">Water (gal)</th>
+              <th scope="col">Concentrate (gal)</th>
+              <th scope="col">Solution (gal)</th>
+            </tr>
+          </thead>
+          <tbody>
+            {report.discharges.map((line) => (
+              <tr key={line.position}>
+                <td>{line.position}</td>
+                <td>
+                  {line.apparatus ?? "—"}
+                  {line.outlet ? ` · ${line.outlet}` : ""}
+                  {line.method ? (
+                    <span className="block text-xs text-slate-ft">
+                      {APPLICATION_METHOD_LABELS[line.method as keyof typeof APPLICATION_METHOD_LABELS]}
+                    </span>
+                  ) : null}
+                </td>
+                <td>
+                  {line.product ? `${line.product} (Class ${line.foamClass})` : "Water only"}
+                  {line.pfasContaining ? (
+                    <span className="ml-1 rounded bg-danger-50 px-1 text-xs font-bold text-danger-700">PFAS</span>
+                  ) : null}
+                </td>
+                <td>
+                  {line.percent != null ? `${line.percent} %` : "—"}
+                  {line.effectivePercent != null &&
+                  line.percent != null &&
+                  Math.abs(line.effectivePercent - line.percent) > 1e-6 ? (
+                    <span className="block text-xs text-danger-700">
+                      achieved ≈ {line.effectivePercent.toFixed(3)} %
+                    </span>
+                  ) : null}
+                </td>
+                <td>
+                  {gal(line.flow)} {line.flowUnit === "lpm" ? "L/min" : "gpm"}
+                  <span className="block text-xs text-slate-ft">{FLOW_BASIS_LABELS[line.basis]}</span>
+                </td>
+                <td>{gal(line.minutes)}</td>
+                <td>{gal(line.water)}</td>
+                <td>{gal(line.concentrate, 3)}</td>
+                <td>
+                  {gal(line.solution)}
+                  {line.warnings.map((warning) => (
+                    <span key={warning.code} className="caution mt-1 block" role="note">
+                      {warning.message}
+                    </span>
+                  ))}
+                </td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </section>
+
+      <section className="card overflow-x-auto" aria-labelledby="runoff-heading">
+        <h2 id="runoff-heading" className="text-lg font-semibold">
+          Where the runoff went
+        </h2>
+        <table className="data-table mt-3">
+          <thead>
+            <tr>
+              <th scope="col">Went to</th>
+              <th scope="col">Share or volume</th>
+              <th scope="col">Released (gal of solution)</th>
+              <th scope="col">Receiving water</th>
+              <th scope="col">Disposal or notice</th>
+            </tr>
+          </thead>
+          <tbody>
+            {report.dispositions.map((line, index) => (
+              <tr key={index}>
+                <td>{DISPOSITION_LABELS[line.disposition]}</td>
+                <td>{line.sharePercent != null ? `${line.sharePercent} %` : `${gal(line.volumeGal ?? 0)} gal`}</td>
+                <td>{gal(line.releasedGal)}</td>
+                <td>{line.receivingWater || "—"}</td>
+                <td>{line.disposalReference || line.sewerNotice || "—"}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+        {report.tankReadings.length ? (
+          <>
+            <h3 className="mt-4 font-semibold">Tank readings</h3>
+            <ul className="mt-1 text-sm">
+              {report.tankReadings.map((line, index) => (
+                <li key={index}>
+                  {line.apparatus ?? "—"} · {line.product ?? "—"}:{" "}
+                  {line.refillGal != null
+                    ? `refilled ${gal(line.refillGal)} gal`
+                    : `${gal(line.levelBeforeGal ?? 0)} → ${gal(line.levelAfterGal ?? 0)} gal`}
+                </li>
+              ))}
+            </ul>
+          </>
+        ) : null}
+      </section>
+    </>
+  );
+}
+
+function Item({ label, value }: { label: string; value: string }) {
+  return (
+    <div>
+      <dt className="text-sm font-semibold text-slate-ft">{label}</dt>
+      <dd>{value}</dd>
+    </div>
+  );
+}

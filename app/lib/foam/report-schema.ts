@@ -1,0 +1,304 @@
+import { z } from "zod";
+import { FLOW_UNITS } from "./units";
+
+export const EVENT_KINDS = ["incident", "training", "test", "flush"] as const;
+export type EventKind = (typeof EVENT_KINDS)[number];
+export const EVENT_KIND_LABELS: Record<EventKind, string> = {
+  incident: "Incident",
+  training: "Training",
+  test: "Acceptance or annual test",
+  flush: "Flush or maintenance",
+};
+
+export const EVENT_STATUSES = ["draft", "filed", "returned", "accepted"] as const;
+export type EventStatus = (typeof EVENT_STATUSES)[number];
+export const EVENT_STATUS_LABELS: Record<EventStatus, string> = {
+  draft: "Draft",
+  filed: "Filed",
+  returned: "Returned",
+  accepted: "Accepted",
+};
+
+export const FLOW_BASES = ["water", "solution"] as const;
+export const FLOW_BASIS_LABELS = {
+  water: "Water flow (direct injection)",
+  solution: "Foam solution (nozzle or eductor rating)",
+} as const;
+
+export const APPLICATION_METHODS = ["compressed_air", "aspirated", "non_aspirated", "monitor", "wetting"] as const;
+export const APPLICATION_METHOD_LABELS: Record<(typeof APPLICATION_METHODS)[number], string> = {
+  compressed_air: "Compressed-air foam",
+  aspirated: "Aspirated",
+  non_aspirated: "Non-aspirated",
+  monitor: "Monitor",
+  wetting: "Wetting agent",
+};
+
+export const DISPOSITIONS = [
+  "contained",
+  "soil",
+  "storm_drain",
+  "surface_water",
+  "sanitary_sewer",
+  "evaporated_unknown",
+] as const;
+export type Disposition = (typeof DISPOSITIONS)[number];
+export const DISPOSITION_LABELS: Record<Disposition, string> = {
+  contained: "Contained and collected",
+  soil: "To soil",
+  storm_drain: "To a storm drain",
+  surface_water: "To surface water",
+  sanitary_sewer: "To the sanitary sewer",
+  evaporated_unknown: "Evaporated or unknown",
+};
+
+export const MAX_DISCHARGE_MINUTES = 24 * 60;
+export const MAX_LINES = 200;
+
+const positiveNumber = (label: string, max: number) =>
+  z
+    .number({ error: `Enter the ${label} as a number.` })
+    .refine(Number.isFinite, `Enter the ${label} as a number.`)
+    .refine((value) => value > 0, `The ${label} must be more than 0.`)
+    .refine((value) => value <= max, `The ${label} must be at most ${max.toLocaleString("en-US")}.`);
+
+const optionalNonNegative = (label: string, max: number) =>
+  z
+    .number({ error: `Enter the ${label} as a number.` })
+    .refine((value) => value >= 0, `The ${label} cannot be negative.`)
+    .refine((value) => value <= max, `The ${label} must be at most ${max.toLocaleString("en-US")}.`)
+    .optional();
+
+const percent = z
+  .number({ error: "Enter the percent as a number." })
+  .refine((value) => value > 0, "The percent must be more than 0.")
+  .refine((value) => value < 100, "The percent must be less than 100.");
+
+const flowUnit = z.enum(FLOW_UNITS, { error: "Choose gpm or L/min." });
+const flowBasis = z.enum(FLOW_BASES, { error: "Choose whether the flow is water or foam solution." });
+const id = z.number().int().positive();
+
+/** One discharge as the totals API takes it. */
+export const TotalsDischargeSchema = z.object({
+  flow: positiveNumber("flow", 100_000),
+  flowUnit,
+  basis: flowBasis,
+  percent: percent.nullable().optional(),
+  minutes: positiveNumber("duration in minutes", MAX_DISCHARGE_MINUTES),
+  productId: id.nullable().optional(),
+  apparatusId: id.nullable().optional(),
+});
+
+export const TotalsRequestSchema = z.object({
+  discharges: z
+    .array(TotalsDischargeSchema, { error: "Send a list of discharges." })
+    .min(1, "Send at least one discharge.")
+    .max(MAX_LINES, `Send at most ${MAX_LINES} discharges.`),
+});
+
+/** `discharges.0.percent`-style keys, as the API reports field errors. */
+export function fieldErrors(error: z.ZodError): Record<string, string[]> {
+  const errors: Record<string, string[]> = {};
+  for (const issue of error.issues) {
+    const key = issue.path.join(".") || "_";
+    (errors[key] ??= []).push(issue.message);
+  }
+  return errors;
+}
+
+const text = (max: number, label: string) =>
+  z.string().trim().max(max, `The ${label} has at most ${max} characters.`).optional();
+
+const localDateTime = (label: string) =>
+  z
+    .string()
+    .regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2})?$/, `Enter the ${label} as a date and time.`)
+    .refine((value) => !Number.isNaN(Date.parse(`${value}Z`)), `Enter a real date and time for the ${label}.`)
+    .optional();
+
+/** Minutes between two local date-times typed in the form, or null. */
+export function minutesBetween(start?: string, end?: string): number | null {
+  if (!start || !end) return null;
+  return (Date.parse(`${end}Z`) - Date.parse(`${start}Z`)) / 60_000;
+}
+
+export const DischargeLineSchema = z
+  .object({
+    apparatusId: id.optional(),
+    outlet: text(60, "outlet name"),
+    productId: id.optional(),
+    percent: percent.optional(),
+    flow: positiveNumber("flow", 100_000),
+    flowUnit,
+    basis: flowBasis,
+    startedAt: localDateTime("start time"),
+    endedAt: localDateTime("end time"),
+    minutes: positiveNumber("duration in minutes", MAX_DISCHARGE_MINUTES).optional(),
+    method: z.enum(APPLICATION_METHODS, { error: "Choose an application method from the list." }).optional(),
+    airFlowCfm: optionalNonNegative("air flow", 10_000),
+  })
+  .superRefine((line, ctx) => {
+    if (line.productId && line.percent == null) {
+      ctx.addIssue({ code: "custom", path: ["percent"], message: "Enter the percent for a foam line." });
+    }
+    const timed = minutesBetween(line.startedAt, line.endedAt);
+    if (line.minutes == null && timed == null) {
+      ctx.addIssue({ code: "custom", path: ["minutes"], message: "Enter a duration, or a start and end time." });
+    }
+    if (timed != null && line.minutes == null) {
+      if (timed <= 0) ctx.addIssue({ code: "custom", path: ["endedAt"], message: "The end must be after the start." });
+      else if (timed > MAX_DISCHARGE_MINUTES) {
+        ctx.addIssue({ code: "custom", path: ["endedAt"], message: "A discharge cannot last more than 24 hours." });
+      }
+    }
+  });
+
+export type DischargeLine = z.infer<typeof DischargeLineSchema>;
+
+/** The duration of a line: minutes as typed, or the span of its start and end times. */
+export function lineMinutes(line: Pick<DischargeLine, "minutes" | "startedAt" | "endedAt">): number {
+  return line.minutes ?? minutesBetween(line.startedAt, line.endedAt) ?? 0;
+}
+
+export const DispositionLineSchema = z
+  .object({
+    disposition: z.enum(DISPOSITIONS, { error: "Choose where this runoff went." }),
+    sharePercent: z
+      .number({ error: "Enter the share as a number." })
+      .refine((value) => value > 0 && value <= 100, "A share is more than 0 and at most 100 %.")
+      .optional(),
+    volumeGal: optionalNonNegative("volume", 10_000_000),
+    receivingWater: text(120, "receiving water"),
+    disposalReference: text(160, "disposal reference"),
+    sewerNotice: text(200, "treatment-works notice"),
+  })
+  .superRefine((line, ctx) => {
+    if (line.sharePercent == null && line.volumeGal == null) {
+      ctx.addIssue({ code: "custom", path: ["sharePercent"], message: "Enter a share in % or a volume in gallons." });
+    }
+    if (line.sharePercent != null && line.volumeGal != null) {
+      ctx.addIssue({ code: "custom", path: ["volumeGal"], message: "Enter a share or a volume, not both." });
+    }
+    if (line.disposition === "contained" && !line.disposalReference) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["disposalReference"],
+        message: "Give the disposal record (manifest, ticket or drum number) for contained runoff.",
+      });
+    }
+    if (line.disposition === "sanitary_sewer" && !line.sewerNotice) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["sewerNotice"],
+        message: "Say who at the treatment works was told, and when.",
+      });
+    }
+  });
+
+export const TankReadingLineSchema = z
+  .object({
+    apparatusId: id.optional(),
+    productId: id.optional(),
+    refillGal: optionalNonNegative("refill amount", 100_000),
+    levelBeforeGal: optionalNonNegative("level before", 100_000),
+    levelAfterGal: optionalNonNegative("level after", 100_000),
+  })
+  .superRefine((line, ctx) => {
+    const levels = line.levelBeforeGal != null && line.levelAfterGal != null;
+    if (line.refillGal == null && !levels) {
+      ctx.addIssue({ code: "custom", path: ["refillGal"], message: "Enter the refill amount, or both tank levels." });
+    }
+    if (levels && line.levelAfterGal! > line.levelBeforeGal!) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["levelAfterGal"],
+        message: "The level after use cannot be above the level before.",
+      });
+    }
+  });
+
+/** The report as filed: every rule applies. Drafts are kept as typed (see `DraftReportSchema`). */
+export const FiledReportSchema = z
+  .object({
+    number: z
+      .string({ error: "Enter the event number." })
+      .trim()
+      .min(1, "Enter the event number.")
+      .max(32, "An event number has at most 32 characters.")
+      .regex(/^[A-Za-z0-9][A-Za-z0-9._/-]*$/, "Use letters, digits, and . _ / - only."),
+    kind: z.enum(EVENT_KINDS, { error: "Choose what kind of event this was." }),
+    startedAt: z.string({ error: "Enter when the event started." }).pipe(localDateTime("start time").unwrap()),
+    clearedAt: localDateTime("clear time"),
+    address: z
+      .string({ error: "Enter the address or location." })
+      .trim()
+      .min(1, "Enter the address or location.")
+      .max(200, "An address has at most 200 characters."),
+    latitude: z
+      .number({ error: "Place the event on the map, or enter its latitude." })
+      .refine((value) => value >= -90 && value <= 90, "Latitude is between -90 and 90."),
+    longitude: z
+      .number({ error: "Place the event on the map, or enter its longitude." })
+      .refine((value) => value >= -180 && value <= 180, "Longitude is between -180 and 180."),
+    stationId: z.number({ error: "Choose the station." }).int().positive(),
+    narrative: text(10_000, "narrative"),
+    discharges: z
+      .array(DischargeLineSchema, { error: "Add at least one discharge." })
+      .min(1, "Add at least one discharge.")
+      .max(MAX_LINES, `A report has at most ${MAX_LINES} discharges.`),
+    dispositions: z
+      .array(DispositionLineSchema, { error: "Say where the runoff went." })
+      .min(1, "Say where the runoff went.")
+      .max(12, "At most 12 runoff lines."),
+    tankReadings: z.array(TankReadingLineSchema).max(20, "At most 20 tank readings.").optional(),
+  })
+  .superRefine((report, ctx) => {
+    const window = minutesBetween(report.startedAt, report.clearedAt);
+    if (window != null && window < 0) {
+      ctx.addIssue({ code: "custom", path: ["clearedAt"], message: "The clear time must be after the start." });
+    }
+    const shares = report.dispositions.filter((line) => line.sharePercent != null);
+    const volumes = report.dispositions.filter((line) => line.volumeGal != null);
+    if (shares.length && volumes.length) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["dispositions"],
+        message: "Give every runoff line as a share, or every line as a volume — not a mix.",
+      });
+    } else if (shares.length) {
+      const sum = shares.reduce((total, line) => total + line.sharePercent!, 0);
+      if (Math.abs(sum - 100) > 0.01) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["dispositions"],
+          message: `The runoff shares add up to ${Number(sum.toFixed(2))} %; they must add up to 100 %.`,
+        });
+      }
+    }
+  });
+
+export type FiledReport = z.infer<typeof FiledReportSchema>;
+
+/** A draft is kept exactly as typed: nothing in it is refused. */
+export const DraftPayloadSchema = z.looseObject({});
+
+/** Which form action was asked for. Revisions of accepted reports need a reason. */
+export const ReportIntentSchema = z.object({
+  intent: z.enum(["save-draft", "file"], { error: "Choose to save a draft or to file." }),
+  eventId: z.number().int().positive().optional(),
+  version: z.number().int().positive().optional(),
+  submissionKey: z.string().regex(/^[A-Za-z0-9-]{8,64}$/, "The form is out of date; reload it."),
+  revisionReason: z.string().trim().max(500, "A reason has at most 500 characters.").optional(),
+});
+
+export const ReviewSchema = z
+  .object({
+    decision: z.enum(["accept", "return"], { error: "Choose to accept or return the report." }),
+    version: z.number({ error: "The page is out of date; reload it." }).int().positive(),
+    comment: z.string().trim().max(2000, "A comment has at most 2,000 characters.").optional(),
+  })
+  .superRefine((review, ctx) => {
+    if (review.decision === "return" && !review.comment) {
+      ctx.addIssue({ code: "custom", path: ["comment"], message: "Say what the officer should fix." });
+    }
+  });

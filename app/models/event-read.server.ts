@@ -1,0 +1,437 @@
+import type { Knex } from "knex";
+import type { SessionUser } from "~/lib/auth.server";
+import { db } from "~/lib/db.server";
+import {
+  EVENT_KINDS,
+  EVENT_STATUSES,
+  type Disposition,
+  type EventKind,
+  type EventStatus,
+} from "~/lib/foam/report-schema";
+import type { FoamClass, UsageWarning } from "~/lib/foam/totals";
+import { roundForDisplay, volumeFromGallons, type Volume } from "~/lib/foam/units";
+import { numberOrNull } from "./catalogue.server";
+import { dateToWallClock } from "./event.server";
+
+export function apiVolume(gallons: number): Volume {
+  const volume = volumeFromGallons(gallons);
+  return { gal: roundForDisplay(volume.gal), L: roundForDisplay(volume.L) };
+}
+
+function warningsOf(stored: unknown): UsageWarning[] {
+  if (typeof stored !== "string" || !stored) return [];
+  try {
+    const parsed = JSON.parse(stored);
+    return Array.isArray(parsed) ? parsed : [];
+  } catch {
+    return [];
+  }
+}
+
+export type ReportDetail = Awaited<ReturnType<typeof getReport>>;
+
+/** Whether this person may see this report at all: drafts belong to their author until filed. */
+export function canSeeReport(user: SessionUser, row: { status: EventStatus; created_by: number }): boolean {
+  return row.status !== "draft" || row.created_by === user.id;
+}
+
+/** One report with its discharges, runoff, tank readings, stored totals and geography checks. */
+export async function getReport(eventId: number) {
+  const event = await db("events")
+    .leftJoin("stations", "stations.id", "events.station_id")
+    .leftJoin("users as author", "author.id", "events.created_by")
+    .leftJoin("users as reviewer", "reviewer.id", "events.reviewed_by")
+    .where("events.id", eventId)
+    .first(
+      "events.*",
+      "stations.code as station_code",
+      "stations.name as station_name",
+      "author.name as author_name",
+      "reviewer.name as reviewer_name",
+    );
+  if (!event) return null;
+  const [discharges, dispositions, tankReadings] = await Promise.all([
+    db("discharges")
+      .leftJoin("apparatus", "apparatus.id", "discharges.apparatus_id")
+      .leftJoin("foam_products", "foam_products.id", "discharges.product_id")
+      .where("discharges.event_id", eventId)
+      .orderBy("discharges.position")
+      .select(
+        "discharges.*",
+        "apparatus.unit_id as apparatus_unit_id",
+        "foam_products.name as product_name",
+        "foam_products.foam_class as foam_class",
+        "foam_products.pfas_containing as product_pfas",
+      ),
+    db("runoff_dispositions").where({ event_id: eventId }).orderBy("id"),
+    db("tank_readings")
+      .leftJoin("apparatus", "apparatus.id", "tank_readings.apparatus_id")
+      .leftJoin("foam_products", "foam_products.id", "tank_readings.product_id")
+      .where("tank_readings.event_id", eventId)
+      .orderBy("tank_readings.id")
+      .select("tank_readings.*", "apparatus.unit_id as apparatus_unit_id", "foam_products.name as product_name"),
+  ]);
+  const solutionGal = Number(event.solution_gal);
+  return {
+    id: event.id as number,
+    number: event.number as string,
+    kind: event.kind as EventKind,
+    status: event.status as EventStatus,
+    version: event.version as number,
+    revision: event.revision as number,
+    startedAt: dateToWallClock(event.started_at),
+    clearedAt: dateToWallClock(event.cleared_at),
+    address: event.address as string,
+    latitude: numberOrNull(event.latitude),
+    longitude: numberOrNull(event.longitude),
+    stationId: (event.station_id as number | null) ?? null,
+    station: event.station_code ? `${event.station_code} ${event.station_name}` : null,
+    narrative: (event.narrative as string | null) ?? "",
+    createdBy: event.created_by as number,
+    authorName: (event.author_name as string | null) ?? null,
+    filedAt: event.filed_at ? new Date(event.filed_at).toISOString() : null,
+    reviewedAt: event.reviewed_at ? new Date(event.reviewed_at).toISOString() : null,
+    reviewerName: (event.reviewer_name as string | null) ?? null,
+    reviewComment: (event.review_comment as string | null) ?? null,
+    pfasContaining: Boolean(event.pfas_containing),
+    hasWarnings: Boolean(event.has_warnings),
+    eventWarnings: warningsOf(event.event_warnings),
+    draft: event.draft_json ? (JSON.parse(event.draft_json) as Record<string, unknown>) : null,
+    totals: {
+      water: Number(event.water_gal),
+      concentrate: Number(event.concentrate_gal),
+      solution: solutionGal,
+    },
+    geography: {
+      drainageBasin: (event.drainage_basin as string | null) ?? null,
+      nearestWaterway: (event.nearest_waterway as string | null) ?? null,
+      nearestWaterwayM: numberOrNull(event.nearest_waterway_m),
+      nearestInlet: (event.nearest_inlet as string | null) ?? null,
+      nearestInletM: numberOrNull(event.nearest_inlet_m),
+      withinWaterwayBuffer: event.within_waterway_buffer == null ? null : Boolean(event.within_waterway_buffer),
+      outsideJurisdiction: event.outside_jurisdiction == null ? null : Boolean(event.outside_jurisdiction),
+    },
+    discharges: discharges.map((row) => ({
+      position: row.position as number,
+      apparatusId: (row.apparatus_id as number | null) ?? null,
+      apparatus: (row.apparatus_unit_id as string | null) ?? null,
+      outlet: row.outlet as string,
+      productId: (row.product_id as number | null) ?? null,
+      product: (row.product_name as string | null) ?? null,
+      foamClass: (row.foam_class as FoamClass | null) ?? null,
+      pfasContaining: Boolean(row.product_pfas),
+      percent: numberOrNull(row.percent),
+      effectivePercent: numberOrNull(row.effective_percent),
+      flow: Number(row.flow),
+      flowUnit: row.flow_unit as "gpm" | "lpm",
+      basis: row.flow_basis as "water" | "solution",
+      startedAt: dateToWallClock(row.started_at),
+      endedAt: dateToWallClock(row.ended_at),
+      minutes: Number(row.minutes),
+      method: (row.method as string | null) ?? null,
+      airFlowCfm: numberOrNull(row.air_flow_cfm),
+      water: Number(row.water_gal),
+      concentrate: Number(row.concentrate_gal),
+      solution: Number(row.solution_gal),
+      warnings: warningsOf(row.warnings),
+    })),
+    dispositions: dispositions.map((row) => {
+      const share = numberOrNull(row.share_percent);
+      const volume = numberOrNull(row.volume_gal);
+      return {
+        disposition: row.disposition as Disposition,
+        sharePercent: share,
+        volumeGal: volume,
+        releasedGal: volume ?? (share != null ? (share / 100) * solutionGal : 0),
+        receivingWater: row.receiving_water as string,
+        disposalReference: row.disposal_reference as string,
+        sewerNotice: row.sewer_notice as string,
+      };
+    }),
+    tankReadings: tankReadings.map((row) => ({
+      apparatusId: (row.apparatus_id as number | null) ?? null,
+      apparatus: (row.apparatus_unit_id as string | null) ?? null,
+      productId: (row.product_id as number | null) ?? null,
+      product: (row.product_name as string | null) ?? null,
+      refillGal: numberOrNull(row.refill_gal),
+      levelBeforeGal: numberOrNull(row.level_before_gal),
+      levelAfterGal: numberOrNull(row.level_after_gal),
+    })),
+  };
+}
+
+/** The report as `GET /api/events/:id` returns it. */
+export function reportForApi(report: NonNullable<ReportDetail>) {
+  const { draft: _draft, createdBy: _createdBy, ...rest } = report;
+  return {
+    ...rest,
+    totals: {
+      water: apiVolume(report.totals.water),
+      concentrate: apiVolume(report.totals.concentrate),
+      solution: apiVolume(report.totals.solution),
+    },
+    discharges: report.discharges.map((line) => ({
+      ...line,
+      water: apiVolume(line.water),
+      concentrate: apiVolume(line.concentrate),
+      solution: apiVolume(line.solution),
+    })),
+    dispositions: report.dispositions.map((line) => ({ ...line, released: apiVolume(line.releasedGal) })),
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Lists
+
+export const SORTABLE = {
+  number: "events.number",
+  startedAt: "events.started_at",
+  kind: "events.kind",
+  status: "events.status",
+  station: "stations.code",
+  water: "events.water_gal",
+  concentrate: "events.concentrate_gal",
+  solution: "events.solution_gal",
+} as const;
+export type SortKey = keyof typeof SORTABLE;
+
+export type EventFilters = {
+  from?: string;
+  to?: string;
+  kind?: EventKind;
+  status?: EventStatus;
+  stationId?: number;
+  foamClass?: FoamClass;
+  mine?: boolean;
+  sort: SortKey;
+  direction: "asc" | "desc";
+  page: number;
+  pageSize: number;
+};
+
+export function parseEventFilters(search: URLSearchParams): { filters: EventFilters; errors: Record<string, string> } {
+  const errors: Record<string, string> = {};
+  const date = (name: string) => {
+    const value = search.get(name) ?? "";
+    if (!value) return undefined;
+    if (!/^\d{4}-\d{2}-\d{2}$/.test(value) || Number.isNaN(Date.parse(value))) {
+      errors[name] = "Use a date like 2026-03-31.";
+      return undefined;
+    }
+    return value;
+  };
+  const oneOf = <T extends string>(name: string, allowed: readonly T[]) => {
+    const value = search.get(name) ?? "";
+    if (!value) return undefined;
+    if (!allowed.includes(value as T)) {
+      errors[name] = `Use one of: ${allowed.join(", ")}.`;
+      return undefined;
+    }
+    return value as T;
+  };
+  const positiveInteger = (name: string, fallback?: number, max = Number.MAX_SAFE_INTEGER) => {
+    const value = search.get(name) ?? "";
+    if (!value) return fallback;
+    const number = Number(value);
+    if (!Number.isInteger(number) || number < 1 || number > max) {
+      errors[name] = `Use a whole number from 1 to ${max}.`;
+      return fallback;
+    }
+    return number;
+  };
+  const from = date("from");
+  const to = date("to");
+  if (from && to && from > to) errors.to = "The end date is before the start date.";
+  const filters: EventFilters = {
+    from,
+    to,
+    kind: oneOf("kind", EVENT_KINDS),
+    status: oneOf("status", EVENT_STATUSES),
+    stationId: positiveInteger("station"),
+    foamClass: oneOf("class", ["A", "B"] as const),
+    mine: search.get("mine") === "1",
+    sort: oneOf("sort", Object.keys(SORTABLE) as SortKey[]) ?? "startedAt",
+    direction: oneOf("dir", ["asc", "desc"] as const) ?? "desc",
+    page: positiveInteger("page", 1)!,
+    pageSize: positiveInteger("size", 25, 500)!,
+  };
+  return { filters, errors };
+}
+
+function filteredEvents(user: SessionUser, filters: EventFilters): Knex.QueryBuilder {
+  const query = db("events").leftJoin("stations", "stations.id", "events.station_id");
+  query.where((visible) => visible.whereNot("events.status", "draft").orWhere("events.created_by", user.id));
+  if (filters.from) query.where("events.started_at", ">=", `${filters.from} 00:00:00`);
+  if (filters.to) query.where("events.started_at", "<=", `${filters.to} 23:59:59`);
+  if (filters.kind) query.where("events.kind", filters.kind);
+  if (filters.status) query.where("events.status", filters.status);
+  if (filters.stationId) query.where("events.station_id", filters.stationId);
+  if (filters.mine) query.where("events.created_by", user.id);
+  if (filters.foamClass) {
+    query.whereExists(
+      db("discharges")
+        .join("foam_products", "foam_products.id", "discharges.product_id")
+        .whereRaw("discharges.event_id = events.id")
+        .where("foam_products.foam_class", filters.foamClass)
+        .select(db.raw("1")),
+    );
+  }
+  return query;
+}
+
+export type EventListItem = {
+  id: number;
+  number: string;
+  kind: EventKind;
+  status: EventStatus;
+  startedAt: string;
+  address: string;
+  station: string | null;
+  water: number;
+  concentrate: number;
+  solution: number;
+  pfasContaining: boolean;
+  hasWarnings: boolean;
+  foamClasses: FoamClass[];
+};
+
+function listItem(row: Record<string, unknown>): EventListItem {
+  return {
+    id: row.id as number,
+    number: row.number as string,
+    kind: row.kind as EventKind,
+    status: row.status as EventStatus,
+    startedAt: dateToWallClock(row.started_at as Date | null),
+    address: row.address as string,
+    station: (row.station_code as string | null) ?? null,
+    water: Number(row.water_gal),
+    concentrate: Number(row.concentrate_gal),
+    solution: Number(row.solution_gal),
+    pfasContaining: Boolean(row.pfas_containing),
+    hasWarnings: Boolean(row.has_warnings),
+    foamClasses: String(row.foam_classes ?? "")
+      .split(",")
+      .filter((value): value is FoamClass => value === "A" || value === "B"),
+  };
+}
+
+const LIST_COLUMNS = [
+  "events.id",
+  "events.number",
+  "events.kind",
+  "events.status",
+  "events.started_at",
+  "events.address",
+  "events.water_gal",
+  "events.concentrate_gal",
+  "events.solution_gal",
+  "events.pfas_containing",
+  "events.has_warnings",
+  "stations.code as station_code",
+];
+
+function classesSubquery() {
+  return db.raw(
+    `(SELECT GROUP_CONCAT(DISTINCT fp.foam_class ORDER BY fp.foam_class) FROM discharges d
+      JOIN foam_products fp ON fp.id = d.product_id WHERE d.event_id = events.id) as foam_classes`,
+  );
+}
+
+/** One page of events, with the count and the totals of everything the filters select. */
+export type EventPage = {
+  items: EventListItem[];
+  count: number;
+  totals: { water: number; concentrate: number; solution: number };
+};
+
+export async function listEvents(user: SessionUser, filters: EventFilters): Promise<EventPage> {
+  const [rows, aggregate] = await Promise.all([
+    filteredEvents(user, filters)
+      .select(...LIST_COLUMNS, classesSubquery())
+      .orderBy(SORTABLE[filters.sort], filters.direction)
+      .orderBy("events.id", filters.direction)
+      .limit(filters.pageSize)
+      .offset((filters.page - 1) * filters.pageSize),
+    filteredEvents(user, filters)
+      .select(
+        db.raw("COUNT(*) as count"),
+        db.raw("SUM(events.water_gal) as water"),
+        db.raw("SUM(events.concentrate_gal) as concentrate"),
+        db.raw("SUM(events.solution_gal) as solution"),
+      )
+      .first() as Promise<
+      { count: number; water: string | null; concentrate: string | null; solution: string | null } | undefined
+    >,
+  ]);
+  return {
+    items: rows.map(listItem),
+    count: Number(aggregate?.count ?? 0),
+    totals: {
+      water: Number(aggregate?.water ?? 0),
+      concentrate: Number(aggregate?.concentrate ?? 0),
+      solution: Number(aggregate?.solution ?? 0),
+    },
+  };
+}
+
+/** Every event the filters select, streamed in the list's order (for CSV downloads). */
+export async function* eachEvent(user: SessionUser, filters: EventFilters): AsyncGenerator<EventListItem> {
+  const batch = 1000;
+  for (let offset = 0; ; offset += batch) {
+    const rows = await filteredEvents(user, filters)
+      .select(...LIST_COLUMNS, classesSubquery())
+      .orderBy(SORTABLE[filters.sort], filters.direction)
+      .orderBy("events.id", filters.direction)
+      .limit(batch)
+      .offset(offset);
+    for (const row of rows) yield listItem(row);
+    if (rows.length < batch) return;
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// History
+
+export type HistoryEntry = { at: string; actor: string; action: string; summary: string | null };
+
+const ACTION_LABELS: Record<string, string> = {
+  report_created: "Started a draft",
+  report_draft_saved: "Saved the draft",
+  report_filed: "Filed the report",
+  report_revised: "Revised the accepted report",
+  report_accepted: "Accepted the report",
+  report_returned: "Returned the report",
+};
+
+/** Who changed what and when, from the audit log. */
+export async function reportHistory(eventId: number): Promise<HistoryEntry[]> {
+  const rows = await db("audit_events")
+    .leftJoin("users", "users.id", "audit_events.actor_user_id")
+    .where({ entity_type: "event", entity_id: String(eventId) })
+    .orderBy("audit_events.id")
+    .select(
+      "audit_events.occurred_at",
+      "audit_events.action",
+      "audit_events.summary",
+      "audit_events.actor_label",
+      "users.name",
+    );
+  return rows.map((row) => ({
+    at: new Date(row.occurred_at).toISOString(),
+    actor: row.name ?? row.actor_label ?? "unknown",
+    action: ACTION_LABELS[row.action] ?? row.action,
+    summary: row.summary ?? null,
+  }));
+}
+
+export async function returnedReportsFor(user: SessionUser) {
+  const rows = await db("events")
+    .where({ created_by: user.id, status: "returned" })
+    .orderBy("reviewed_at", "desc")
+    .select("id", "number", "review_comment", "reviewed_at");
+  return rows.map((row) => ({
+    id: row.id as number,
+    number: row.number as string,
+    comment: (row.review_comment as string | null) ?? "",
+  }));
+}

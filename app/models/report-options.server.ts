@@ -1,0 +1,74 @@
+import { listActiveApparatus, listActiveProducts, listStationOptions } from "./catalogue.server";
+import type { ReportDetail } from "./event-read.server";
+
+/** The choices the usage-report form offers. */
+export async function reportFormOptions() {
+  const [stations, apparatus, products] = await Promise.all([
+    listStationOptions(),
+    listActiveApparatus(),
+    listActiveProducts(),
+  ]);
+  return {
+    stations: stations.filter((station) => station.active),
+    apparatus: apparatus.map(({ id, unitId, description, compressedAirCfm, outlets }) => ({
+      id,
+      unitId,
+      description,
+      compressedAirCfm,
+      outlets,
+    })),
+    products: products.map(({ id, name, foamClass, nominalPercents, pfasContaining }) => ({
+      id,
+      name,
+      foamClass,
+      nominalPercents,
+      pfasContaining,
+    })),
+  };
+}
+
+const text = (value: number | string | null | undefined) => (value == null ? undefined : String(value));
+
+/** A saved report as the form's typed values. */
+export function formValuesOf(report: NonNullable<ReportDetail>): Record<string, unknown> {
+  return {
+    number: report.number,
+    kind: report.kind,
+    startedAt: report.startedAt || undefined,
+    clearedAt: report.clearedAt || undefined,
+    address: report.address,
+    latitude: text(report.latitude),
+    longitude: text(report.longitude),
+    stationId: text(report.stationId),
+    narrative: report.narrative,
+    discharges: report.discharges.map((line) => ({
+      apparatusId: text(line.apparatusId),
+      outlet: line.outlet,
+      productId: text(line.productId),
+      percent: text(line.percent),
+      flow: text(line.flow),
+      flowUnit: line.flowUnit,
+      basis: line.basis,
+      startedAt: line.startedAt || undefined,
+      endedAt: line.endedAt || undefined,
+      minutes: line.startedAt && line.endedAt ? undefined : text(line.minutes),
+      method: line.method ?? undefined,
+      airFlowCfm: text(line.airFlowCfm),
+    })),
+    dispositions: report.dispositions.map((line) => ({
+      disposition: line.disposition,
+      sharePercent: text(line.sharePercent),
+      volumeGal: text(line.volumeGal),
+      receivingWater: line.receivingWater,
+      disposalReference: line.disposalReference,
+      sewerNotice: line.sewerNotice,
+    })),
+    tankReadings: report.tankReadings.map((line) => ({
+      apparatusId: text(line.apparatusId),
+      productId: text(line.productId),
+      refillGal: text(line.refillGal),
+      levelBeforeGal: text(line.levelBeforeGal),
+      levelAfterGal: text(line.levelAfterGal),
+    })),
+  };
+}

@@ -1,0 +1,35 @@
+import type { Route } from "./+types/api.events";
+import { requireUser } from "~/lib/auth.server";
+import { apiError } from "~/lib/http.server";
+import { REPORT_READERS } from "~/lib/report-access";
+import { apiVolume, listEvents, parseEventFilters } from "~/models/event-read.server";
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireUser(request, REPORT_READERS);
+  const url = new URL(request.url);
+  const { filters, errors } = parseEventFilters(url.searchParams);
+  if (Object.keys(errors).length) apiError(400, "Some filters cannot be used.", { errors });
+  const page = await listEvents(user, filters);
+  return Response.json({
+    page: filters.page,
+    pageSize: filters.pageSize,
+    count: page.count,
+    totals: {
+      water: apiVolume(page.totals.water),
+      concentrate: apiVolume(page.totals.concentrate),
+      solution: apiVolume(page.totals.solution),
+    },
+    items: page.items.map((item) => ({
+      ...item,
+      water: undefined,
+      concentrate: undefined,
+      solution: undefined,
+      totals: {
+        water: apiVolume(item.water),
+        concentrate: apiVolume(item.concentrate),
+        solution: apiVolume(item.solution),
+      },
+      url: `/events/${item.id}`,
+    })),
+  });
+}

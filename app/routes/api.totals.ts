@@ -1,0 +1,42 @@
+import type { Route } from "./+types/api.totals";
+import { requireUser } from "~/lib/auth.server";
+import { fieldErrors, TotalsRequestSchema } from "~/lib/foam/report-schema";
+import { apiError } from "~/lib/http.server";
+import { apiVolume } from "~/models/event-read.server";
+import { computeForInputs } from "~/models/event.server";
+
+export async function loader({ request }: Route.LoaderArgs) {
+  await requireUser(request);
+  apiError(405, "Use POST with a JSON body of discharges.");
+}
+
+/** Computes water, concentrate and foam solution without saving anything. */
+export async function action({ request }: Route.ActionArgs) {
+  await requireUser(request);
+  const body = await request.json().catch(() => apiError(400, "The request body is not valid JSON."));
+  const parsed = TotalsRequestSchema.safeParse(body);
+  if (!parsed.success) {
+    return Response.json({ error: "Some values cannot be used.", errors: fieldErrors(parsed.error) }, { status: 400 });
+  }
+  const usage = await computeForInputs(
+    parsed.data.discharges.map((line) => ({
+      ...line,
+      percent: line.percent ?? null,
+      productId: line.productId ?? null,
+      apparatusId: line.apparatusId ?? null,
+    })),
+  );
+  const totals = (item: { water: { gal: number }; concentrate: { gal: number }; solution: { gal: number } }) => ({
+    water: apiVolume(item.water.gal),
+    concentrate: apiVolume(item.concentrate.gal),
+    solution: apiVolume(item.solution.gal),
+  });
+  return Response.json({
+    discharges: usage.discharges.map((line) => ({
+      ...totals(line),
+      effectivePercent: line.effectivePercent,
+      warnings: line.warnings,
+    })),
+    totals: totals(usage.totals),
+  });
+}

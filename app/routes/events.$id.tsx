@@ -1,0 +1,164 @@
+import { getFormProps, getTextareaProps, useForm, type SubmissionResult } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
+import { data, Form, Link, redirect } from "react-router";
+import type { z } from "zod";
+import type { Route } from "./+types/events.$id";
+import { ErrorList, FormErrors } from "~/components/form-fields";
+import { ReportSummary } from "~/components/report-summary";
+import { requireUser } from "~/lib/auth.server";
+import { clientAddress, invariantResponse } from "~/lib/http.server";
+import { EVENT_STATUS_LABELS, ReviewSchema } from "~/lib/foam/report-schema";
+import { REPORT_READERS, REPORT_REVIEWERS } from "~/lib/report-access";
+import { hasRole } from "~/lib/roles";
+import { flashHeaders } from "~/lib/session.server";
+import { canEditReport, reviewReport } from "~/models/event.server";
+import { canSeeReport, getReport, reportHistory } from "~/models/event-read.server";
+import { reviewHooks } from "./report-form.server";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.number ?? "Report"} · Foamtally` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request, REPORT_READERS);
+  const report = await getReport(Number(params.id));
+  invariantResponse(
+    report && canSeeReport(user, { status: report.status, created_by: report.createdBy }),
+    "No such report.",
+  );
+  const { draft: _draft, ...visible } = report;
+  return {
+    report: visible,
+    history: await reportHistory(report.id),
+    canReview: report.status === "filed" && hasRole(user.roles, ...REPORT_REVIEWERS),
+    canEdit: canEditReport(user, { status: report.status, created_by: report.createdBy }),
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request, REPORT_REVIEWERS);
+  const submission = parseWithZod(await request.formData(), { schema: ReviewSchema });
+  if (submission.status !== "success") return data({ result: submission.reply() }, { status: 400 });
+  const outcome = await reviewReport(
+    {
+      user,
+      eventId: Number(params.id),
+      version: submission.value.version,
+      decision: submission.value.decision,
+      comment: submission.value.comment,
+      clientAddress: clientAddress(request),
+    },
+    reviewHooks,
+  );
+  if (outcome.kind !== "done") {
+    return data(
+      { result: submission.reply({ formErrors: [outcome.message] }) },
+      { status: outcome.kind === "conflict" ? 409 : 400 },
+    );
+  }
+  const message =
+    outcome.status === "accepted" ? "Report accepted." : "Report returned to its officer with your comment.";
+  throw redirect(`/events/${params.id}`, { headers: await flashHeaders(request, message) });
+}
+
+export default function EventReport({ loaderData, actionData }: Route.ComponentProps) {
+  const { report, history, canReview, canEdit } = loaderData;
+  return (
+    <div className="space-y-6">
+      <div className="flex flex-wrap items-start justify-between gap-3">
+        <div>
+          <p className="text-sm text-slate-ft">Usage report</p>
+          <h1 className="text-2xl font-bold">{report.number}</h1>
+          <p className="mt-1">
+            <span className="rounded bg-stone-200 px-2 py-0.5 text-sm font-semibold" data-testid="report-status">
+              {EVENT_STATUS_LABELS[report.status]}
+            </span>
+            {report.revision > 0 ? (
+              <span className="ml-2 text-sm text-slate-ft">revision {report.revision}</span>
+            ) : null}
+          </p>
+        </div>
+        {canEdit ? (
+          <Link to={`/events/${report.id}/edit`} className="btn-secondary">
+            {report.status === "accepted" ? "Revise this report" : "Edit report"}
+          </Link>
+        ) : null}
+      </div>
+      {report.status === "returned" && report.reviewComment ? (
+        <div role="note" className="caution">
+          <p className="font-semibold">Returned by {report.reviewerName ?? "the reviewer"}:</p>
+          <p className="whitespace-pre-line">{report.reviewComment}</p>
+        </div>
+      ) : null}
+      <ReportSummary report={report} />
+      {canReview ? (
+        <ReviewPanel version={report.version} lastResult={actionData?.result} pfas={report.pfasContaining} />
+      ) : null}
+      <section className="card" aria-labelledby="history-title">
+        <h2 id="history-title" className="text-lg font-semibold">
+          History
+        </h2>
+        <ol className="mt-3 space-y-2" data-testid="history">
+          {history.map((entry, index) => (
+            <li key={index} className="border-l-4 border-pond-600 pl-3">
+              <p className="font-medium">
+                {entry.action} — {entry.actor}
+              </p>
+              <p className="text-sm text-slate-ft">
+                <time dateTime={entry.at}>{new Date(entry.at).toLocaleString("en-US", { timeZone: "UTC" })} UTC</time>
+                {entry.summary ? ` · ${entry.summary}` : ""}
+              </p>
+            </li>
+          ))}
+        </ol>
+      </section>
+    </div>
+  );
+}
+
+function ReviewPanel({
+  version,
+  lastResult,
+  pfas,
+}: {
+  version: number;
+  lastResult?: SubmissionResult<string[]>;
+  pfas: boolean;
+}) {
+  const [form, fields] = useForm<z.input<typeof ReviewSchema>>({
+    id: "review",
+    lastResult,
+    onValidate: ({ formData }) => parseWithZod(formData, { schema: ReviewSchema }),
+    shouldValidate: "onSubmit",
+  });
+  return (
+    <section className="card" aria-labelledby="review-title">
+      <h2 id="review-title" className="text-lg font-semibold">
+        Review
+      </h2>
+      {pfas ? (
+        <p className="caution mt-2">
+          This report includes PFAS-containing foam. Check the release-reporting deadlines that apply to your agency
+          before accepting; local law governs.
+        </p>
+      ) : null}
+      <Form method="post" {...getFormProps(form)} className="mt-3 space-y-3">
+        <FormErrors id={form.errorId} errors={form.errors} />
+        <input type="hidden" name="version" value={version} />
+        <div>
+          <label htmlFor={fields.comment.id} className="field-label">
+            Comment for the officer
+          </label>
+          <textarea {...getTextareaProps(fields.comment)} key={fields.comment.key} rows={3} className="field-input" />
+          <ErrorList id={fields.comment.errorId} errors={fields.comment.errors} />
+        </div>
+        <div className="flex flex-wrap gap-3">
+          <button type="submit" name="decision" value="accept" className="btn-primary">
+            Accept report
+          </button>
+          <button type="submit" name="decision" value="return" className="btn-secondary">
+            Return with comment
+          </button>
+        </div>
+      </Form>
+    </section>
+  );
+}

@@ -1,0 +1,39 @@
+import { randomUUID } from "node:crypto";
+import type { Route } from "./+types/events.new";
+import { ReportForm } from "~/components/report-form";
+import { requireUser } from "~/lib/auth.server";
+import { REPORT_AUTHORS } from "~/lib/report-access";
+import { reportFormOptions } from "~/models/report-options.server";
+import { suggestEventNumber } from "~/models/event.server";
+import { handleReportSubmission } from "./report-form.server";
+
+export const meta: Route.MetaFunction = () => [{ title: "New usage report · Foamtally" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  await requireUser(request, REPORT_AUTHORS);
+  const [options, number] = await Promise.all([reportFormOptions(), suggestEventNumber()]);
+  return {
+    ...options,
+    submissionKey: randomUUID(),
+    defaultValue: {
+      number,
+      kind: "incident",
+      discharges: [{ flowUnit: "gpm", basis: "water" }],
+      dispositions: [{ disposition: "evaporated_unknown", sharePercent: "100" }],
+    },
+  };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireUser(request, REPORT_AUTHORS);
+  return handleReportSubmission(request, user);
+}
+
+export default function NewReport({ loaderData, actionData }: Route.ComponentProps) {
+  return (
+    <div className="space-y-4">
+      <h1 className="text-2xl font-bold">New usage report</h1>
+      <ReportForm {...loaderData} lastResult={actionData?.result} />
+    </div>
+  );
+}

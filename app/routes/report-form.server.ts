@@ -1,0 +1,86 @@
+import { parseWithZod } from "@conform-to/zod/v4";
+import { data, redirect } from "react-router";
+import type { SessionUser } from "~/lib/auth.server";
+import { DraftPayloadSchema, FiledReportSchema, ReportIntentSchema, type FiledReport } from "~/lib/foam/report-schema";
+import { clientAddress, DATABASE_DOWN_MESSAGE, isDatabaseDown } from "~/lib/http.server";
+import { flashHeaders } from "~/lib/session.server";
+import { reviewReport, saveReport, type SaveHooks } from "~/models/event.server";
+
+export const reportSaveHooks: SaveHooks = {};
+
+export const reviewHooks: Parameters<typeof reviewReport>[1] = {};
+
+/**
+ * The action behind the new-report and edit-report pages. Drafts are saved exactly as typed; filing
+ * validates every field. Failures come back with every value kept, so nothing typed is lost.
+ */
+export async function handleReportSubmission(request: Request, user: SessionUser) {
+  const formData = await request.formData();
+  const intent = ReportIntentSchema.safeParse({
+    intent: formData.get("intent"),
+    eventId: formData.get("eventId") ? Number(formData.get("eventId")) : undefined,
+    version: formData.get("version") ? Number(formData.get("version")) : undefined,
+    submissionKey: formData.get("submissionKey"),
+    revisionReason: formData.get("revisionReason") || undefined,
+  });
+  const filing = intent.success && intent.data.intent === "file";
+  const submission = parseWithZod(formData, { schema: filing ? FiledReportSchema : DraftPayloadSchema });
+  if (!intent.success) {
+    return data(
+      { result: submission.reply({ formErrors: intent.error.issues.map((issue) => issue.message) }) },
+      { status: 400 },
+    );
+  }
+  if (filing && submission.status !== "success") {
+    return data(
+      {
+        result: submission.reply({
+          formErrors: ["The report was not filed. Fix the fields marked below; everything you typed is kept."],
+        }),
+      },
+      { status: 400 },
+    );
+  }
+  try {
+    const outcome = await saveReport(
+      {
+        user,
+        intent: intent.data.intent,
+        eventId: intent.data.eventId,
+        version: intent.data.version,
+        submissionKey: intent.data.submissionKey,
+        payload: submission.payload,
+        report: filing && submission.status === "success" ? (submission.value as FiledReport) : undefined,
+        revisionReason: intent.data.revisionReason,
+        clientAddress: clientAddress(request),
+      },
+      reportSaveHooks,
+    );
+    if (outcome.kind === "saved" || outcome.kind === "repeat") {
+      const message =
+        outcome.kind === "repeat"
+          ? "This form was already sent; here is the report it made."
+          : outcome.status === "filed"
+            ? "Report filed. The environmental officer will review it."
+            : "Draft saved. You can come back to it at any time.";
+      const target =
+        outcome.kind === "saved" && outcome.status !== "filed"
+          ? `/events/${outcome.eventId}/edit`
+          : `/events/${outcome.eventId}`;
+      throw redirect(target, { headers: await flashHeaders(request, message) });
+    }
+    const status = outcome.kind === "conflict" ? 409 : outcome.status;
+    return data(
+      {
+        result: submission.reply({
+          formErrors: [outcome.message],
+          fieldErrors: outcome.kind === "refused" ? outcome.fieldErrors : undefined,
+        }),
+      },
+      { status },
+    );
+  } catch (error) {
+    if (!isDatabaseDown(error)) throw error;
+    return data({ result: submission.reply({ formErrors: [DATABASE_DOWN_MESSAGE] }) }, { status: 503 });
+  }
+}
