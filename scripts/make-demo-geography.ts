@@ -20,10 +20,10 @@ function feature(geometry: Geometry, properties: Record<string, unknown>): Featu
 }
 
 // District frame and the two basin divides, which cross at DIVIDE_CROSSING.
-const WEST = -98.3;
-const EAST = -98.1;
-const SOUTH = 38.62;
-const NORTH = 38.78;
+const WEST = -98.315;
+const EAST = -98.085;
+const SOUTH = 38.605;
+const NORTH = 38.795;
 const CROSSING = pos(-98.185, 38.716);
 // North–south divide, north to south, with a gentle wiggle.
 const divideNorth: Position[] = [pos(-98.19, NORTH), pos(-98.182, 38.76), pos(-98.192, 38.74), CROSSING];

@@ -11,6 +11,8 @@ export const NAV_ITEMS: NavItem[] = [
   { to: "/admin/users", label: "People and roles", roles: ["admin", "chief"] },
   { to: "/products", label: "Foam products", roles: ["environmental", "chief"] },
   { to: "/apparatus", label: "Apparatus and stations", roles: ["chief", "admin"] },
+  { to: "/map", label: "Usage map", roles: ["chief", "environmental"] },
+  { to: "/geography", label: "Drainage layers", roles: ["environmental"] },
 ];
 
 export function navFor(roles: readonly Role[]): NavItem[] {

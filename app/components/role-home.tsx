@@ -10,9 +10,11 @@ export const ROLE_TASKS: Record<Role, Task[]> = {
     { label: "Review filed reports", note: "Review is being built." },
     { label: "Quarterly runoff and PFAS summaries", note: "Exports are being built." },
     { label: "Foam products: PFAS content and safety sheets", to: "/products" },
+    { label: "Drainage basins, waterways and storm inlets", to: "/geography" },
+    { label: "Usage on the map", to: "/map" },
   ],
   chief: [
-    { label: "Usage across the district on the map", note: "The usage map is being built." },
+    { label: "Usage across the district on the map", to: "/map" },
     { label: "People and roles", to: "/admin/users" },
     { label: "Apparatus, foam systems and stations", to: "/apparatus" },
     { label: "Foam products", to: "/products" },

@@ -2,6 +2,8 @@ import { booleanPointInPolygon, buffer, distance, flattenEach, nearestPointOnLin
 import type { Feature, FeatureCollection, LineString, MultiPolygon, Polygon, Position } from "geojson";
 import { featureName } from "./layers";
 
+export { isValidLatLon } from "./coordinates";
+
 /**
  * 300 ft (91.44 m, exact by the definition of the foot): the distance from waterways within which
  * the USDA Forest Service aerial-application guide avoids dropping retardant or foam. Ground use has
@@ -28,17 +30,6 @@ export type GeographyChecks = {
 };
 
 export type LatLon = { latitude: number; longitude: number };
-
-export function isValidLatLon(latitude: number, longitude: number): boolean {
-  return (
-    Number.isFinite(latitude) &&
-    Number.isFinite(longitude) &&
-    latitude >= -90 &&
-    latitude <= 90 &&
-    longitude >= -180 &&
-    longitude <= 180
-  );
-}
 
 type Area = Feature<Polygon | MultiPolygon>;
 

@@ -1,0 +1,19 @@
+import type { Route } from "./+types/api.geo.layers";
+import { requireUser } from "~/lib/auth.server";
+import { isLayerKind } from "~/lib/geo/layers";
+import { apiError } from "~/lib/http.server";
+import { layerText, waterwayBufferGeoJSON } from "~/models/geography.server";
+
+const GEOJSON = { "Content-Type": "application/geo+json; charset=utf-8", "Cache-Control": "private, no-cache" };
+
+/** GET /api/geo/layers/:kind — the current GeoJSON of one layer, or `waterway_buffer` (computed). */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireUser(request, ["officer", "environmental", "chief"]);
+  if (params.kind === "waterway_buffer") {
+    const { collection } = await waterwayBufferGeoJSON();
+    return new Response(JSON.stringify(collection), { headers: GEOJSON });
+  }
+  if (!isLayerKind(params.kind)) apiError(404, `There is no layer called ${JSON.stringify(params.kind)}.`);
+  const text = await layerText(params.kind);
+  return new Response(text ?? JSON.stringify({ type: "FeatureCollection", features: [] }), { headers: GEOJSON });
+}

@@ -1,0 +1,126 @@
+import { data, Form, redirect, useNavigation } from "react-router";
+import type { Route } from "./+types/geography";
+import { requireUser } from "~/lib/auth.server";
+import { isLayerKind, LAYER_RULES, MAX_LAYER_BYTES } from "~/lib/geo/layers";
+import { clientAddress } from "~/lib/http.server";
+import { flashHeaders } from "~/lib/session.server";
+import { listLayers, replaceLayer, waterwayBufferMetres } from "~/models/geography.server";
+
+export const meta: Route.MetaFunction = () => [{ title: "Drainage and waterway layers · Foamtally" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  await requireUser(request, ["environmental"]);
+  return { layers: await listLayers(), waterwayBufferM: await waterwayBufferMetres() };
+}
+
+type ActionResult = { kind: string; errors: string[] };
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireUser(request, ["environmental"]);
+  const refuse = (kind: string, errors: string[], status = 400) => data<ActionResult>({ kind, errors }, { status });
+  const declared = Number(request.headers.get("Content-Length") ?? 0);
+  if (declared > MAX_LAYER_BYTES + 64 * 1024) {
+    return refuse("", [`The file is larger than ${MAX_LAYER_BYTES / 1024 / 1024} MB. Nothing was changed.`], 413);
+  }
+  let formData: FormData;
+  try {
+    formData = await request.formData();
+  } catch {
+    return refuse("", ["The upload could not be read. Choose the file again. Nothing was changed."]);
+  }
+  const kind = String(formData.get("kind") ?? "");
+  if (!isLayerKind(kind)) return refuse(kind, ["Choose which layer the file is for."]);
+  const file = formData.get("file");
+  if (!(file instanceof File) || file.size === 0) {
+    return refuse(kind, ["Choose a GeoJSON file (.geojson or .json) to upload."]);
+  }
+  if (file.size > MAX_LAYER_BYTES) {
+    return refuse(kind, [`The file is larger than ${MAX_LAYER_BYTES / 1024 / 1024} MB. Nothing was changed.`], 413);
+  }
+  const result = await replaceLayer(
+    { kind, text: await file.text(), fileName: file.name || "upload.geojson" },
+    user,
+    clientAddress(request),
+  );
+  if (!result.ok) return refuse(kind, [...result.errors, "Nothing was changed; the current layer is still in use."]);
+  const label = LAYER_RULES[kind].label;
+  const rechecked = kind === "address_points" ? "" : ` ${result.eventsRechecked} events were rechecked.`;
+  throw redirect("/geography", {
+    headers: await flashHeaders(request, `${label} replaced with ${result.featureCount} features.${rechecked}`),
+  });
+}
+
+export default function Geography({ loaderData, actionData }: Route.ComponentProps) {
+  const navigation = useNavigation();
+  const busyKind = navigation.state === "submitting" ? navigation.formData?.get("kind") : null;
+  return (
+    <div className="space-y-6">
+      <h1 className="text-2xl font-bold">Drainage and waterway layers</h1>
+      <p className="max-w-3xl">
+        The server places every event against these layers: the drainage basin it lies in, the nearest waterway and
+        storm inlet and how far away they are, whether it is within the waterway buffer (
+        {loaderData.waterwayBufferM.toLocaleString("en-US")} m), and whether it is outside the jurisdiction. Replacing a
+        layer rechecks every event.
+      </p>
+      <p className="caution max-w-3xl">
+        The checks are only as good as these layers. The default waterway buffer is 300 ft (91.44 m), the distance the
+        USDA Forest Service aerial-application guide keeps retardant and foam from waterways; ground use has no fixed
+        distance, and local rules, permits and licensed practice govern.
+      </p>
+      <p className="text-sm text-slate-ft">
+        Files are GeoJSON (RFC 7946): WGS 84 longitude/latitude, a FeatureCollection, at most{" "}
+        {MAX_LAYER_BYTES / 1024 / 1024} MB.
+      </p>
+      <div className="grid gap-4 md:grid-cols-2">
+        {loaderData.layers.map((layer) => {
+          const errors = actionData?.kind === layer.kind ? actionData.errors : null;
+          const errorId = `errors-${layer.kind}`;
+          return (
+            <section key={layer.kind} className="card space-y-3" aria-labelledby={`layer-${layer.kind}`}>
+              <h2 id={`layer-${layer.kind}`} className="text-lg font-semibold">
+                {layer.label}
+              </h2>
+              <p className="text-sm text-slate-ft">{layer.help}</p>
+              {layer.featureCount === null ? (
+                <p className="text-sm font-semibold text-danger-700">Not loaded yet: these checks show “not known”.</p>
+              ) : (
+                <p className="text-sm" data-testid={`layer-status-${layer.kind}`}>
+                  {layer.featureCount} features from <span className="font-medium">{layer.fileName}</span>, uploaded{" "}
+                  {layer.uploadedAt?.slice(0, 16).replace("T", " ")} UTC by {layer.uploadedBy}.{" "}
+                  <a className="text-pond-700 underline" href={`/api/geo/layers/${layer.kind}`} download>
+                    Download
+                  </a>
+                </p>
+              )}
+              <Form method="post" encType="multipart/form-data" className="space-y-2">
+                <input type="hidden" name="kind" value={layer.kind} />
+                <label className="block">
+                  <span className="field-label">New file for {layer.label.toLowerCase()}</span>
+                  <input
+                    type="file"
+                    name="file"
+                    accept=".geojson,.json,application/geo+json,application/json"
+                    required
+                    className="field-input"
+                    aria-invalid={errors ? true : undefined}
+                    aria-describedby={errors ? errorId : undefined}
+                  />
+                </label>
+                {errors ? (
+                  <ul id={errorId} role="alert" className="field-error list-disc pl-5">
+                    {errors.map((error) => (
+                      <li key={error}>{error}</li>
+                    ))}
+                  </ul>
+                ) : null}
+                <button type="submit" className="btn-secondary" disabled={busyKind === layer.kind}>
+                  {busyKind === layer.kind ? "Checking and replacing…" : `Replace ${layer.label.toLowerCase()}`}
+                </button>
+              </Form>
+            </section>
+          );
+        })}
+      </div>
+    </div>
+  );
+}

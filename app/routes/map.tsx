@@ -1,0 +1,274 @@
+import { useCallback, useMemo, useState } from "react";
+import { Form, useFetcher } from "react-router";
+import type { Route } from "./+types/map";
+import { ConcentrateByMonthChart, ConcentrateByStationChart } from "~/components/usage-charts";
+import { FOAM_CLASS_COLOURS, OVERLAYS, PFAS_RING, UsageMap, type OverlayId } from "~/components/usage-map";
+import { requireUser } from "~/lib/auth.server";
+import { EVENT_KINDS, mapQuery, parseMapFilters, type BoundingBox } from "~/lib/geo/map-filters";
+import { httpError } from "~/lib/http.server";
+import { localDateTime } from "~/lib/reporting/period";
+import { agencyTimeZone, listStations, usageSummary, type UsageSummary } from "~/models/usage-map.server";
+
+export const meta: Route.MetaFunction = () => [{ title: "Usage map · Foamtally" }];
+
+function defaultRange(timeZone: string) {
+  const today = localDateTime(new Date(), timeZone).slice(0, 10);
+  const start = new Date(`${today}T00:00:00Z`);
+  start.setUTCFullYear(start.getUTCFullYear() - 1);
+  start.setUTCDate(start.getUTCDate() + 1);
+  return { from: start.toISOString().slice(0, 10), to: today };
+}
+
+export async function loader({ request }: Route.LoaderArgs) {
+  await requireUser(request, ["chief", "environmental"]);
+  const timeZone = await agencyTimeZone();
+  const params = new URL(request.url).searchParams;
+  const range = defaultRange(timeZone);
+  if (!params.get("from")) params.set("from", range.from);
+  if (!params.get("to")) params.set("to", range.to);
+  params.delete("bbox");
+  const parsed = parseMapFilters(params, timeZone);
+  if (!parsed.ok) httpError(400, parsed.message);
+  const { filters } = parsed;
+  return {
+    filters: {
+      from: filters.from,
+      to: filters.to,
+      foamClass: filters.foamClass ?? "",
+      kind: filters.kind ?? "",
+      stationId: filters.stationId ? String(filters.stationId) : "",
+    },
+    stations: await listStations(),
+    summary: await usageSummary(filters, timeZone),
+  };
+}
+
+const gal = (value: number) => `${value.toLocaleString("en-US", { maximumFractionDigits: 1 })} gal`;
+const DISPOSITION_LABELS: Record<string, string> = {
+  contained: "Contained and collected",
+  soil: "To soil",
+  storm_drain: "To a storm drain",
+  surface_water: "To surface water",
+  sanitary_sewer: "To the sanitary sewer",
+  evaporated_unknown: "Evaporated or unknown",
+};
+
+export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
+  const { filters, stations } = loaderData;
+  const summaryFetcher = useFetcher<UsageSummary>();
+  const [overlays, setOverlays] = useState<Record<OverlayId, boolean>>({
+    basins: true,
+    waterways: false,
+    buffer: false,
+    inlets: false,
+  });
+  const eventsQuery = useMemo(() => mapQuery(filters), [filters]);
+  const { load } = summaryFetcher;
+  const onViewChange = useCallback(
+    (bbox: BoundingBox) => {
+      void load(`/api/summary?${mapQuery({ ...filters, bbox })}`);
+    },
+    [filters, load],
+  );
+  const summary = summaryFetcher.data ?? loaderData.summary;
+  const inView = Boolean(summaryFetcher.data?.bbox);
+
+  return (
+    <div className="space-y-4">
+      <h1 className="text-2xl font-bold">Usage map</h1>
+      <p className="caution">
+        Figures are estimates computed from what officers entered. Circles are sized by concentrate used; a red ring
+        marks PFAS-containing foam, whose releases may have to be reported within days under state and federal law.
+        Local codes, permits and licensed practice govern reporting and clean-up.
+      </p>
+      <Form method="get" className="card flex flex-wrap items-end gap-3" aria-label="Map filters">
+        <label>
+          <span className="field-label">From</span>
+          <input type="date" name="from" defaultValue={filters.from} className="field-input" required />
+        </label>
+        <label>
+          <span className="field-label">To</span>
+          <input type="date" name="to" defaultValue={filters.to} className="field-input" required />
+        </label>
+        <label>
+          <span className="field-label">Kind</span>
+          <select name="kind" defaultValue={filters.kind} className="field-input">
+            <option value="">All kinds</option>
+            {EVENT_KINDS.map((kind) => (
+              <option key={kind} value={kind}>
+                {kind === "test" ? "Test" : kind === "flush" ? "Flush" : kind[0].toUpperCase() + kind.slice(1)}
+              </option>
+            ))}
+          </select>
+        </label>
+        <label>
+          <span className="field-label">Foam class</span>
+          <select name="class" defaultValue={filters.foamClass} className="field-input">
+            <option value="">A and B</option>
+            <option value="A">Class A</option>
+            <option value="B">Class B</option>
+          </select>
+        </label>
+        <label>
+          <span className="field-label">Station</span>
+          <select name="station" defaultValue={filters.stationId} className="field-input">
+            <option value="">All stations</option>
+            {stations.map((station) => (
+              <option key={station.id} value={station.id}>
+                {station.code} {station.name}
+              </option>
+            ))}
+          </select>
+        </label>
+        <button type="submit" className="btn-primary">
+          Show
+        </button>
+      </Form>
+
+      <div className="grid gap-4 lg:grid-cols-[minmax(0,1fr)_26rem]">
+        <div className="space-y-2">
+          <fieldset className="flex flex-wrap gap-x-4 gap-y-1 text-sm">
+            <legend className="sr-only">Layers</legend>
+            {OVERLAYS.map((overlay) => (
+              <label key={overlay.id} className="flex min-h-11 items-center gap-2">
+                <input
+                  type="checkbox"
+                  className="h-5 w-5"
+                  checked={overlays[overlay.id]}
+                  onChange={(event) => setOverlays((current) => ({ ...current, [overlay.id]: event.target.checked }))}
+                />
+                {overlay.label}
+              </label>
+            ))}
+          </fieldset>
+          <UsageMap eventsQuery={eventsQuery} overlays={overlays} onViewChange={onViewChange} />
+          <MapKey />
+        </div>
+
+        <aside className="card space-y-4" aria-labelledby="in-view-title">
+          <div aria-live="polite">
+            <h2 id="in-view-title" className="text-lg font-semibold">
+              {inView ? "In view" : "Whole district"}
+              {summaryFetcher.state === "loading" ? (
+                <span className="ml-2 text-sm text-slate-ft">updating…</span>
+              ) : null}
+            </h2>
+            <p className="text-sm text-slate-ft">
+              {summary.from} to {summary.to}; filed, returned and accepted reports (drafts left out). US gallons.
+            </p>
+            <dl className="mt-2 grid grid-cols-2 gap-x-4 gap-y-1 text-sm">
+              <dt>Events</dt>
+              <dd data-testid="in-view-events" className="font-semibold">
+                {summary.totals.events}
+              </dd>
+              <dt>Concentrate</dt>
+              <dd data-testid="in-view-concentrate" className="font-semibold">
+                {gal(summary.totals.concentrateGal)}
+              </dd>
+              <dt>Foam solution</dt>
+              <dd>{gal(summary.totals.solutionGal)}</dd>
+              <dt>Water</dt>
+              <dd>{gal(summary.totals.waterGal)}</dd>
+              <dt className="text-danger-700">PFAS-containing events</dt>
+              <dd className="text-danger-700">
+                {summary.totals.pfasEvents} ({gal(summary.totals.pfasConcentrateGal)} concentrate)
+              </dd>
+            </dl>
+          </div>
+          <SummaryTable
+            title="By foam class"
+            head={["Class", "Concentrate", "Events"]}
+            rows={summary.byFoamClass.map((row) => [`Class ${row.foamClass}`, gal(row.concentrateGal), row.events])}
+          />
+          <SummaryTable
+            title="By product"
+            head={["Product", "Concentrate", "Events"]}
+            rows={summary.byProduct.map((row) => [
+              `${row.name}${row.pfasContaining ? " (PFAS)" : ""}`,
+              gal(row.concentrateGal),
+              row.events,
+            ])}
+          />
+          <SummaryTable
+            title="Where the runoff went"
+            head={["Disposition", "Solution", "Events"]}
+            rows={summary.byDisposition.map((row) => [
+              DISPOSITION_LABELS[row.disposition] ?? row.disposition,
+              gal(row.solutionGal),
+              row.events,
+            ])}
+          />
+          <SummaryTable
+            title="By drainage basin"
+            head={["Basin", "Concentrate", "Events"]}
+            rows={summary.byDrainageBasin.map((row) => [
+              row.drainageBasin ?? "Outside the basins",
+              gal(row.concentrateGal),
+              row.events,
+            ])}
+          />
+          <ConcentrateByMonthChart rows={summary.byMonth} />
+          <ConcentrateByStationChart rows={summary.byStation} />
+        </aside>
+      </div>
+    </div>
+  );
+}
+
+function SummaryTable({ title, head, rows }: { title: string; head: string[]; rows: (string | number)[][] }) {
+  return (
+    <section>
+      <h3 className="text-sm font-semibold">{title}</h3>
+      {rows.length === 0 ? (
+        <p className="text-sm text-slate-ft">Nothing in view.</p>
+      ) : (
+        <table className="data-table">
+          <thead>
+            <tr>
+              {head.map((label) => (
+                <th key={label} scope="col">
+                  {label}
+                </th>
+              ))}
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map((row) => (
+              <tr key={String(row[0])}>
+                {row.map((cell, index) => (
+                  <td key={index}>{cell}</td>
+                ))}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      )}
+    </section>
+  );
+}
+
+function MapKey() {
+  const swatch = (colour: string, label: string) => (
+    <span className="flex items-center gap-1">
+      <span aria-hidden="true" className="inline-block h-3 w-3 rounded-full" style={{ background: colour }} />
+      {label}
+    </span>
+  );
+  return (
+    <div className="flex flex-wrap gap-x-4 gap-y-1 text-xs text-slate-ft" aria-label="Map key">
+      {swatch(FOAM_CLASS_COLOURS.A, "Class A")}
+      {swatch(FOAM_CLASS_COLOURS.B, "Class B")}
+      {swatch(FOAM_CLASS_COLOURS["A+B"], "Both classes")}
+      {swatch(FOAM_CLASS_COLOURS.none, "No foam recorded")}
+      <span className="flex items-center gap-1">
+        <span
+          aria-hidden="true"
+          className="inline-block h-3 w-3 rounded-full border-2"
+          style={{ borderColor: PFAS_RING }}
+        />
+        PFAS-containing
+      </span>
+      <span>Dark circles: groups of events (click to zoom in)</span>
+    </div>
+  );
+}
