@@ -29,5 +29,10 @@ export default [
   route("apparatus", "routes/apparatus.tsx"),
   route("apparatus/:apparatusId", "routes/apparatus.$apparatusId.tsx"),
   route("stations/:stationId", "routes/stations.$stationId.tsx"),
+  route("environmental", "routes/environmental.tsx"),
+  route("environmental/submissions/:id", "routes/environmental.submissions.$id.ts"),
+  route("reports/environmental.xlsx", "routes/reports.environmental-xlsx.ts"),
+  route("reports/environmental.csv", "routes/reports.environmental-csv.ts"),
+  route("admin/outbox", "routes/admin.outbox.tsx"),
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

@@ -1,0 +1,23 @@
+import type { Route } from "./+types/environmental.submissions.$id";
+import { requireUser } from "~/lib/auth.server";
+import { invariantResponse } from "~/lib/http.server";
+import { submissionFile } from "~/models/quarterly-submission.server";
+import { ENVIRONMENTAL_READERS } from "./environmental-files.server";
+
+/** The exact file recorded when a period was marked submitted. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireUser(request, ENVIRONMENTAL_READERS);
+  const id = Number(params.id);
+  invariantResponse(Number.isInteger(id) && id > 0, "No such submission.", 404);
+  const file = await submissionFile(id);
+  invariantResponse(file, "No such submission.", 404);
+  return new Response(new Uint8Array(file.content), {
+    headers: {
+      "Content-Type": file.contentType,
+      "Content-Disposition": `attachment; filename="${file.fileName}"`,
+      "Content-Length": String(file.content.length),
+      "Cache-Control": "no-store",
+      "X-Content-SHA256": file.sha256,
+    },
+  });
+}

@@ -1,0 +1,10 @@
+import type { Route } from "./+types/reports.environmental-csv";
+import { requireUser } from "~/lib/auth.server";
+import { ENVIRONMENTAL_READERS, generatedDownload, periodFrom, workbookRequestFor } from "./environmental-files.server";
+
+/** The workbook's tables as one CSV file each, zipped. */
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireUser(request, ENVIRONMENTAL_READERS);
+  const period = await periodFrom(new URL(request.url).searchParams);
+  return generatedDownload("zip", await workbookRequestFor(period, user));
+}
