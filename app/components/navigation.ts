@@ -13,6 +13,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: "/apparatus", label: "Apparatus and stations", roles: ["chief", "admin"] },
   { to: "/map", label: "Usage map", roles: ["chief", "environmental"] },
   { to: "/geography", label: "Drainage layers", roles: ["environmental"] },
+  { to: "/environmental", label: "Quarterly summaries", roles: ["environmental", "chief"] },
 ];
 
 export function navFor(roles: readonly Role[]): NavItem[] {

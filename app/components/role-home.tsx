@@ -8,13 +8,14 @@ export const ROLE_TASKS: Record<Role, Task[]> = {
   officer: [{ label: "File a foam-usage report for your crew's event", note: "Usage reports are being built." }],
   environmental: [
     { label: "Review filed reports", note: "Review is being built." },
-    { label: "Quarterly runoff and PFAS summaries", note: "Exports are being built." },
+    { label: "Quarterly runoff and PFAS summaries", to: "/environmental" },
     { label: "Foam products: PFAS content and safety sheets", to: "/products" },
     { label: "Drainage basins, waterways and storm inlets", to: "/geography" },
     { label: "Usage on the map", to: "/map" },
   ],
   chief: [
     { label: "Usage across the district on the map", to: "/map" },
+    { label: "Quarterly runoff and PFAS summaries", to: "/environmental" },
     { label: "People and roles", to: "/admin/users" },
     { label: "Apparatus, foam systems and stations", to: "/apparatus" },
     { label: "Foam products", to: "/products" },
