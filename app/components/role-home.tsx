@@ -5,9 +5,12 @@ type Task = { label: string; to?: string; note?: string };
 
 /** What each role gets done from its home page. Items without a link are not built yet and say so. */
 export const ROLE_TASKS: Record<Role, Task[]> = {
-  officer: [{ label: "File a foam-usage report for your crew's event", note: "Usage reports are being built." }],
+  officer: [
+    { label: "File a foam-usage report for your crew's event", to: "/events/new" },
+    { label: "Events and reports", to: "/events" },
+  ],
   environmental: [
-    { label: "Review filed reports", note: "Review is being built." },
+    { label: "Review filed reports", to: "/events?status=filed" },
     { label: "Quarterly runoff and PFAS summaries", to: "/environmental" },
     { label: "Foam products: PFAS content and safety sheets", to: "/products" },
     { label: "Drainage basins, waterways and storm inlets", to: "/geography" },
@@ -16,11 +19,15 @@ export const ROLE_TASKS: Record<Role, Task[]> = {
   chief: [
     { label: "Usage across the district on the map", to: "/map" },
     { label: "Quarterly runoff and PFAS summaries", to: "/environmental" },
+    { label: "Reports waiting for review", to: "/events?status=filed" },
     { label: "People and roles", to: "/admin/users" },
     { label: "Apparatus, foam systems and stations", to: "/apparatus" },
     { label: "Foam products", to: "/products" },
   ],
-  records: [{ label: "Public-records requests", note: "Records requests are planned and not yet available." }],
+  records: [
+    { label: "Events and their usage reports", to: "/events" },
+    { label: "Public-records requests", note: "Records requests are planned and not yet available." },
+  ],
   admin: [
     { label: "People and roles", to: "/admin/users" },
     { label: "Apparatus and stations", to: "/apparatus" },

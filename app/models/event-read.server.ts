@@ -435,3 +435,21 @@ export async function returnedReportsFor(user: SessionUser) {
     comment: (row.review_comment as string | null) ?? "",
   }));
 }
+
+export async function draftsOf(user: SessionUser) {
+  const rows = await db("events")
+    .where({ created_by: user.id, status: "draft" })
+    .orderBy("updated_at", "desc")
+    .limit(20)
+    .select("id", "number", "updated_at");
+  return rows.map((row) => ({
+    id: row.id as number,
+    number: row.number as string,
+    updatedAt: new Date(row.updated_at).toISOString(),
+  }));
+}
+
+export async function awaitingReviewCount(): Promise<number> {
+  const row = await db("events").where({ status: "filed" }).count({ count: "*" }).first();
+  return Number(row?.count ?? 0);
+}
