@@ -73,3 +73,4 @@ export function checkEnvironment() {
 }
 
 export { isForeignOrigin, securityHeaderRecord } from "./lib/security.server";
+export { startMailWorker } from "./models/mail-outbox.server";

@@ -26,6 +26,7 @@ Demo accounts (password: demo-password — demo data only, invented people):
   chief@alderbend.example     chief
   records@alderbend.example   records clerk
   admin@alderbend.example     administrator
+Mail goes to the local fake SMTP server; sign in as admin and open /admin/outbox to read it.
 Stop with Ctrl-C; \`npm run db:stop\` stops MariaDB.
 
 TXT

@@ -57,6 +57,8 @@ const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST ?? "127.0.0.1";
 const server = app.listen(port, host, () => {
   console.log(`Foamtally is serving on http://${host}:${port}`);
+  // Sends queued mail (alerts, notices, workbooks) every 30 s and retries failed sends with backoff.
+  entry.startMailWorker?.();
 });
 
 function shutdown(signal) {
