@@ -120,15 +120,17 @@ export function deliverPendingMailSoon(): void {
 
 let worker: ReturnType<typeof setInterval> | undefined;
 
-/** The server process's periodic sender (every 30 s); started once by scripts/serve.js. */
+/** The server process's sender: once at start, then every 30 s; started once by scripts/serve.js. */
 export function startMailWorker(intervalMs = 30_000): void {
   if (worker) return;
-  worker = setInterval(() => {
+  const run = () => {
     deliverPendingMail().catch((error: unknown) => {
       console.warn(`Mail delivery will be retried: ${error instanceof Error ? error.message : String(error)}`);
     });
-  }, intervalMs);
+  };
+  worker = setInterval(run, intervalMs);
   worker.unref();
+  setTimeout(run, 2_000).unref();
 }
 
 export type OutboxRow = {
