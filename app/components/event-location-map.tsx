@@ -27,6 +27,11 @@ type Props = {
   /** Errors from the server for either field (shown at the field). */
   latitudeErrors?: string[];
   longitudeErrors?: string[];
+  /**
+   * Name of the form's address input: picking a search result writes the address there too
+   * (an input event is sent, so form libraries see the change).
+   */
+  addressInputName?: string;
   /** Called when the point changes; `address` is set when it was picked from the address search. */
   onChange?: (point: { latitude: number; longitude: number; address?: string }) => void;
   disabled?: boolean;
@@ -49,6 +54,7 @@ export function EventLocationMap({
   longitudeName = "longitude",
   latitudeErrors,
   longitudeErrors,
+  addressInputName,
   onChange,
   disabled = false,
 }: Props) {
@@ -172,6 +178,12 @@ export function EventLocationMap({
 
   function choose(match: AddressMatch) {
     placeRef.current(match.latitude, match.longitude, match.address);
+    const field = addressInputName ? container.current?.closest("form")?.elements.namedItem(addressInputName) : null;
+    if (field instanceof HTMLInputElement || field instanceof HTMLTextAreaElement) {
+      const setter = Object.getOwnPropertyDescriptor(Object.getPrototypeOf(field), "value")?.set;
+      setter?.call(field, match.address);
+      field.dispatchEvent(new Event("input", { bubbles: true }));
+    }
     setMatches(null);
     setQuery(match.address);
     mapRef.current?.easeTo({ center: [match.longitude, match.latitude], zoom: 16 });

@@ -1,7 +1,7 @@
 import type { ExpressionSpecification, GeoJSONSource, Map as MapLibreMap, MapLayerMouseEvent } from "maplibre-gl";
 import { useEffect, useRef, useState } from "react";
 import type { BoundingBox } from "~/lib/geo/map-filters";
-import { basemapStyle, DISTRICT_CENTER, MAP_COLOURS } from "~/lib/geo/map-style";
+import { basemapStyle, DISTRICT_BOUNDS, MAP_COLOURS } from "~/lib/geo/map-style";
 import { loadMapLibre } from "./maplibre-loader";
 
 export const FOAM_CLASS_COLOURS = { A: "#3f7d20", B: "#5b3fa6", "A+B": "#b86a00", none: "#6b7280" } as const;
@@ -87,8 +87,8 @@ export function UsageMap({ eventsQuery, overlays, onViewChange }: Props) {
         map = new maplibre.Map({
           container: container.current,
           style: basemapStyle(window.location.origin),
-          center: DISTRICT_CENTER,
-          zoom: 11.3,
+          bounds: DISTRICT_BOUNDS,
+          fitBoundsOptions: { padding: 16 },
           minZoom: 3,
           maxZoom: 18,
           attributionControl: { compact: true },
@@ -199,6 +199,7 @@ function addOverlays(map: MapLibreMap, shown: Record<OverlayId, boolean>) {
   map.addSource("waterways", { type: "geojson", data: `${origin}/api/geo/layers/waterways` });
   map.addSource("buffer", { type: "geojson", data: `${origin}/api/geo/layers/waterway_buffer` });
   map.addSource("inlets", { type: "geojson", data: `${origin}/api/geo/layers/storm_inlets` });
+  map.addSource("basin-labels", { type: "geojson", data: `${origin}/api/geo/layers/drainage_basins?as=labels` });
   map.addLayer({
     id: "overlay-basins-fill",
     type: "fill",
@@ -251,7 +252,7 @@ function addOverlays(map: MapLibreMap, shown: Record<OverlayId, boolean>) {
   map.addLayer({
     id: "overlay-basins-label",
     type: "symbol",
-    source: "basins",
+    source: "basin-labels",
     layout: {
       visibility: visibility("basins"),
       "text-field": ["concat", ["get", "name"], " basin"],

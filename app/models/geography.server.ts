@@ -7,6 +7,7 @@ import {
   checkLocation,
   DEFAULT_WATERWAY_BUFFER_M,
   isValidLatLon,
+  labelPoints,
   waterwayBufferArea,
   type GeographyChecks,
   type GeographyLayers,
@@ -208,6 +209,12 @@ export async function listLayers(): Promise<LayerSummary[]> {
 export async function layerText(kind: LayerKind): Promise<string | null> {
   const row = await db("geo_layers").where({ kind }).first("geojson");
   return row?.geojson ?? null;
+}
+
+/** One point inside each feature, carrying its name: where the map writes the label. */
+export async function layerLabelPoints(kind: LayerKind): Promise<FeatureCollection> {
+  const found = await layerCollections([kind]);
+  return labelPoints(found.get(kind) ?? null);
 }
 
 export async function waterwayBufferGeoJSON(): Promise<{ bufferM: number; collection: FeatureCollection }> {

@@ -2,11 +2,14 @@ import type { Route } from "./+types/api.geo.layers";
 import { requireUser } from "~/lib/auth.server";
 import { isLayerKind } from "~/lib/geo/layers";
 import { apiError } from "~/lib/http.server";
-import { layerText, waterwayBufferGeoJSON } from "~/models/geography.server";
+import { layerLabelPoints, layerText, waterwayBufferGeoJSON } from "~/models/geography.server";
 
 const GEOJSON = { "Content-Type": "application/geo+json; charset=utf-8", "Cache-Control": "private, no-cache" };
 
-/** GET /api/geo/layers/:kind — the current GeoJSON of one layer, or `waterway_buffer` (computed). */
+/**
+ * GET /api/geo/layers/:kind — the current GeoJSON of one layer, or `waterway_buffer` (computed);
+ * `?as=labels` gives one named point inside each feature, for map labels.
+ */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireUser(request, ["officer", "environmental", "chief"]);
   if (params.kind === "waterway_buffer") {
@@ -14,6 +17,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     return new Response(JSON.stringify(collection), { headers: GEOJSON });
   }
   if (!isLayerKind(params.kind)) apiError(404, `There is no layer called ${JSON.stringify(params.kind)}.`);
+  if (new URL(request.url).searchParams.get("as") === "labels") {
+    return new Response(JSON.stringify(await layerLabelPoints(params.kind)), { headers: GEOJSON });
+  }
   const text = await layerText(params.kind);
   return new Response(text ?? JSON.stringify({ type: "FeatureCollection", features: [] }), { headers: GEOJSON });
 }

@@ -1,4 +1,12 @@
-import { booleanPointInPolygon, buffer, distance, flattenEach, nearestPointOnLine, polygonToLine } from "@turf/turf";
+import {
+  booleanPointInPolygon,
+  buffer,
+  distance,
+  flattenEach,
+  nearestPointOnLine,
+  pointOnFeature,
+  polygonToLine,
+} from "@turf/turf";
 import type { Feature, FeatureCollection, LineString, MultiPolygon, Polygon, Position } from "geojson";
 import { featureName } from "./layers";
 
@@ -117,4 +125,17 @@ export function waterwayBufferArea(waterways: FeatureCollection | null, waterway
     if (area) features.push({ ...area, properties: { name: featureName(feature, "Waterway") } });
   }
   return { type: "FeatureCollection", features };
+}
+
+/** A point on each feature (inside it, for polygons) with the feature's name, for map labels. */
+export function labelPoints(collection: FeatureCollection | null): FeatureCollection {
+  return {
+    type: "FeatureCollection",
+    features: (collection?.features ?? [])
+      .filter((feature) => feature.geometry)
+      .map((feature, index) => ({
+        ...pointOnFeature(feature),
+        properties: { name: featureName(feature, `Feature ${index + 1}`) },
+      })),
+  };
 }
