@@ -26,6 +26,7 @@ import {
   type EventStatus,
 } from "~/lib/foam/report-schema";
 import type { UsageWarning } from "~/lib/foam/totals";
+import { EventLocationMap } from "./event-location-map";
 import { ErrorList, FormErrors } from "./form-fields";
 import { UsageCautions } from "./usage-cautions";
 
@@ -62,11 +63,6 @@ export type ReportFormProps = {
   stations: StationOption[];
   apparatus: ApparatusOption[];
   products: ProductOption[];
-  locationPicker?: (props: {
-    latitude: FieldMetadata<number | undefined>;
-    longitude: FieldMetadata<number | undefined>;
-    address: FieldMetadata<string | undefined>;
-  }) => React.ReactNode;
 };
 
 type TotalsVolume = { gal: number; L: number };
@@ -200,14 +196,18 @@ export function ReportForm(props: ReportFormProps) {
           <Field label="Cleared" field={fields.clearedAt} type="datetime-local" />
           <Field label="Address or location" field={fields.address} />
         </div>
-        {props.locationPicker ? (
-          props.locationPicker({ latitude: fields.latitude, longitude: fields.longitude, address: fields.address })
-        ) : (
-          <div className="grid gap-4 md:grid-cols-3">
-            <Field label="Latitude" field={fields.latitude} inputMode="decimal" hint="WGS 84 decimal degrees." />
-            <Field label="Longitude" field={fields.longitude} inputMode="decimal" />
-          </div>
-        )}
+        <EventLocationMap
+          defaultLatitude={fields.latitude.initialValue}
+          defaultLongitude={fields.longitude.initialValue}
+          latitudeName={fields.latitude.name}
+          longitudeName={fields.longitude.name}
+          latitudeErrors={fields.latitude.errors}
+          longitudeErrors={fields.longitude.errors}
+          onChange={(point) => {
+            if (point.address && !fields.address.value)
+              form.update({ name: fields.address.name, value: point.address });
+          }}
+        />
         <div>
           <label htmlFor={fields.narrative.id} className="field-label">
             Narrative

@@ -13,6 +13,7 @@ import { hasRole } from "~/lib/roles";
 import { flashHeaders } from "~/lib/session.server";
 import { canEditReport, reviewReport } from "~/models/event.server";
 import { canSeeReport, getReport, reportHistory } from "~/models/event-read.server";
+import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
 import { reviewHooks } from "./report-form.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.number ?? "Report"} · Foamtally` }];

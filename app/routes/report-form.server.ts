@@ -5,10 +5,21 @@ import { DraftPayloadSchema, FiledReportSchema, ReportIntentSchema, type FiledRe
 import { clientAddress, DATABASE_DOWN_MESSAGE, isDatabaseDown } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { reviewReport, saveReport, type SaveHooks } from "~/models/event.server";
+import { recomputeEventGeography } from "~/models/geography.server";
+import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
+import { queueFiledReportAlerts, queueReturnedReportNotice } from "~/models/report-notifications.server";
 
-export const reportSaveHooks: SaveHooks = {};
+/** What else happens, in the same transaction, when a report is saved, filed or returned. */
+export const reportSaveHooks: SaveHooks = {
+  afterSaved: async (eventId, trx) => {
+    await recomputeEventGeography(eventId, trx);
+  },
+  afterFiled: queueFiledReportAlerts,
+};
 
-export const reviewHooks: Parameters<typeof reviewReport>[1] = {};
+export const reviewHooks: Parameters<typeof reviewReport>[1] = {
+  afterReturned: queueReturnedReportNotice,
+};
 
 /**
  * The action behind the new-report and edit-report pages. Drafts are saved exactly as typed; filing
@@ -56,6 +67,7 @@ export async function handleReportSubmission(request: Request, user: SessionUser
       },
       reportSaveHooks,
     );
+    if (outcome.kind === "saved" && outcome.status === "filed") deliverPendingMailSoon();
     if (outcome.kind === "saved" || outcome.kind === "repeat") {
       const message =
         outcome.kind === "repeat"

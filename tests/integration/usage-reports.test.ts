@@ -84,8 +84,10 @@ function reportFields(overrides: Record<string, string> = {}) {
   };
 }
 
+type AnyAction = (args: never) => Promise<unknown>;
+
 async function post(
-  action: typeof newAction,
+  action: AnyAction,
   path: string,
   fields: Record<string, string>,
   cookie = officerCookie,
