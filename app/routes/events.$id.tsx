@@ -55,6 +55,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       { status: outcome.kind === "conflict" ? 409 : 400 },
     );
   }
+  if (outcome.status === "returned") deliverPendingMailSoon();
   const message =
     outcome.status === "accepted" ? "Report accepted." : "Report returned to its officer with your comment.";
   throw redirect(`/events/${params.id}`, { headers: await flashHeaders(request, message) });
