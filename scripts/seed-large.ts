@@ -1,0 +1,123 @@
+// npm run seed:large -- --events 20000 [--seed 7] [--force]
+// A large synthetic data set for benchmarks, into the database named by DB_NAME, built with the same
+// row builders and arithmetic as the demo seed. Refuses the main database `foamtally` unless --force.
+import knexFactory, { type Knex } from "knex";
+import knexConfig from "../knexfile";
+import {
+  dischargeRows,
+  dispositionRows,
+  eventRow,
+  loadCatalogueFacts,
+  seededRandom,
+  tankReadingRows,
+  usageOf,
+  type EventSpec,
+  type EventStatus,
+} from "../app/models/usage-builders.server";
+import { demoIds, routineEvent } from "../seeds/03_events";
+
+function option(name: string): string | undefined {
+  const index = process.argv.indexOf(`--${name}`);
+  return index >= 0 ? process.argv[index + 1] : undefined;
+}
+
+const eventCount = Number(option("events") ?? 20000);
+const randomSeed = Number(option("seed") ?? 7);
+const force = process.argv.includes("--force");
+const database = (knexConfig.connection as Knex.MySqlConnectionConfig).database ?? "foamtally";
+const BATCH = 500;
+
+if (!Number.isInteger(eventCount) || eventCount < 1 || eventCount > 2_000_000) {
+  console.error("--events must be a whole number from 1 to 2,000,000.");
+  process.exit(2);
+}
+if (database === "foamtally" && !force) {
+  console.error(
+    "Refusing to add synthetic events to the main database `foamtally`. Set DB_NAME to another database " +
+      "(e.g. DB_NAME=foamtally_bench) or pass --force.",
+  );
+  process.exit(2);
+}
+
+const started = performance.now();
+{
+  const connection = { ...(knexConfig.connection as Knex.MySqlConnectionConfig) };
+  delete connection.database;
+  const server = knexFactory({ ...knexConfig, connection });
+  try {
+    await server.raw(`CREATE DATABASE IF NOT EXISTS \`${database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
+  } finally {
+    await server.destroy();
+  }
+}
+const knex = knexFactory(knexConfig);
+try {
+  await knex.migrate.latest();
+  // The demo accounts and catalogue give the synthetic events their apparatus, products and people.
+  await knex.seed.run({ specific: "01_agency_and_accounts.ts" });
+  await knex.seed.run({ specific: "02_catalogue.ts" });
+  const ids = await demoIds(knex);
+  const facts = await loadCatalogueFacts(knex);
+  const random = seededRandom(randomSeed);
+  const tag = `SY${Date.now().toString(36).toUpperCase()}`;
+  const first = Date.UTC(2024, 11, 1);
+  const span = Date.UTC(2026, 10, 30) - first;
+  let discharges = 0;
+  let dispositions = 0;
+  let readings = 0;
+  for (let offset = 0; offset < eventCount; offset += BATCH) {
+    const specs: EventSpec[] = [];
+    for (let index = offset; index < Math.min(eventCount, offset + BATCH); index++) {
+      const start = new Date(first + Math.floor(random.next() * span));
+      const status: EventStatus = random.chance(0.85) ? "accepted" : random.pick(["draft", "filed", "returned"]);
+      const kind = random.chance(0.25) ? "training" : "incident";
+      const spec = routineEvent(random, `${tag}-${String(index + 1).padStart(7, "0")}`, kind, {
+        ids,
+        start,
+        reviewer: ids.reviewer,
+        status,
+      });
+      const line = spec.discharges[0];
+      if (line.productId != null && random.chance(0.2)) {
+        // A refill reading near the computed drawdown, as a crew would log it.
+        const computed = usageOf(spec, facts).byProduct.find((group) => group.productId === line.productId);
+        const refillGal = Math.round((computed?.totals.concentrate.gal ?? 0) * random.between(0.9, 1.1) * 10) / 10;
+        spec.tankReadings = [{ apparatusId: line.apparatusId, productId: line.productId, kind: "refill", refillGal }];
+      }
+      specs.push(spec);
+    }
+    await knex.transaction(async (trx) => {
+      const usages = specs.map((spec) => usageOf(spec, facts));
+      await trx("events").insert(specs.map((spec, index) => eventRow(spec, usages[index])));
+      const idOf = new Map<string, number>(
+        (
+          await trx("events")
+            .whereIn(
+              "number",
+              specs.map((spec) => spec.number),
+            )
+            .select("id", "number")
+        ).map((row) => [row.number, row.id]),
+      );
+      const lines = specs.flatMap((spec, index) => dischargeRows(idOf.get(spec.number)!, spec, usages[index]));
+      const runoff = specs.flatMap((spec) => dispositionRows(idOf.get(spec.number)!, spec));
+      const tanks = specs.flatMap((spec) => tankReadingRows(idOf.get(spec.number)!, spec));
+      if (lines.length) await trx.batchInsert("discharges", lines, BATCH).transacting(trx);
+      if (runoff.length) await trx.batchInsert("runoff_dispositions", runoff, BATCH).transacting(trx);
+      if (tanks.length) await trx.batchInsert("tank_readings", tanks, BATCH).transacting(trx);
+      discharges += lines.length;
+      dispositions += runoff.length;
+      readings += tanks.length;
+    });
+    if (process.stdout.isTTY) process.stdout.write(`\r${Math.min(eventCount, offset + BATCH)} / ${eventCount} events`);
+  }
+  const seconds = (performance.now() - started) / 1000;
+  const total = Number((await knex("events").count({ n: "*" }).first())!.n);
+  console.log(
+    `\nInserted ${eventCount} events, ${discharges} discharges, ${dispositions} runoff dispositions and ` +
+      `${readings} tank readings into ${database} in ${seconds.toFixed(1)} s ` +
+      `(${Math.round(eventCount / seconds)} events/s). The database now holds ${total} events.`,
+  );
+} finally {
+  await knex.destroy();
+}
