@@ -69,7 +69,7 @@ export function ConcentrateByMonthChart({ rows }: { rows: MonthRow[] }) {
                 <text x={x + barWidth / 2} y={plotHeight + 14} textAnchor="middle" fontSize="10" fill="#3d4a5c">
                   {MONTHS[Number(month) - 1]}
                 </text>
-                {index === 0 || month === "01" ? (
+                {(index === 0 && month !== "12") || month === "01" ? (
                   <text x={x + barWidth / 2} y={plotHeight + 26} textAnchor="middle" fontSize="10" fill="#3d4a5c">
                     {year}
                   </text>

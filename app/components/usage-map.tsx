@@ -139,6 +139,12 @@ export function UsageMap({ eventsQuery, overlays, onViewChange }: Props) {
           map.once("idle", () => {
             if (!cancelled) setState("ready");
           });
+          // How many event circles and groups are drawn now (read by people's tools and the tests).
+          map.on("idle", () => {
+            if (!map || !container.current) return;
+            const drawn = map.queryRenderedFeatures({ layers: ["event-circles", "event-clusters"] });
+            container.current.dataset.markers = String(drawn.length);
+          });
           report();
         });
         map.on("moveend", report);

@@ -1,5 +1,6 @@
 import { data, Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/geography";
+import { EventLocationMap } from "~/components/event-location-map";
 import { requireUser } from "~/lib/auth.server";
 import { isLayerKind, LAYER_RULES, MAX_LAYER_BYTES } from "~/lib/geo/layers";
 import { clientAddress } from "~/lib/http.server";
@@ -71,6 +72,17 @@ export default function Geography({ loaderData, actionData }: Route.ComponentPro
         Files are GeoJSON (RFC 7946): WGS 84 longitude/latitude, a FeatureCollection, at most{" "}
         {MAX_LAYER_BYTES / 1024 / 1024} MB.
       </p>
+      <section className="card max-w-3xl" aria-labelledby="check-point-title">
+        <h2 id="check-point-title" className="text-lg font-semibold">
+          Check a point
+        </h2>
+        <p className="text-sm text-slate-ft">
+          What an officer sees on the report form for a location, with the layers in use now.
+        </p>
+        <div className="mt-3">
+          <EventLocationMap latitudeName="check_latitude" longitudeName="check_longitude" />
+        </div>
+      </section>
       <div className="grid gap-4 md:grid-cols-2">
         {loaderData.layers.map((layer) => {
           const errors = actionData?.kind === layer.kind ? actionData.errors : null;

@@ -134,7 +134,8 @@ export function basemapStyle(origin: string): StyleSpecification {
         type: "symbol",
         source: "basemap",
         "source-layer": "county_labels",
-        maxzoom: 11,
+        // Real county names give way to the district's own features at street zooms.
+        maxzoom: 9.5,
         layout: { ...label(12), "text-field": ["get", "name"] },
         paint: { "text-color": c.state, "text-halo-color": c.halo, "text-halo-width": 1.5 },
       },
