@@ -360,14 +360,17 @@ function writeSummary(
   columnHeads(["Kind", "", "Events"]);
   const kindStart = rowNumber + 1;
   for (const kind of EVENT_KINDS) {
-    add([
-      KIND_LABELS[kind],
-      "",
-      {
-        formula: `COUNTIFS(${range("Events", letterOf(E, "kind"), ranges.events)},${excelString(KIND_LABELS[kind])})`,
-        result: aggregates.eventsByKind[kind],
-      },
-    ]);
+    add(
+      [
+        KIND_LABELS[kind],
+        "",
+        {
+          formula: `COUNTIFS(${range("Events", letterOf(E, "kind"), ranges.events)},${excelString(KIND_LABELS[kind])})`,
+          result: aggregates.eventsByKind[kind],
+        },
+      ],
+      (r) => (r.getCell(3).numFmt = "0"),
+    );
   }
   add(["All events", "", { formula: `SUM(C${kindStart}:C${rowNumber})`, result: aggregates.eventCount }], (r) => {
     r.font = BOLD;

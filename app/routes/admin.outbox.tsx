@@ -82,7 +82,7 @@ export default function Outbox({ loaderData, actionData }: Route.ComponentProps)
                 <td>
                   {row.subject}
                   {row.attachmentName ? (
-                    <span className="block text-xs text-slate-ft">📎 {row.attachmentName}</span>
+                    <span className="block text-xs text-slate-ft">Attachment: {row.attachmentName}</span>
                   ) : null}
                 </td>
                 <td className={row.status === "failed" ? "font-semibold text-danger-700" : undefined}>{row.status}</td>
@@ -125,7 +125,7 @@ export default function Outbox({ loaderData, actionData }: Route.ComponentProps)
             </p>
             {message.attachments.map((attachment) => (
               <p key={attachment.sha256} className="text-sm">
-                📎 {attachment.filename} ({attachment.size.toLocaleString("en-US")} bytes, SHA-256{" "}
+                Attachment: {attachment.filename} ({attachment.size.toLocaleString("en-US")} bytes, SHA-256{" "}
                 {attachment.sha256.slice(0, 16)}…)
               </p>
             ))}

@@ -311,7 +311,7 @@ export default function Environmental({ loaderData, actionData }: Route.Componen
           <Figure label="To surface water" value={galText(figures.surfaceWater)} />
           <Figure
             label="PFAS: heaviest 24 hours"
-            value={`${roundForDisplay(figures.pfasHeaviestLb, 3)} lb of ${agency.thresholdLb} lb threshold (${figures.pfasEvents} events)`}
+            value={`${roundForDisplay(figures.pfasHeaviestLb, 3)} lb of ${agency.thresholdLb} lb threshold (${figures.pfasEvents} ${figures.pfasEvents === 1 ? "event" : "events"})`}
           />
         </dl>
         {figures.accepted === 0 ? <p>No accepted reports fall in this period; the workbook will say so.</p> : null}
