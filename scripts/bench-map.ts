@@ -1,0 +1,192 @@
+// Benchmark of the map's data: fills a throwaway database with 20,000 events (one discharge each)
+// spread over the demo district's bounds, then times GET /api/map/events.geojson (through the route
+// loader, with token sign-in, query and serialisation), GET /api/summary for the same year and a
+// map-sized bbox, and rechecking every event's geography after a layer upload. Not a test.
+//   npm run bench -- map          (or: node --import tsx scripts/bench-map.ts)
+import { createHash, randomBytes } from "node:crypto";
+import { existsSync, readFileSync } from "node:fs";
+import { performance } from "node:perf_hooks";
+import { gzipSync } from "node:zlib";
+
+if (existsSync(".env")) process.loadEnvFile(".env");
+const BENCH_DB = process.env.BENCH_DB_NAME || "foamtally_bench_map";
+if (!/^foamtally_bench\w*$/.test(BENCH_DB)) throw new Error(`Refusing to use ${BENCH_DB} as a throwaway database`);
+process.env.DB_NAME = BENCH_DB;
+const EVENTS = Number(process.env.BENCH_MAP_EVENTS ?? 20_000);
+const RUNS = 5;
+
+async function fill(): Promise<string> {
+  const { default: knexFactory } = await import("knex");
+  const { default: config } = await import("../knexfile");
+  const connection = { ...(config.connection as Record<string, unknown>) };
+  const server = knexFactory({ ...config, connection: { ...connection, database: undefined } });
+  await server.raw(`DROP DATABASE IF EXISTS \`${BENCH_DB}\``);
+  await server.raw(`CREATE DATABASE \`${BENCH_DB}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
+  await server.destroy();
+  const knex = knexFactory({ ...config, connection: { ...connection, database: BENCH_DB } });
+  try {
+    await knex.migrate.latest();
+    await knex("agency_settings").insert({
+      id: 1,
+      name: "Benchmark district (synthetic)",
+      report_recipients: "",
+      release_alert_recipients: "",
+    });
+    const [userId] = await knex("users").insert({ email: "bench@bench.example", name: "Bench", password_hash: "x" });
+    await knex("user_roles").insert({ user_id: userId, role: "chief" });
+    const token = randomBytes(24).toString("hex");
+    await knex("api_tokens").insert({
+      user_id: userId,
+      name: "bench",
+      token_prefix: token.slice(0, 8),
+      token_hash: createHash("sha256").update(token).digest("hex"),
+    });
+    const stations: number[] = [];
+    for (const code of ["B1", "B2", "B3"]) {
+      const [id] = await knex("stations").insert({ code, name: `Bench ${code}` });
+      stations.push(id);
+    }
+    const products: { id: number; pfas: boolean }[] = [];
+    for (const [name, foamClass, pfas] of [
+      ["Bench Class A (synthetic)", "A", false],
+      ["Bench fluorine-free B (synthetic)", "B", false],
+      ["Bench legacy AR-AFFF (synthetic)", "B", true],
+    ] as const) {
+      const [id] = await knex("foam_products").insert({
+        name,
+        foam_class: foamClass,
+        foam_type: "other",
+        pfas_containing: pfas,
+      });
+      products.push({ id, pfas });
+    }
+    // Deterministic pseudo-random spread (a small linear congruential generator).
+    let seed = 20_261_201;
+    const random = () => (seed = (seed * 1_103_515_245 + 12_345) % 2 ** 31) / 2 ** 31;
+    const start = Date.UTC(2030, 0, 2); // well inside the local year
+    const kinds = ["incident", "training", "test", "flush"];
+    const BATCH = 1000;
+    for (let first = 0; first < EVENTS; first += BATCH) {
+      const rows = [];
+      const chosen: { product: number; concentrate: number; water: number }[] = [];
+      for (let i = first; i < Math.min(EVENTS, first + BATCH); i++) {
+        const product = products[Math.floor(random() * (random() < 0.9 ? 1 : 3))];
+        const concentrate = Math.round(random() * 3000) / 100;
+        const water = Math.round(random() * 300_000) / 100;
+        chosen.push({ product: product.id, concentrate, water });
+        rows.push({
+          number: `BENCH-${i}`,
+          kind: kinds[i % 4],
+          status: "accepted",
+          started_at: new Date(start + random() * 360 * 86_400_000),
+          address: `${i} Bench Road`,
+          latitude: (38.6 + random() * 0.2).toFixed(6),
+          longitude: (-98.32 + random() * 0.24).toFixed(6),
+          station_id: stations[i % 3],
+          created_by: userId,
+          water_gal: water,
+          concentrate_gal: concentrate,
+          solution_gal: water + concentrate,
+          pfas_containing: product.pfas,
+        });
+      }
+      await knex("events").insert(rows);
+      const ids: number[] = await knex("events")
+        .whereIn(
+          "number",
+          rows.map((row) => row.number),
+        )
+        .orderBy("id")
+        .pluck("id");
+      await knex("discharges").insert(
+        ids.map((id, index) => ({
+          event_id: id,
+          position: 1,
+          product_id: chosen[index].product,
+          water_gal: chosen[index].water,
+          concentrate_gal: chosen[index].concentrate,
+          solution_gal: chosen[index].water + chosen[index].concentrate,
+        })),
+      );
+    }
+    return token;
+  } finally {
+    await knex.destroy();
+  }
+}
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.floor(sorted.length / 2)];
+}
+
+async function main() {
+  const filled = performance.now();
+  const token = await fill();
+  console.log(`filled ${BENCH_DB} with ${EVENTS} events in ${((performance.now() - filled) / 1000).toFixed(1)} s`);
+  const { RouterContextProvider } = await import("react-router");
+  const { loader: eventsLoader } = await import("../app/routes/api.map.events");
+  const { loader: summaryLoader } = await import("../app/routes/api.summary");
+  const { replaceLayer } = await import("../app/models/geography.server");
+  const { db } = await import("../app/lib/db.server");
+  const call = async (loader: typeof eventsLoader, path: string) => {
+    const request = new Request(`http://127.0.0.1${path}`, { headers: { Authorization: `Bearer ${token}` } });
+    const response = (await loader({
+      request,
+      params: {},
+      context: new RouterContextProvider(),
+    } as never)) as Response;
+    return Buffer.from(await response.arrayBuffer());
+  };
+  const measure = async (label: string, loader: typeof eventsLoader, path: string) => {
+    const times: number[] = [];
+    let body = Buffer.alloc(0);
+    for (let run = 0; run < RUNS; run++) {
+      const began = performance.now();
+      body = await call(loader, path);
+      times.push(performance.now() - began);
+    }
+    const gzip = gzipSync(body).length;
+    console.log(
+      `${label}: median ${median(times).toFixed(0)} ms of ${RUNS} (min ${Math.min(...times).toFixed(0)}, max ${Math.max(...times).toFixed(0)}); ` +
+        `${(body.length / 1024).toFixed(0)} KB, ${(gzip / 1024).toFixed(0)} KB gzipped`,
+    );
+    return body;
+  };
+  try {
+    const year = "from=2030-01-01&to=2030-12-31";
+    const all = await measure(`events.geojson, ${EVENTS} events`, eventsLoader, `/api/map/events.geojson?${year}`);
+    const count = (JSON.parse(all.toString()) as { features: unknown[] }).features.length;
+    if (count !== EVENTS) throw new Error(`expected ${EVENTS} features, got ${count}`);
+    await measure(
+      "events.geojson, bbox a quarter of the district",
+      eventsLoader,
+      `/api/map/events.geojson?${year}&bbox=-98.32,38.6,-98.2,38.7`,
+    );
+    await measure(`summary, ${EVENTS} events`, summaryLoader, `/api/summary?${year}`);
+    await measure(
+      "summary, bbox a quarter of the district",
+      summaryLoader,
+      `/api/summary?${year}&bbox=-98.32,38.6,-98.2,38.7`,
+    );
+    const demo = (name: string) => readFileSync(`tiles/sources/alder-bend/${name}.geojson`, "utf8");
+    for (const [kind, name] of [
+      ["drainage_basins", "drainage-basins"],
+      ["storm_inlets", "storm-inlets"],
+      ["jurisdiction", "jurisdiction"],
+    ] as const) {
+      await replaceLayer({ kind, text: demo(name), fileName: name }, null, null, { recheckEvents: false });
+    }
+    const text = demo("waterways");
+    const began = performance.now();
+    const result = await replaceLayer({ kind: "waterways", text, fileName: "waterways.geojson" }, null);
+    if (!result.ok) throw new Error(result.errors.join(" "));
+    console.log(
+      `replace the waterways layer and recheck ${result.eventsRechecked} events: ${((performance.now() - began) / 1000).toFixed(1)} s`,
+    );
+  } finally {
+    await db.destroy();
+  }
+}
+
+await main();
