@@ -129,7 +129,8 @@ async function main() {
   const { loader: summaryLoader } = await import("../app/routes/api.summary");
   const { replaceLayer } = await import("../app/models/geography.server");
   const { db } = await import("../app/lib/db.server");
-  const call = async (loader: typeof eventsLoader, path: string) => {
+  type Loader = (args: never) => Promise<unknown>;
+  const call = async (loader: Loader, path: string) => {
     const request = new Request(`http://127.0.0.1${path}`, { headers: { Authorization: `Bearer ${token}` } });
     const response = (await loader({
       request,
@@ -138,7 +139,7 @@ async function main() {
     } as never)) as Response;
     return Buffer.from(await response.arrayBuffer());
   };
-  const measure = async (label: string, loader: typeof eventsLoader, path: string) => {
+  const measure = async (label: string, loader: Loader, path: string) => {
     const times: number[] = [];
     let body = Buffer.alloc(0);
     for (let run = 0; run < RUNS; run++) {
