@@ -7,6 +7,7 @@ const baseURL = `http://127.0.0.1:${port}`;
 
 export default defineConfig({
   testDir: "tests/e2e",
+  outputDir: `test-results/e2e-${port}`,
   fullyParallel: false,
   workers: 1,
   retries: 0,

@@ -1,4 +1,4 @@
-import { Form, NavLink } from "react-router";
+import { Form, NavLink, useLocation } from "react-router";
 import { ROLE_LABELS, type Role } from "~/lib/roles";
 import { navFor } from "./navigation";
 
@@ -16,6 +16,17 @@ export function AppShell({
   children: React.ReactNode;
 }) {
   const items = user ? navFor(user.roles) : [];
+  const location = useLocation();
+  // A link with a query (such as the review queue) is current only with that query; its plain
+  // sibling is current only when no such link is.
+  const current = (to: string, pathActive: boolean) => {
+    const [path, query] = to.split("?");
+    if (query) return location.pathname === path && location.search === `?${query}`;
+    const queried = items.some(
+      (item) => item.to.startsWith(`${path}?`) && location.search === item.to.slice(path.length),
+    );
+    return pathActive && !queried;
+  };
   return (
     <div className="flex min-h-screen flex-col">
       <a
@@ -58,7 +69,7 @@ export function AppShell({
                     to={item.to}
                     end={item.to === "/"}
                     className={({ isActive }) =>
-                      `block whitespace-nowrap rounded px-3 py-2 ${isActive ? "bg-white text-ink" : "text-white/90 hover:bg-white/10"}`
+                      `block whitespace-nowrap rounded px-3 py-2 ${current(item.to, isActive) ? "bg-white text-ink" : "text-white/90 hover:bg-white/10"}`
                     }
                   >
                     {item.label}

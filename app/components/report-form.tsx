@@ -145,7 +145,7 @@ export function ReportForm(props: ReportFormProps) {
 
   // Live totals from the server, debounced while the officer types.
   const lines = useMemo(() => computableLines(form.value?.discharges), [form.value?.discharges]);
-  const request = JSON.stringify(lines.map((entry) => entry.line));
+  const request = JSON.stringify({ discharges: lines.map((entry) => entry.line) });
   const submitTotals = totalsFetcher.submit;
   const lastRequest = useRef<string>("");
   useEffect(() => {
@@ -228,7 +228,7 @@ export function ReportForm(props: ReportFormProps) {
             Discharges
           </h2>
           <button
-            type="button"
+            type="submit"
             className="btn-secondary"
             {...form.insert.getButtonProps({ name: fields.discharges.name, defaultValue: NEW_DISCHARGE as never })}
           >
@@ -259,7 +259,7 @@ export function ReportForm(props: ReportFormProps) {
                   <h3 className="font-semibold">Discharge {index + 1}</h3>
                   <div className="flex gap-2">
                     <button
-                      type="button"
+                      type="submit"
                       className="btn-quiet"
                       {...form.insert.getButtonProps({
                         name: fields.discharges.name,
@@ -270,7 +270,7 @@ export function ReportForm(props: ReportFormProps) {
                       Duplicate<span className="sr-only"> discharge {index + 1}</span>
                     </button>
                     <button
-                      type="button"
+                      type="submit"
                       className="btn-quiet"
                       {...form.remove.getButtonProps({ name: fields.discharges.name, index })}
                     >
@@ -402,7 +402,7 @@ export function ReportForm(props: ReportFormProps) {
             Where the runoff went
           </h2>
           <button
-            type="button"
+            type="submit"
             className="btn-secondary"
             {...form.insert.getButtonProps({ name: fields.dispositions.name, defaultValue: NEW_DISPOSITION as never })}
           >
@@ -445,7 +445,7 @@ export function ReportForm(props: ReportFormProps) {
                   ) : null}
                 </div>
                 <button
-                  type="button"
+                  type="submit"
                   className="btn-quiet mt-2"
                   {...form.remove.getButtonProps({ name: fields.dispositions.name, index })}
                 >
@@ -463,7 +463,7 @@ export function ReportForm(props: ReportFormProps) {
             Concentrate tanks after use
           </h2>
           <button
-            type="button"
+            type="submit"
             className="btn-secondary"
             {...form.insert.getButtonProps({ name: fields.tankReadings.name })}
           >
@@ -499,7 +499,7 @@ export function ReportForm(props: ReportFormProps) {
                 <Field label="Level before (gal)" field={row.levelBeforeGal} inputMode="decimal" />
                 <Field label="Level after (gal)" field={row.levelAfterGal} inputMode="decimal" />
                 <button
-                  type="button"
+                  type="submit"
                   className="btn-quiet"
                   {...form.remove.getButtonProps({ name: fields.tankReadings.name, index })}
                 >
