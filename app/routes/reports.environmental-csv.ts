@@ -1,10 +1,15 @@
 import type { Route } from "./+types/reports.environmental-csv";
 import { requireUser } from "~/lib/auth.server";
+import { rethrowDatabaseDown } from "~/lib/http.server";
 import { ENVIRONMENTAL_READERS, generatedDownload, periodFrom, workbookRequestFor } from "./environmental-files.server";
 
 /** The workbook's tables as one CSV file each, zipped. */
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request, ENVIRONMENTAL_READERS);
   const period = await periodFrom(new URL(request.url).searchParams);
-  return generatedDownload("zip", await workbookRequestFor(period, user));
+  try {
+    return await generatedDownload("zip", await workbookRequestFor(period, user));
+  } catch (error) {
+    rethrowDatabaseDown(request, error);
+  }
 }

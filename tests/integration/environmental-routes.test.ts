@@ -141,6 +141,36 @@ describe("environmental downloads and submission", () => {
     expect(page.data.submission.sha256).toBe(stored.sha256);
   });
 
+  it("lists events amended after the submission on the Summary sheet", async () => {
+    const event = await db("events")
+      .where("started_at", ">=", new Date("2034-08-01"))
+      .where("started_at", "<", new Date("2034-09-01"))
+      .first();
+    const later = new Date(Date.now() + 5_000);
+    await db("events").where({ id: event.id }).update({ revision: 1, updated_at: later });
+    await db("event_revisions").insert({
+      event_id: event.id,
+      revision: 1,
+      reason: "Corrected the duration of line 1",
+      snapshot_json: "{}",
+      created_by: event.created_by,
+      created_at: later,
+    });
+    const response = (await xlsxLoader(
+      routeArgs(getRequest("/reports/environmental.xlsx?year=2034&quarter=3", { Cookie: enviroCookie })),
+    )) as Response;
+    const summary = XLSX.utils.sheet_to_json<unknown[]>(
+      XLSX.read(Buffer.from(await response.arrayBuffer())).Sheets.Summary,
+      {
+        header: 1,
+      },
+    );
+    const heading = summary.findIndex((row) => row[0] === "Changes since submission");
+    expect(summary[heading + 1]).toEqual(["Event number", "Revision", "Changed at (local)", "What changed"]);
+    expect(summary[heading + 2]).toEqual([event.number, 1, expect.any(String), "Corrected the duration of line 1"]);
+    expect(summary).toHaveLength(heading + 3);
+  });
+
   it("refuses submission by the chief (download only) and an invalid period with 400", async () => {
     const chief = await settle(() =>
       pageAction(
