@@ -174,7 +174,9 @@ export default function Profile({ loaderData, actionData }: Route.ComponentProps
 }
 
 const when = (value: string | null) =>
-  value ? new Date(value).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short" }) : "never";
+  value
+    ? `${new Date(value).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" })} UTC`
+    : "never";
 
 function ApiTokens({
   tokens,

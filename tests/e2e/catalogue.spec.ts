@@ -1,0 +1,71 @@
+import { expect, signInAs, test } from "../support/e2e";
+
+const PDF = Buffer.from("%PDF-1.4\n% demo safety sheet for an end-to-end test\n1 0 obj <<>> endobj\n%%EOF\n");
+
+test.describe("the foam catalogue", () => {
+  test("the environmental officer adds a product with its PFAS figure and safety sheet", async ({
+    page,
+    consoleErrors,
+  }) => {
+    consoleErrors.allow(/status of 400/);
+    await signInAs(page, "environmental");
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Foam products" }).click();
+    await expect(page.getByRole("heading", { name: "Foam products" })).toBeVisible();
+    await page.getByRole("link", { name: "Add a product" }).click();
+    await expect(page.getByRole("note", { name: "PFAS handling caution" })).toContainText("out of drains");
+
+    const name = `Ridge AR-AFFF ${Date.now()} (test)`;
+    await page.getByLabel("Name", { exact: true }).fill(name);
+    await page.getByLabel("Foam class").selectOption("B");
+    await page.getByLabel("Type").selectOption("ar-afff");
+    await page.getByLabel("Nominal percentages").fill("3, 6");
+    await page.getByLabel("Contains PFAS (fluorinated)").check();
+    await page.getByLabel("PFAS content", { exact: true }).fill("8");
+    await page.getByRole("button", { name: "Add product" }).click();
+    // The unit and the source of the PFAS figure are asked for at their fields, keeping what was typed.
+    await expect(page.getByText("Choose a unit for the PFAS content.")).toBeVisible();
+    await expect(page.getByLabel("Nominal percentages")).toHaveValue("3, 6");
+
+    await page.getByLabel("Unit of the PFAS content").selectOption("g_per_l");
+    await page.getByLabel("Source of the PFAS figure").fill("Estimate from the legacy range, not measured");
+    await page
+      .getByLabel(/Safety sheet/)
+      .setInputFiles({ name: "ridge.pdf", mimeType: "application/pdf", buffer: PDF });
+    await page.getByRole("button", { name: "Add product" }).click();
+
+    await expect(page.getByRole("status")).toContainText(`Saved ${name}.`);
+    const row = page.getByRole("row").filter({ hasText: name });
+    await expect(row).toContainText("Contains PFAS (8 g per litre of concentrate)");
+    const download = page.waitForEvent("download");
+    await row.getByRole("link", { name: "ridge.pdf" }).click();
+    expect((await download).suggestedFilename()).toBe("ridge.pdf");
+  });
+
+  test("the chief changes an apparatus's foam system and adds an outlet", async ({ page }) => {
+    await signInAs(page, "chief");
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Apparatus and stations" }).click();
+    await page.getByRole("link", { name: "E2", exact: true }).click();
+    await expect(page.getByRole("heading", { name: "Apparatus E2" })).toBeVisible();
+    await page.getByLabel("Proportioner maximum concentrate rate (gpm)").fill("1.8");
+    const before = await page.getByRole("group", { name: /Outlet \d/ }).count();
+    await page.getByRole("button", { name: "Add an outlet" }).click();
+    const added = page.getByRole("group", { name: `Outlet ${before + 1}` });
+    const outletName = `Rear discharge ${Date.now() % 100000}`;
+    await added.getByLabel("Name").fill(outletName);
+    await added.getByLabel("Default flow (gpm)").fill("125");
+    await added.getByLabel("Default method").selectOption("aspirated");
+    await page.getByRole("button", { name: "Save apparatus" }).click();
+
+    await expect(page.getByRole("status")).toContainText("Saved E2.");
+    const row = page.getByRole("row", { name: /E2/ });
+    await expect(row).toContainText("1.8 gpm concentrate");
+    await expect(row).toContainText(outletName);
+  });
+
+  test("an officer cannot open the catalogue pages", async ({ page, consoleErrors }) => {
+    consoleErrors.allow(/status of 403/);
+    await signInAs(page, "officer");
+    expect((await page.goto("/products"))?.status()).toBe(403);
+    expect((await page.goto("/apparatus"))?.status()).toBe(403);
+  });
+});
