@@ -5,7 +5,13 @@ import { Geodesic } from "geographiclib-geodesic";
 import type { FeatureCollection, Position } from "geojson";
 import { describe, expect, it } from "vitest";
 import { searchAddresses } from "./addresses";
-import { checkLocation, DEFAULT_WATERWAY_BUFFER_M, drainageBasinAt, metresToFeature } from "./checks";
+import {
+  checkLocation,
+  DEFAULT_WATERWAY_BUFFER_M,
+  drainageBasinAt,
+  metresToFeature,
+  roughMetresToFeature,
+} from "./checks";
 
 const demo = (name: string) =>
   JSON.parse(readFileSync(`tiles/sources/alder-bend/${name}.geojson`, "utf8")) as FeatureCollection;
@@ -80,6 +86,30 @@ describe("distances against GeographicLib's geodesic (WGS 84)", () => {
       const ours = metresToFeature(point, creek);
       expect(Math.abs(ours - reference)).toBeLessThanOrEqual(Math.max(0.05, reference * RELATIVE_TOLERANCE));
     }
+  });
+});
+
+describe("the quick pre-ranking of waterways", () => {
+  it("stays within 1 % (+ 1 m) of turf, so the nearest waterway is never skipped (property-based)", () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: -98.32, max: -98.08, noNaN: true }),
+        fc.double({ min: 38.6, max: 38.8, noNaN: true }),
+        (lon, lat) => {
+          const distances = layers.waterways.features.map((feature) => ({
+            exact: metresToFeature([lon, lat], feature),
+            rough: roughMetresToFeature([lon, lat], feature),
+            name: String(feature.properties?.name),
+          }));
+          for (const { exact, rough } of distances)
+            expect(Math.abs(rough - exact)).toBeLessThanOrEqual(exact * 0.01 + 1);
+          const bruteForce = distances.reduce((a, b) => (b.exact < a.exact ? b : a));
+          const checks = checkLocation({ latitude: lat, longitude: lon }, layers, DEFAULT_WATERWAY_BUFFER_M);
+          expect(checks.nearestWaterwayM).toBeCloseTo(bruteForce.exact, 1);
+        },
+      ),
+      { numRuns: 200 },
+    );
   });
 });
 

@@ -84,14 +84,68 @@ function metresToLine(point: Position, line: LineString): number {
   return nearestPointOnLine(line, point, { units: "meters" }).properties.pointDistance;
 }
 
-function nearest(point: Position, collection: FeatureCollection | null, fallback: string) {
-  let best: { name: string; metres: number } | null = null;
-  collection?.features.forEach((feature, index) => {
-    if (!feature.geometry) return;
-    const metres = metresToFeature(point, feature);
-    if (!best || metres < best.metres) best = { name: featureName(feature, `${fallback} ${index + 1}`), metres };
+// Metres per degree of latitude on turf's sphere (mean radius 6,371,008.8 m).
+const METRES_PER_DEGREE = (6_371_008.8 * Math.PI) / 180;
+
+/**
+ * A quick estimate of the metres from the point to a feature on a local flat projection (within
+ * about 0.5 % over a district), used only to pick which features to measure properly.
+ */
+export function roughMetresToFeature(point: Position, feature: Feature): number {
+  const scaleX = Math.cos((point[1] * Math.PI) / 180) * METRES_PER_DEGREE;
+  const toLocal = (p: Position): [number, number] => [
+    (p[0] - point[0]) * scaleX,
+    (p[1] - point[1]) * METRES_PER_DEGREE,
+  ];
+  const toSegment = (a: Position, b: Position) => {
+    const [ax, ay] = toLocal(a);
+    const [bx, by] = toLocal(b);
+    const dx = bx - ax;
+    const dy = by - ay;
+    const length = dx * dx + dy * dy;
+    const t = length === 0 ? 0 : Math.max(0, Math.min(1, -(ax * dx + ay * dy) / length));
+    return Math.hypot(ax + t * dx, ay + t * dy);
+  };
+  const toLine = (line: Position[]) => {
+    let best = Infinity;
+    for (let i = 0; i < line.length - 1; i++) best = Math.min(best, toSegment(line[i], line[i + 1]));
+    return line.length === 1 ? Math.hypot(...toLocal(line[0])) : best;
+  };
+  let best = Infinity;
+  flattenEach(feature, (part) => {
+    const geometry = part.geometry;
+    if (geometry.type === "Point") best = Math.min(best, Math.hypot(...toLocal(geometry.coordinates)));
+    else if (geometry.type === "LineString") best = Math.min(best, toLine(geometry.coordinates));
+    else if (geometry.type === "Polygon") {
+      if (booleanPointInPolygon(point, geometry)) best = 0;
+      else for (const ring of geometry.coordinates) best = Math.min(best, toLine(ring));
+    }
   });
-  return best as { name: string; metres: number } | null;
+  return best;
+}
+
+/**
+ * The nearest feature and its distance measured by turf. Features are first ranked by the quick
+ * estimate; only those within 2 % (+ 5 m) of the closest estimate are measured properly.
+ */
+function nearest(point: Position, collection: FeatureCollection | null, fallback: string) {
+  const rough = (collection?.features ?? [])
+    .map((feature, index) => ({
+      feature,
+      index,
+      metres: feature.geometry ? roughMetresToFeature(point, feature) : Infinity,
+    }))
+    .filter((candidate) => Number.isFinite(candidate.metres));
+  if (rough.length === 0) return null;
+  const closest = Math.min(...rough.map((candidate) => candidate.metres));
+  let best: { name: string; metres: number } | null = null;
+  for (const candidate of rough) {
+    if (candidate.metres > closest * 1.02 + 5) continue;
+    const metres = metresToFeature(point, candidate.feature);
+    if (!best || metres < best.metres)
+      best = { name: featureName(candidate.feature, `${fallback} ${candidate.index + 1}`), metres };
+  }
+  return best;
 }
 
 const roundMetres = (metres: number) => Math.round(metres * 100) / 100;
