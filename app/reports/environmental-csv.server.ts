@@ -33,13 +33,16 @@ import {
   type WrittenFile,
 } from "./environmental-workbook.server";
 
+// A UTF-8 byte-order mark, so that spreadsheet programs read "–", "°" and "³" as written.
+const BOM = "\uFEFF";
+
 function csvCell(value: CellValue): string | number | null {
   if (value instanceof Date) return value.toISOString().slice(0, 16).replace("T", " ");
   return value;
 }
 
 async function* csvRows<Row>(columns: Column<Row>[], rows: AsyncIterable<Row> | Iterable<Row>): AsyncGenerator<string> {
-  yield csvLine(columns.map((column) => column.header));
+  yield BOM + csvLine(columns.map((column) => column.header));
   for await (const row of rows) yield csvLine(columns.map((column) => csvCell(column.value(row))));
 }
 
@@ -120,7 +123,7 @@ export async function writeEnvironmentalCsvZip(
         "lb",
       ]);
       summary.push(["PFAS", "reportable threshold", agency.pfasReportableLb, "lb in 24 h"]);
-      zip.append(summary.map((row) => csvLine(row)).join(""), { name: "summary.csv" });
+      zip.append(BOM + summary.map((row) => csvLine(row)).join(""), { name: "summary.csv" });
 
       const appendTable = async <Row>(table: DetailTable<Row>) => {
         const entry = Readable.from(csvRows(table.columns, table.rows(request.period, trx)));

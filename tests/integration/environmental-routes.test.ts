@@ -89,6 +89,15 @@ describe("environmental downloads and submission", () => {
       expect(text).toContain(name);
     }
     expect(bytes.subarray(0, 4).toString("latin1")).toBe("PK\u0003\u0004");
+    // SheetJS reads zip containers too (XLSX.CFB); the discharge table holds the one accepted line of August.
+    const zip = XLSX.CFB.read(bytes, { type: "buffer" });
+    const csv = Buffer.from(XLSX.CFB.find(zip, "discharges.csv")?.content as Uint8Array).toString("utf8");
+    expect(csv.startsWith("\uFEFFEvent number,Kind,Line,")).toBe(true);
+    const lines = XLSX.utils.sheet_to_json<Record<string, unknown>>(
+      XLSX.read(csv.slice(1), { type: "string" }).Sheets.Sheet1,
+    );
+    expect(lines).toHaveLength(1);
+    expect(lines[0]).toMatchObject({ "Water (US gal)": 400, "Concentrate (US gal)": 2, "Foam solution (US gal)": 402 });
   });
 
   it("stores the exact submitted file with its digest, and later downloads say so", async () => {
