@@ -17,6 +17,8 @@ export type LocationChecks = {
   layersMissing: string[];
 };
 
+export type DischargePoint = { key: string; label: string; latitude: number | null; longitude: number | null };
+
 type Props = {
   /** Starting point (strings as they come from a form, or numbers); empty when not placed yet. */
   defaultLatitude?: string | number | null;
@@ -34,6 +36,12 @@ type Props = {
   addressInputName?: string;
   /** Called when the point changes; `address` is set when it was picked from the address search. */
   onChange?: (point: { latitude: number; longitude: number; address?: string }) => void;
+  /**
+   * Discharge points to show and place with the event (the form keeps their values); each gets
+   * its own draggable marker, and a choice of what a click on the map places.
+   */
+  dischargePoints?: DischargePoint[];
+  onDischargePointChange?: (key: string, point: { latitude: number; longitude: number }) => void;
   disabled?: boolean;
 };
 
@@ -56,6 +64,8 @@ export function EventLocationMap({
   longitudeErrors,
   addressInputName,
   onChange,
+  dischargePoints,
+  onDischargePointChange,
   disabled = false,
 }: Props) {
   const id = useId();
@@ -72,6 +82,13 @@ export function EventLocationMap({
   const onChangeRef = useRef(onChange);
   onChangeRef.current = onChange;
   const placeRef = useRef<(lat: number, lon: number, address?: string) => void>(() => {});
+  const [target, setTarget] = useState<string>("event");
+  const targetRef = useRef(target);
+  targetRef.current = target;
+  const pointChangeRef = useRef(onDischargePointChange);
+  pointChangeRef.current = onDischargePointChange;
+  const pointMarkers = useRef(new Map<string, Marker>());
+  const maplibreRef = useRef<Awaited<ReturnType<typeof loadMapLibre>> | null>(null);
 
   const lat = Number(latitude);
   const lon = Number(longitude);
@@ -87,9 +104,11 @@ export function EventLocationMap({
   useEffect(() => {
     let cancelled = false;
     let map: MapLibreMap | undefined;
+    const markers = pointMarkers.current;
     loadMapLibre()
       .then((maplibre) => {
         if (cancelled || !container.current) return;
+        maplibreRef.current = maplibre;
         const startLat = Number(defaultLatitude);
         const startLon = Number(defaultLongitude);
         const placed = defaultLatitude != null && defaultLatitude !== "" && isValidLatLon(startLat, startLon);
@@ -111,7 +130,11 @@ export function EventLocationMap({
           placeRef.current(point.lat, point.lng);
         });
         if (!disabled) {
-          map.on("click", (event) => placeRef.current(event.lngLat.lat, event.lngLat.lng));
+          map.on("click", (event) => {
+            if (targetRef.current === "event") placeRef.current(event.lngLat.lat, event.lngLat.lng);
+            else
+              pointChangeRef.current?.(targetRef.current, { latitude: event.lngLat.lat, longitude: event.lngLat.lng });
+          });
         }
         map.on("load", () => !cancelled && setMapState("ready"));
         map.on("error", (event) => console.warn("map:", event.error?.message));
@@ -122,6 +145,7 @@ export function EventLocationMap({
       map?.remove();
       mapRef.current = null;
       markerRef.current = null;
+      markers.clear();
     };
     // The map is created once; later changes to the point move the marker below.
     // eslint-disable-next-line react-hooks/exhaustive-deps
@@ -161,6 +185,41 @@ export function EventLocationMap({
       controller.abort();
     };
   }, [lat, lon, valid, mapState]);
+
+  // One small numbered marker per discharge point that has coordinates.
+  useEffect(() => {
+    const map = mapRef.current;
+    const maplibre = maplibreRef.current;
+    if (!map || !maplibre) return;
+    const wanted = new Set<string>();
+    (dischargePoints ?? []).forEach((point, index) => {
+      if (point.latitude == null || point.longitude == null || !isValidLatLon(point.latitude, point.longitude)) return;
+      wanted.add(point.key);
+      let marker = pointMarkers.current.get(point.key);
+      if (!marker) {
+        const element = document.createElement("div");
+        element.className =
+          "flex h-6 w-6 items-center justify-center rounded-full border-2 border-white bg-pond-700 text-xs font-bold text-white shadow";
+        element.textContent = String(index + 1);
+        element.title = point.label;
+        marker = new maplibre.Marker({ element, draggable: !disabled });
+        marker.on("dragend", () => {
+          const at = marker!.getLngLat();
+          pointChangeRef.current?.(point.key, { latitude: at.lat, longitude: at.lng });
+        });
+        pointMarkers.current.set(point.key, marker);
+        marker.setLngLat([point.longitude, point.latitude]).addTo(map);
+      } else {
+        marker.setLngLat([point.longitude, point.latitude]);
+      }
+    });
+    for (const [key, marker] of pointMarkers.current) {
+      if (!wanted.has(key)) {
+        marker.remove();
+        pointMarkers.current.delete(key);
+      }
+    }
+  }, [dischargePoints, mapState, disabled]);
 
   async function search() {
     const text = query.trim();
@@ -247,6 +306,23 @@ export function EventLocationMap({
           <p className="caution absolute inset-x-2 top-2">The map cannot start here; type the coordinates instead.</p>
         ) : null}
       </div>
+      {dischargePoints?.length ? (
+        <fieldset className="flex flex-wrap gap-x-4 text-sm">
+          <legend className="field-label">A click on the map places</legend>
+          {[{ key: "event", label: "the event" }, ...dischargePoints].map((option) => (
+            <label key={option.key} className="flex min-h-11 items-center gap-2">
+              <input
+                type="radio"
+                name={`${id}-target`}
+                className="h-5 w-5"
+                checked={target === option.key}
+                onChange={() => setTarget(option.key)}
+              />
+              {option.label}
+            </label>
+          ))}
+        </fieldset>
+      ) : null}
       <div className="grid grid-cols-2 gap-3">
         <label>
           <span className="field-label">Latitude (°N)</span>
