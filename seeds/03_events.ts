@@ -670,11 +670,11 @@ export async function seed(knex: Knex): Promise<void> {
           entity_id: String(id),
           summary: summary ?? spec.number,
         });
-      await audit("event_created", spec.createdBy, spec.startedAt);
-      if (spec.filedAt) await audit("event_filed", spec.filedBy, spec.filedAt);
-      if (spec.status === "accepted") await audit("event_accepted", spec.reviewedBy, spec.reviewedAt);
+      await audit("report_created", spec.createdBy, spec.startedAt);
+      if (spec.filedAt) await audit("report_filed", spec.filedBy, spec.filedAt);
+      if (spec.status === "accepted") await audit("report_accepted", spec.reviewedBy, spec.reviewedAt);
       if (spec.status === "returned")
-        await audit("event_returned", spec.reviewedBy, spec.reviewedAt, spec.reviewComment ?? undefined);
+        await audit("report_returned", spec.reviewedBy, spec.reviewedAt, spec.reviewComment ?? undefined);
     }
   });
 }

@@ -286,6 +286,7 @@ export function eventRow(spec: EventSpec, usage: UsageResult) {
     solution_gal: usage.totals.solution.gal,
     pfas_containing: usage.pfasContaining,
     has_warnings: hasWarnings,
+    event_warnings: JSON.stringify(usage.eventWarnings),
   };
 }
 

@@ -88,6 +88,7 @@ describe("the demo seed", () => {
       expect(Boolean(event.pfas_containing), event.number).toBe(usage.pfasContaining);
       const warned = usage.eventWarnings.length > 0 || usage.discharges.some((result) => result.warnings.length > 0);
       expect(Boolean(event.has_warnings), event.number).toBe(warned);
+      expect(JSON.parse(event.event_warnings), event.number).toEqual(usage.eventWarnings);
     }
   });
 
@@ -112,6 +113,22 @@ describe("the demo seed", () => {
         if (row.disposition === "sanitary_sewer") expect(row.sewer_notice, event.number).not.toBe("");
       }
     }
+  });
+
+  it("records who started, filed and reviewed each report in the audit log, in order", async () => {
+    const events = await knex("events").select("id", "number", "status");
+    const audits = await knex("audit_events").where({ entity_type: "event" }).orderBy("id");
+    const expected = { draft: ["report_created"], filed: ["report_created", "report_filed"] } as Record<
+      string,
+      string[]
+    >;
+    expected.accepted = [...expected.filed, "report_accepted"];
+    expected.returned = [...expected.filed, "report_returned"];
+    for (const event of events) {
+      const actions = audits.filter((row) => row.entity_id === String(event.id)).map((row) => row.action);
+      expect(actions, event.number).toEqual(expected[event.status]);
+    }
+    expect(audits.every((row) => row.actor_label === "demo seed")).toBe(true);
   });
 
   it("covers every kind and status, the cases the reports must show, inside the district", async () => {
