@@ -601,6 +601,14 @@ export function buildDemoEvents(ids: DemoIds): EventSpec[] {
     event.tankReadings = [reading];
     refills++;
   }
+  // The first demo officer has a draft and a returned report of their own waiting for them.
+  for (const status of ["draft", "returned"] as const) {
+    const mine = events.find((event) => event.status === status);
+    if (mine) {
+      mine.createdBy = ids.officers[0];
+      if (mine.filedBy != null) mine.filedBy = ids.officers[0];
+    }
+  }
   events.sort((a, b) => (a.startedAt?.getTime() ?? 0) - (b.startedAt?.getTime() ?? 0));
   // Numbers in time order per series: AB- incidents, TR- training, MX- tests and flushes.
   const counters = new Map<string, number>();
