@@ -1,7 +1,7 @@
 import type { Route } from "./+types/api.geo.layers";
 import { requireUser } from "~/lib/auth.server";
 import { isLayerKind } from "~/lib/geo/layers";
-import { apiError } from "~/lib/http.server";
+import { apiError, rethrowDatabaseDown } from "~/lib/http.server";
 import { layerLabelPoints, layerText, waterwayBufferGeoJSON } from "~/models/geography.server";
 
 const GEOJSON = { "Content-Type": "application/geo+json; charset=utf-8", "Cache-Control": "private, no-cache" };
@@ -12,14 +12,22 @@ const GEOJSON = { "Content-Type": "application/geo+json; charset=utf-8", "Cache-
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireUser(request, ["officer", "environmental", "chief"]);
-  if (params.kind === "waterway_buffer") {
+  try {
+    return await layerResponse(request, params.kind);
+  } catch (error) {
+    rethrowDatabaseDown(request, error);
+  }
+}
+
+async function layerResponse(request: Request, kind: string) {
+  if (kind === "waterway_buffer") {
     const { collection } = await waterwayBufferGeoJSON();
     return new Response(JSON.stringify(collection), { headers: GEOJSON });
   }
-  if (!isLayerKind(params.kind)) apiError(404, `There is no layer called ${JSON.stringify(params.kind)}.`);
+  if (!isLayerKind(kind)) apiError(404, `There is no layer called ${JSON.stringify(kind)}.`);
   if (new URL(request.url).searchParams.get("as") === "labels") {
-    return new Response(JSON.stringify(await layerLabelPoints(params.kind)), { headers: GEOJSON });
+    return new Response(JSON.stringify(await layerLabelPoints(kind)), { headers: GEOJSON });
   }
-  const text = await layerText(params.kind);
+  const text = await layerText(kind);
   return new Response(text ?? JSON.stringify({ type: "FeatureCollection", features: [] }), { headers: GEOJSON });
 }

@@ -1,16 +1,17 @@
 import type { Route } from "./+types/api.summary";
 import { requireUser } from "~/lib/auth.server";
 import { parseMapFilters } from "~/lib/geo/map-filters";
-import { apiError } from "~/lib/http.server";
+import { apiError, rethrowDatabaseDown } from "~/lib/http.server";
 import { agencyTimeZone, usageSummary } from "~/models/usage-map.server";
 
 /** GET /api/summary?from=&to=&bbox= — totals by foam class, product, runoff disposition, drainage basin. */
 export async function loader({ request }: Route.LoaderArgs) {
   await requireUser(request, ["chief", "environmental"]);
-  const timeZone = await agencyTimeZone();
+  const timeZone = await agencyTimeZone().catch((error) => rethrowDatabaseDown(request, error));
   const parsed = parseMapFilters(new URL(request.url).searchParams, timeZone);
   if (!parsed.ok) apiError(400, parsed.message, { errors: { [parsed.field]: [parsed.message] } });
-  return Response.json(await usageSummary(parsed.filters, timeZone), {
+  const summary = await usageSummary(parsed.filters, timeZone).catch((error) => rethrowDatabaseDown(request, error));
+  return Response.json(summary, {
     headers: { "Cache-Control": "private, no-cache" },
   });
 }

@@ -3,7 +3,7 @@ import type { Route } from "./+types/geography";
 import { EventLocationMap } from "~/components/event-location-map";
 import { requireUser } from "~/lib/auth.server";
 import { isLayerKind, LAYER_RULES, MAX_LAYER_BYTES } from "~/lib/geo/layers";
-import { clientAddress } from "~/lib/http.server";
+import { clientAddress, rethrowDatabaseDown } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { listLayers, replaceLayer, waterwayBufferMetres } from "~/models/geography.server";
 
@@ -11,7 +11,10 @@ export const meta: Route.MetaFunction = () => [{ title: "Drainage and waterway l
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireUser(request, ["environmental"]);
-  return { layers: await listLayers(), waterwayBufferM: await waterwayBufferMetres() };
+  const [layers, waterwayBufferM] = await Promise.all([listLayers(), waterwayBufferMetres()]).catch((error) =>
+    rethrowDatabaseDown(request, error),
+  );
+  return { layers, waterwayBufferM };
 }
 
 type ActionResult = { kind: string; errors: string[] };
@@ -38,11 +41,12 @@ export async function action({ request }: Route.ActionArgs) {
   if (file.size > MAX_LAYER_BYTES) {
     return refuse(kind, [`The file is larger than ${MAX_LAYER_BYTES / 1024 / 1024} MB. Nothing was changed.`], 413);
   }
+  // A database outage rolls the whole replacement back; the page then says so plainly.
   const result = await replaceLayer(
     { kind, text: await file.text(), fileName: file.name || "upload.geojson" },
     user,
     clientAddress(request),
-  );
+  ).catch((error) => rethrowDatabaseDown(request, error));
   if (!result.ok) return refuse(kind, [...result.errors, "Nothing was changed; the current layer is still in use."]);
   const label = LAYER_RULES[kind].label;
   const rechecked = kind === "address_points" ? "" : ` ${result.eventsRechecked} events were rechecked.`;

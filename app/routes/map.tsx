@@ -5,7 +5,7 @@ import { ConcentrateByMonthChart, ConcentrateByStationChart } from "~/components
 import { FOAM_CLASS_COLOURS, OVERLAYS, PFAS_RING, UsageMap, type OverlayId } from "~/components/usage-map";
 import { requireUser } from "~/lib/auth.server";
 import { EVENT_KINDS, mapQuery, parseMapFilters, type BoundingBox } from "~/lib/geo/map-filters";
-import { httpError } from "~/lib/http.server";
+import { httpError, rethrowDatabaseDown } from "~/lib/http.server";
 import { localDateTime } from "~/lib/reporting/period";
 import { agencyTimeZone, listStations, usageSummary, type UsageSummary } from "~/models/usage-map.server";
 
@@ -21,7 +21,7 @@ function defaultRange(timeZone: string) {
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireUser(request, ["chief", "environmental"]);
-  const timeZone = await agencyTimeZone();
+  const timeZone = await agencyTimeZone().catch((error) => rethrowDatabaseDown(request, error));
   const params = new URL(request.url).searchParams;
   const range = defaultRange(timeZone);
   if (!params.get("from")) params.set("from", range.from);
@@ -30,6 +30,9 @@ export async function loader({ request }: Route.LoaderArgs) {
   const parsed = parseMapFilters(params, timeZone);
   if (!parsed.ok) httpError(400, parsed.message);
   const { filters } = parsed;
+  const [stations, summary] = await Promise.all([listStations(), usageSummary(filters, timeZone)]).catch((error) =>
+    rethrowDatabaseDown(request, error),
+  );
   return {
     filters: {
       from: filters.from,
@@ -38,8 +41,8 @@ export async function loader({ request }: Route.LoaderArgs) {
       kind: filters.kind ?? "",
       stationId: filters.stationId ? String(filters.stationId) : "",
     },
-    stations: await listStations(),
-    summary: await usageSummary(filters, timeZone),
+    stations,
+    summary,
   };
 }
 
