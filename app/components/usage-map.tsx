@@ -25,6 +25,8 @@ const OVERLAY_LAYERS: Record<OverlayId, string[]> = {
 type Props = {
   /** Query string of /api/map/events.geojson (from, to, class, kind, station) without bbox. */
   eventsQuery: string;
+  /** The agency's time zone, for the times in popups. */
+  timeZone: string;
   overlays: Record<OverlayId, boolean>;
   onViewChange: (bbox: BoundingBox) => void;
 };
@@ -39,11 +41,17 @@ function text(tag: string, content: string, className?: string) {
 const gal = (value: unknown) => `${Number(value ?? 0).toLocaleString("en-US", { maximumFractionDigits: 2 })} gal`;
 
 /** The popup for one event, built from DOM nodes (never from HTML strings). */
-function popupContent(properties: Record<string, unknown>): HTMLElement {
+function popupContent(properties: Record<string, unknown>, timeZone: string): HTMLElement {
   const box = document.createElement("div");
-  box.className = "space-y-1 text-sm text-ink";
+  box.className = "space-y-1 font-sans text-sm text-ink";
   box.append(text("p", `${properties.number} · ${properties.kind}`, "font-semibold"));
-  const when = properties.startedAt ? new Date(String(properties.startedAt)).toLocaleString("en-US") : "time not given";
+  const when = properties.startedAt
+    ? new Date(String(properties.startedAt)).toLocaleString("en-US", {
+        timeZone,
+        dateStyle: "medium",
+        timeStyle: "short",
+      })
+    : "time not given";
   box.append(text("p", `${when}${properties.station ? ` · ${properties.station}` : ""}`));
   if (properties.address) box.append(text("p", String(properties.address)));
   const list = document.createElement("dl");
@@ -70,13 +78,15 @@ function popupContent(properties: Record<string, unknown>): HTMLElement {
 }
 
 /** The chief's usage map: events as circles, clusters at low zoom, popups, overlay layers. */
-export function UsageMap({ eventsQuery, overlays, onViewChange }: Props) {
+export function UsageMap({ eventsQuery, timeZone, overlays, onViewChange }: Props) {
   const container = useRef<HTMLDivElement>(null);
   const mapRef = useRef<MapLibreMap | null>(null);
   const [state, setState] = useState<"loading" | "ready" | "failed">("loading");
   const viewChange = useRef(onViewChange);
   viewChange.current = onViewChange;
   const initial = useRef({ eventsQuery, overlays });
+  const zone = useRef(timeZone);
+  zone.current = timeZone;
 
   useEffect(() => {
     let cancelled = false;
@@ -122,7 +132,7 @@ export function UsageMap({ eventsQuery, overlays, onViewChange }: Props) {
             if (!feature || feature.geometry.type !== "Point") return;
             new maplibre.Popup({ maxWidth: "280px" })
               .setLngLat(feature.geometry.coordinates as [number, number])
-              .setDOMContent(popupContent(feature.properties ?? {}))
+              .setDOMContent(popupContent(feature.properties ?? {}, zone.current))
               .addTo(map!);
           });
           map.on("click", "event-clusters", async (event: MapLayerMouseEvent) => {

@@ -43,6 +43,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     },
     stations,
     summary,
+    timeZone,
   };
 }
 
@@ -144,7 +145,12 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
               </label>
             ))}
           </fieldset>
-          <UsageMap eventsQuery={eventsQuery} overlays={overlays} onViewChange={onViewChange} />
+          <UsageMap
+            eventsQuery={eventsQuery}
+            timeZone={loaderData.timeZone}
+            overlays={overlays}
+            onViewChange={onViewChange}
+          />
           <MapKey />
         </div>
 
