@@ -122,6 +122,8 @@ async function writeDetailSheet<Row>(
     count++;
   }
   if (count === 0) sheet.addRow([emptyNote]).commit();
+  // The filter covers every data row; it is written when the sheet is committed.
+  sheet.autoFilter = `A1:${letterOf(columns, columns[columns.length - 1].key)}${Math.max(2, count + 1)}`;
   sheet.commit();
   return count;
 }

@@ -154,7 +154,8 @@ describe("the quarterly environmental workbook", () => {
     expect(header("PFAS")).toEqual(
       expect.arrayContaining(["Estimated PFAS released (g)", "Estimated PFAS released (lb)", "Threshold reached"]),
     );
-    expect(book.Sheets.Discharges["!autofilter"]?.ref).toMatch(/^A1:/);
+    // The filter spans the header and the five discharge rows of Q2 (A to U: 21 columns).
+    expect(book.Sheets.Discharges["!autofilter"]?.ref).toBe("A1:U6");
   });
 
   it("sums to the detail rows and to MariaDB's own aggregate, with formulas in place", async () => {
