@@ -16,30 +16,30 @@ import { LAYER_KINDS, LAYER_RULES, validateLayer, type LayerKind } from "~/lib/g
 
 type Actor = { id: number; email: string } | null;
 
-const isTransaction = (connection: Db) => (connection as Knex.Transaction).isTransaction === true;
-
-// Parsed layers of committed rows, keyed by kind; a row's version changes on every replacement.
+// Parsed layers, keyed by kind; a row's version changes on every replacement. Only reads through
+// the app's own connection use it (not a transaction, whose upload may still roll back, nor a
+// seed's or test's connection to another database).
 const cache = new Map<LayerKind, { version: number; collection: FeatureCollection }>();
 
 async function layerCollections(kinds: readonly LayerKind[], connection: Db = db) {
+  const cacheable = connection === db;
   const rows: { kind: LayerKind; version: number }[] = await connection("geo_layers")
     .whereIn("kind", kinds)
     .select("kind", "version");
   const result = new Map<LayerKind, FeatureCollection>();
-  const stale = rows.filter((row) => cache.get(row.kind)?.version !== row.version);
-  const fresh = stale.length
+  const stale = rows.filter((row) => !cacheable || cache.get(row.kind)?.version !== row.version);
+  const fresh: { kind: string; geojson: string }[] = stale.length
     ? await connection("geo_layers")
         .whereIn(
           "kind",
           stale.map((row) => row.kind),
         )
-        .select("kind", "version", "geojson")
+        .select("kind", "geojson")
     : [];
   for (const row of rows) {
-    const loaded = fresh.find((candidate: { kind: string }) => candidate.kind === row.kind);
+    const loaded = fresh.find((candidate) => candidate.kind === row.kind);
     const collection: FeatureCollection = loaded ? JSON.parse(loaded.geojson) : cache.get(row.kind)!.collection;
-    // Only committed data is kept, so a rolled-back upload never lingers.
-    if (loaded && !isTransaction(connection)) cache.set(row.kind, { version: row.version, collection });
+    if (loaded && cacheable) cache.set(row.kind, { version: row.version, collection });
     result.set(row.kind, collection);
   }
   return result;
