@@ -103,6 +103,38 @@ describe("foam products", () => {
     expect(new Uint8Array(await sheet.arrayBuffer())).toEqual(PDF_BYTES);
   });
 
+  it("saves an edit with before and after in the audit row, keeping the stored safety sheet", async () => {
+    const { user, cookie } = await signedIn(["environmental"]);
+    const product = await makeProductRow({
+      unitCostPerGal: 30,
+      safetySheetKey: "safety-sheets/kept.pdf",
+      safetySheetName: "kept.pdf",
+    });
+    const outcome = await settle(() =>
+      productAction(
+        routeArgs(
+          multipartRequest(
+            `/products/${product.id}`,
+            { name: product.name, foamClass: "B", foamType: "f3", nominalPercents: "3", unitCostPerGal: "44.25" },
+            cookie,
+          ),
+          { productId: String(product.id) },
+        ),
+      ),
+    );
+    expect(statusOf(outcome.value)).toBe(302);
+    const row = await db("foam_products").where({ id: product.id }).first();
+    expect(Number(row.unit_cost_per_gal)).toBe(44.25);
+    expect(Boolean(row.active)).toBe(false);
+    expect(row.safety_sheet_key).toBe("safety-sheets/kept.pdf");
+    const audit = await db("audit_events")
+      .where({ entity_type: "foam_product", entity_id: String(product.id), action: "product_updated" })
+      .first();
+    expect(audit.actor_user_id).toBe(user.id);
+    expect(JSON.parse(audit.before_json)).toMatchObject({ unitCostPerGal: 30, active: true });
+    expect(JSON.parse(audit.after_json)).toMatchObject({ unitCostPerGal: 44.25, active: false, hasSafetySheet: true });
+  });
+
   it("shows every validation error at its field and writes nothing", async () => {
     const { cookie } = await signedIn(["environmental"]);
     const before = await countOf("foam_products");
