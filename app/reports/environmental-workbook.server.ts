@@ -136,6 +136,11 @@ function range(sheet: string, letter: string, rows: number): string {
 }
 
 const excelString = (value: string) => `"${value.replace(/"/g, '""')}"`;
+/**
+ * A SUMIFS/COUNTIFS criterion that matches `value` exactly: "=" so that a leading "<", ">" or "="
+ * in a name is not read as a comparison, and "~" before the wildcards "*", "?" and "~" itself.
+ */
+const exactly = (value: string) => excelString(`=${value.replace(/[~*?]/g, "~$&")}`);
 
 function writeSummary(
   workbook: ExcelJS.stream.xlsx.WorkbookWriter,
@@ -257,12 +262,12 @@ function writeSummary(
   volumeHeads("Foam class", "Use");
   const classes = ["Class A", "Class B", WATER_ONLY];
   for (const foamClass of classes) {
-    const classCriteria = `${dRange("class")},${excelString(foamClass)}`;
+    const classCriteria = `${dRange("class")},${exactly(foamClass)}`;
     const inClass = aggregates.byClass.filter((row) => row.foamClass === foamClass);
     volumeRow(
       foamClass,
       "Incidents",
-      `${classCriteria},${dRange("kind")},${excelString(KIND_LABELS.incident)}`,
+      `${classCriteria},${dRange("kind")},${exactly(KIND_LABELS.incident)}`,
       totalsOf(inClass.filter((row) => row.incident)),
     );
     volumeRow(
@@ -301,7 +306,7 @@ function writeSummary(
     volumeRow(
       product,
       `${first.foamClass}${first.pfasContaining ? " · PFAS-containing" : ""}`,
-      `${dRange("product")},${excelString(product)}`,
+      `${dRange("product")},${exactly(product)}`,
       totalsOf(rows),
     );
   }
@@ -319,7 +324,7 @@ function writeSummary(
       DISPOSITION_LABELS[disposition],
       "",
       {
-        formula: `SUMIFS(${rRange("released")},${rRange("disposition")},${excelString(DISPOSITION_LABELS[disposition])})`,
+        formula: `SUMIFS(${rRange("released")},${rRange("disposition")},${exactly(DISPOSITION_LABELS[disposition])})`,
         result: gallons,
       },
       { formula: litreFormula(row, "C"), result: gallons * LITRES_PER_US_GALLON },
@@ -348,7 +353,7 @@ function writeSummary(
       group.basin,
       group.receivingWater,
       {
-        formula: `SUMIFS(${rRange("released")},${rRange("basin")},${excelString(group.basin)},${rRange("water")},${excelString(group.receivingWater)})`,
+        formula: `SUMIFS(${rRange("released")},${rRange("basin")},${exactly(group.basin)},${rRange("water")},${exactly(group.receivingWater)})`,
         result: group.gallons,
       },
       { formula: litreFormula(row, "C"), result: group.gallons * LITRES_PER_US_GALLON },
@@ -367,7 +372,7 @@ function writeSummary(
         KIND_LABELS[kind],
         "",
         {
-          formula: `COUNTIFS(${range("Events", letterOf(E, "kind"), ranges.events)},${excelString(KIND_LABELS[kind])})`,
+          formula: `COUNTIFS(${range("Events", letterOf(E, "kind"), ranges.events)},${exactly(KIND_LABELS[kind])})`,
           result: aggregates.eventsByKind[kind],
         },
       ],

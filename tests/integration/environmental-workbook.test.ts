@@ -51,7 +51,8 @@ beforeAll(async () => {
   const officer = await makeUser(["officer"], "Workbook Officer");
   const station = await makeStation();
   const engine = await makeApparatus(station.id);
-  const classA = await makeProduct({ foamClass: "A" });
+  // A name a spreadsheet criterion would read as a comparison and wildcards: it must match only itself.
+  const classA = await makeProduct({ foamClass: "A", name: `<Wet*Water? 0.3~ (test ${Date.now()})` });
   const fluorineFree = await makeProduct({ foamClass: "B", foamType: "f3" });
   const legacy = await makeProduct({
     foamClass: "B",
@@ -196,6 +197,9 @@ describe("the quarterly environmental workbook", () => {
     expect(summaryRow(book, "Class B", "Training, tests, flushes").value("D")).toBeCloseTo(25, 6);
     expect(summaryRow(book, "Class A", "All use").value("D")).toBeCloseTo(4, 6);
     expect(summaryRow(book, pfasProductName).value("D")).toBeCloseTo(100, 6);
+    const wet = summaryRow(book, String(discharges[0].Product));
+    expect(wet.formula("D")).toContain('"=<Wet~*Water~? 0.3~~ (test ');
+    expect(wet.value("D")).toBeCloseTo(3 + 1, 6);
 
     const releases = rowsOf(book, "Releases");
     const storm = summaryRow(book, "To storm drain");

@@ -32,6 +32,7 @@ export async function makeApparatus(stationId: number | null, connection: Knex =
 }
 
 export type ProductFixture = {
+  name?: string;
   foamClass: "A" | "B";
   foamType?: string;
   pfasContaining?: boolean;
@@ -42,7 +43,7 @@ export type ProductFixture = {
 };
 
 export async function makeProduct(spec: ProductFixture, connection: Knex = db) {
-  const name = `Test ${spec.foamClass} concentrate ${unique()} (test)`;
+  const name = spec.name ?? `Test ${spec.foamClass} concentrate ${unique()} (test)`;
   const [id] = await connection("foam_products").insert({
     name,
     foam_class: spec.foamClass,
