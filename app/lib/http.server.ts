@@ -30,13 +30,20 @@ const DATABASE_DOWN_CODES = new Set([
 export function isDatabaseDown(error: unknown): boolean {
   if (!error || typeof error !== "object") return false;
   const code = (error as { code?: unknown }).code;
-  if (typeof code === "string" && DATABASE_DOWN_CODES.has(code)) return true;
   const name = (error as { name?: unknown }).name;
-  return name === "KnexTimeoutError";
+  const down = (typeof code === "string" && DATABASE_DOWN_CODES.has(code)) || name === "KnexTimeoutError";
+  if (down) console.warn(`Database not answering (${String(code ?? name)}): ${(error as Error).message}`);
+  return down;
 }
 
 export const DATABASE_DOWN_MESSAGE =
   "The records database is not answering right now. Nothing was lost or half-saved; please try again in a minute.";
+
+/** Whether a thrown value is the 503 that `rethrowDatabaseDown` makes for pages. */
+export function isDatabaseDownResponse(thrown: unknown): boolean {
+  const value = thrown as { init?: { status?: number }; data?: { message?: string } } | null;
+  return value?.init?.status === 503 && value.data?.message === DATABASE_DOWN_MESSAGE;
+}
 
 /** Turns a database outage into a clear 503 for pages and APIs alike; rethrows anything else. */
 export function rethrowDatabaseDown(request: Request, error: unknown): never {

@@ -36,8 +36,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request, EDITORS);
-  return handleReportSubmission(request, user);
+  return handleReportSubmission(request, () => requireUser(request, EDITORS));
 }
 
 export default function EditReport({ loaderData, actionData }: Route.ComponentProps) {

@@ -25,8 +25,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request, REPORT_AUTHORS);
-  return handleReportSubmission(request, user);
+  return handleReportSubmission(request, () => requireUser(request, REPORT_AUTHORS));
 }
 
 export default function NewReport({ loaderData, actionData }: Route.ComponentProps) {

@@ -2,7 +2,7 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { data, redirect } from "react-router";
 import type { SessionUser } from "~/lib/auth.server";
 import { DraftPayloadSchema, FiledReportSchema, ReportIntentSchema, type FiledReport } from "~/lib/foam/report-schema";
-import { clientAddress, DATABASE_DOWN_MESSAGE, isDatabaseDown } from "~/lib/http.server";
+import { clientAddress, DATABASE_DOWN_MESSAGE, isDatabaseDown, isDatabaseDownResponse } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { reviewReport, saveReport, type SaveHooks } from "~/models/event.server";
 import { recomputeEventGeography } from "~/models/geography.server";
@@ -25,8 +25,19 @@ export const reviewHooks: Parameters<typeof reviewReport>[1] = {
  * The action behind the new-report and edit-report pages. Drafts are saved exactly as typed; filing
  * validates every field. Failures come back with every value kept, so nothing typed is lost.
  */
-export async function handleReportSubmission(request: Request, user: SessionUser) {
+export async function handleReportSubmission(request: Request, guard: () => Promise<SessionUser>) {
   const formData = await request.formData();
+  let user: SessionUser;
+  try {
+    user = await guard();
+  } catch (error) {
+    // The session check needs the database too; when it is down, the typing still comes back.
+    if (!(error instanceof Response) && isDatabaseDownResponse(error)) {
+      const submission = parseWithZod(formData, { schema: DraftPayloadSchema });
+      return data({ result: submission.reply({ formErrors: [DATABASE_DOWN_MESSAGE] }) }, { status: 503 });
+    }
+    throw error;
+  }
   const intent = ReportIntentSchema.safeParse({
     intent: formData.get("intent"),
     eventId: formData.get("eventId") ? Number(formData.get("eventId")) : undefined,
