@@ -10,7 +10,13 @@ export default defineConfig({
     include: ["app/**/*.test.ts", "tests/integration/**/*.test.ts", "scripts/**/*.test.ts"],
     setupFiles: ["tests/support/vitest-setup.ts"],
     globalSetup: ["tests/support/vitest-global-setup.ts"],
-    env: { DB_NAME: testDatabase, NODE_ENV: "test", SESSION_SECRET: "test-session-secret-0123456789abcdef" },
+    // Mail from tests never reaches a demo's fake: nothing listens on the discard port.
+    env: {
+      DB_NAME: testDatabase,
+      NODE_ENV: "test",
+      SESSION_SECRET: "test-session-secret-0123456789abcdef",
+      SMTP_URL: "smtp://127.0.0.1:9",
+    },
     fileParallelism: false,
     testTimeout: 30_000,
     hookTimeout: 60_000,

@@ -9,6 +9,10 @@ bash scripts/install-deps.sh
 source scripts/env.sh
 export TEST_DB_NAME="${TEST_DB_NAME:-foamtally_test}"
 export FAKES_TAG="test-${E2E_PORT:-3101}"
+# The tests' own fakes, on ports of their own, so that a demo running on this machine is left alone.
+export FAKE_SMTP_PORT="$(( ${E2E_PORT:-3101} + 2000 ))"
+export SMTP_URL="smtp://127.0.0.1:${FAKE_SMTP_PORT}"
+export S3_ENDPOINT="http://localhost:$(( ${E2E_PORT:-3101} + 2001 ))"
 export BUILD_DIR="${BUILD_DIR:-build-test-${E2E_PORT:-3101}}"
 
 if [ ! -x /usr/bin/chromium ]; then

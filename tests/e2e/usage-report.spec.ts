@@ -1,4 +1,15 @@
 import { expect, signInAs, test } from "../support/e2e";
+import { testKnex } from "../support/test-database";
+
+async function proportionerMaximum(unitId: string): Promise<number> {
+  const knex = testKnex();
+  try {
+    const row = await knex("apparatus").where({ unit_id: unitId }).first("proportioner_max_concentrate_gpm");
+    return Number(row.proportioner_max_concentrate_gpm);
+  } finally {
+    await knex.destroy();
+  }
+}
 
 test.describe("a usage report from filing to acceptance", () => {
   test("the officer files, the environmental officer returns, the officer fixes, the report is accepted", async ({
@@ -38,10 +49,15 @@ test.describe("a usage report from filing to acceptance", () => {
     await second.getByLabel("Percent").fill("1");
     await second.getByLabel("Flow", { exact: true }).fill("300");
     await second.getByLabel("Minutes").fill("5");
-    // E2's proportioner tops out at 1.5 gpm of concentrate; 300 gpm at 1 % needs 3 gpm.
-    await expect(second.getByRole("note")).toContainText("effective percentage was about 0.5 %");
+    // E2's proportioner tops out below the 3 gpm of concentrate that 300 gpm at 1 % needs, so the
+    // line reaches maximum ÷ 300 gpm and injects maximum × 5 min.
+    const maximum = await proportionerMaximum("E2");
+    expect(maximum).toBeLessThan(3);
+    const effective = Number(((maximum / 300) * 100).toFixed(3));
+    const expectedTotal = (6 + maximum * 5).toLocaleString("en-US", { maximumFractionDigits: 2 });
+    await expect(second.getByRole("note")).toContainText(`effective percentage was about ${effective} %`);
     await expect(first.getByRole("note")).toHaveCount(0);
-    await expect(totals).toContainText("13.5 gal");
+    await expect(totals).toContainText(`${expectedTotal} gal`);
 
     await officer.getByLabel("Went to").selectOption("storm_drain");
     await officer.getByRole("button", { name: "File report" }).click();
@@ -75,6 +91,6 @@ test.describe("a usage report from filing to acceptance", () => {
       /Filed the report/,
       /Accepted the report/,
     ]);
-    await expect(enviro.getByTestId("saved-totals")).toContainText("13.5 gal");
+    await expect(enviro.getByTestId("saved-totals")).toContainText(`${expectedTotal} gal`);
   });
 });
