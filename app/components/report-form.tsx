@@ -60,6 +60,7 @@ export type ReportFormProps = {
   version?: number;
   status?: EventStatus;
   submissionKey: string;
+  timeZone: string;
   stations: StationOption[];
   apparatus: ApparatusOption[];
   products: ProductOption[];
@@ -192,7 +193,12 @@ export function ReportForm(props: ReportFormProps) {
             placeholder="Choose the station"
             options={props.stations.map((station) => [String(station.id), `${station.code} ${station.name}`])}
           />
-          <Field label="Started" field={fields.startedAt} type="datetime-local" />
+          <Field
+            label="Started"
+            field={fields.startedAt}
+            type="datetime-local"
+            hint={`Local time, ${props.timeZone}.`}
+          />
           <Field label="Cleared" field={fields.clearedAt} type="datetime-local" />
           <Field label="Address or location" field={fields.address} />
         </div>

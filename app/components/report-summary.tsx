@@ -32,6 +32,7 @@ type Line = {
 
 export type SummaryReport = {
   kind: EventKind;
+  timeZone: string;
   startedAt: string;
   clearedAt: string;
   address: string;
@@ -85,8 +86,8 @@ export function ReportSummary({ report }: { report: SummaryReport }) {
         <dl className="mt-3 grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
           <Item label="Kind" value={EVENT_KIND_LABELS[report.kind]} />
           <Item label="Station" value={report.station ?? "—"} />
-          <Item label="Started" value={when(report.startedAt)} />
-          <Item label="Cleared" value={when(report.clearedAt)} />
+          <Item label={`Started (${report.timeZone})`} value={when(report.startedAt)} />
+          <Item label={`Cleared (${report.timeZone})`} value={when(report.clearedAt)} />
           <Item label="Address" value={report.address || "—"} />
           <Item
             label="Location"

@@ -11,7 +11,8 @@ import {
 import type { FoamClass, UsageWarning } from "~/lib/foam/totals";
 import { roundForDisplay, volumeFromGallons, type Volume } from "~/lib/foam/units";
 import { numberOrNull } from "./catalogue.server";
-import { dateToWallClock } from "./event.server";
+import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
+import { agencyTimeZone } from "./agency.server";
 
 export function apiVolume(gallons: number): Volume {
   const volume = volumeFromGallons(gallons);
@@ -37,6 +38,8 @@ export function canSeeReport(user: SessionUser, row: { status: EventStatus; crea
 
 /** One report with its discharges, runoff, tank readings, stored totals and geography checks. */
 export async function getReport(eventId: number) {
+  const timeZone = await agencyTimeZone();
+  const wallClock = (instant: Date | null) => instantToWallClock(instant, timeZone);
   const event = await db("events")
     .leftJoin("stations", "stations.id", "events.station_id")
     .leftJoin("users as author", "author.id", "events.created_by")
@@ -79,8 +82,9 @@ export async function getReport(eventId: number) {
     status: event.status as EventStatus,
     version: event.version as number,
     revision: event.revision as number,
-    startedAt: dateToWallClock(event.started_at),
-    clearedAt: dateToWallClock(event.cleared_at),
+    startedAt: wallClock(event.started_at),
+    clearedAt: wallClock(event.cleared_at),
+    timeZone,
     address: event.address as string,
     latitude: numberOrNull(event.latitude),
     longitude: numberOrNull(event.longitude),
@@ -125,8 +129,8 @@ export async function getReport(eventId: number) {
       flow: Number(row.flow),
       flowUnit: row.flow_unit as "gpm" | "lpm",
       basis: row.flow_basis as "water" | "solution",
-      startedAt: dateToWallClock(row.started_at),
-      endedAt: dateToWallClock(row.ended_at),
+      startedAt: wallClock(row.started_at),
+      endedAt: wallClock(row.ended_at),
       minutes: Number(row.minutes),
       method: (row.method as string | null) ?? null,
       airFlowCfm: numberOrNull(row.air_flow_cfm),
@@ -258,11 +262,18 @@ export function parseEventFilters(search: URLSearchParams): { filters: EventFilt
   return { filters, errors };
 }
 
-function filteredEvents(user: SessionUser, filters: EventFilters): Knex.QueryBuilder {
+function dayAfter(day: string): string {
+  const date = new Date(`${day}T00:00:00Z`);
+  date.setUTCDate(date.getUTCDate() + 1);
+  return date.toISOString().slice(0, 10);
+}
+
+/** Dates in the filters are the agency's calendar days, first and last inclusive. */
+function filteredEvents(user: SessionUser, filters: EventFilters, timeZone: string): Knex.QueryBuilder {
   const query = db("events").leftJoin("stations", "stations.id", "events.station_id");
   query.where((visible) => visible.whereNot("events.status", "draft").orWhere("events.created_by", user.id));
-  if (filters.from) query.where("events.started_at", ">=", `${filters.from} 00:00:00`);
-  if (filters.to) query.where("events.started_at", "<=", `${filters.to} 23:59:59`);
+  if (filters.from) query.where("events.started_at", ">=", wallClockToInstant(`${filters.from}T00:00`, timeZone)!);
+  if (filters.to) query.where("events.started_at", "<", wallClockToInstant(`${dayAfter(filters.to)}T00:00`, timeZone)!);
   if (filters.kind) query.where("events.kind", filters.kind);
   if (filters.status) query.where("events.status", filters.status);
   if (filters.stationId) query.where("events.station_id", filters.stationId);
@@ -295,13 +306,13 @@ export type EventListItem = {
   foamClasses: FoamClass[];
 };
 
-function listItem(row: Record<string, unknown>): EventListItem {
+function listItem(row: Record<string, unknown>, timeZone: string): EventListItem {
   return {
     id: row.id as number,
     number: row.number as string,
     kind: row.kind as EventKind,
     status: row.status as EventStatus,
-    startedAt: dateToWallClock(row.started_at as Date | null),
+    startedAt: instantToWallClock(row.started_at as Date | null, timeZone),
     address: row.address as string,
     station: (row.station_code as string | null) ?? null,
     water: Number(row.water_gal),
@@ -345,14 +356,15 @@ export type EventPage = {
 };
 
 export async function listEvents(user: SessionUser, filters: EventFilters): Promise<EventPage> {
+  const timeZone = await agencyTimeZone();
   const [rows, aggregate] = await Promise.all([
-    filteredEvents(user, filters)
+    filteredEvents(user, filters, timeZone)
       .select(...LIST_COLUMNS, classesSubquery())
       .orderBy(SORTABLE[filters.sort], filters.direction)
       .orderBy("events.id", filters.direction)
       .limit(filters.pageSize)
       .offset((filters.page - 1) * filters.pageSize),
-    filteredEvents(user, filters)
+    filteredEvents(user, filters, timeZone)
       .select(
         db.raw("COUNT(*) as count"),
         db.raw("SUM(events.water_gal) as water"),
@@ -364,7 +376,7 @@ export async function listEvents(user: SessionUser, filters: EventFilters): Prom
     >,
   ]);
   return {
-    items: rows.map(listItem),
+    items: rows.map((row: Record<string, unknown>) => listItem(row, timeZone)),
     count: Number(aggregate?.count ?? 0),
     totals: {
       water: Number(aggregate?.water ?? 0),
@@ -377,14 +389,15 @@ export async function listEvents(user: SessionUser, filters: EventFilters): Prom
 /** Every event the filters select, streamed in the list's order (for CSV downloads). */
 export async function* eachEvent(user: SessionUser, filters: EventFilters): AsyncGenerator<EventListItem> {
   const batch = 1000;
+  const timeZone = await agencyTimeZone();
   for (let offset = 0; ; offset += batch) {
-    const rows = await filteredEvents(user, filters)
+    const rows = await filteredEvents(user, filters, timeZone)
       .select(...LIST_COLUMNS, classesSubquery())
       .orderBy(SORTABLE[filters.sort], filters.direction)
       .orderBy("events.id", filters.direction)
       .limit(batch)
       .offset(offset);
-    for (const row of rows) yield listItem(row);
+    for (const row of rows) yield listItem(row, timeZone);
     if (rows.length < batch) return;
   }
 }

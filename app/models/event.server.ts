@@ -15,22 +15,11 @@ import {
 } from "~/lib/foam/report-schema";
 import { computeUsage, type DischargeInput, type TankReading, type UsageResult } from "~/lib/foam/totals";
 import { hasRole } from "~/lib/roles";
+import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
+import { agencyTimeZone } from "./agency.server";
 import { apparatusFactsMap, numberOrNull, productFactsMap } from "./catalogue.server";
 
-/** Form times are the agency's local wall-clock times; they are stored and read back unchanged. */
-export function wallClockToDate(value: string | undefined | null): Date | null {
-  if (!value) return null;
-  const date = new Date(`${value.length === 16 ? `${value}:00` : value}Z`);
-  return Number.isNaN(date.getTime()) ? null : date;
-}
-
-export function dateToWallClock(value: Date | string | null | undefined): string {
-  if (!value) return "";
-  const date = value instanceof Date ? value : new Date(value);
-  return Number.isNaN(date.getTime()) ? "" : date.toISOString().slice(0, 16);
-}
-
-function dischargeInputs(lines: DischargeLine[]): DischargeInput[] {
+function dischargeInputs(lines: DischargeLine[], timeZone: string): DischargeInput[] {
   return lines.map((line) => ({
     flow: line.flow,
     flowUnit: line.flowUnit,
@@ -39,8 +28,8 @@ function dischargeInputs(lines: DischargeLine[]): DischargeInput[] {
     minutes: lineMinutes(line),
     productId: line.productId ?? null,
     apparatusId: line.apparatusId ?? null,
-    startedAt: wallClockToDate(line.startedAt),
-    endedAt: wallClockToDate(line.endedAt),
+    startedAt: wallClockToInstant(line.startedAt, timeZone),
+    endedAt: wallClockToInstant(line.endedAt, timeZone),
   }));
 }
 
@@ -94,11 +83,15 @@ export async function computeReport(
   report: Pick<FiledReport, "discharges" | "tankReadings" | "startedAt" | "clearedAt">,
   connection: Db = db,
 ): Promise<UsageResult> {
+  const timeZone = await agencyTimeZone(connection);
   return computeForInputs(
-    dischargeInputs(report.discharges),
+    dischargeInputs(report.discharges, timeZone),
     {
       tankReadings: tankReadingInputs(report.tankReadings),
-      eventWindow: { start: wallClockToDate(report.startedAt), end: wallClockToDate(report.clearedAt) },
+      eventWindow: {
+        start: wallClockToInstant(report.startedAt, timeZone),
+        end: wallClockToInstant(report.clearedAt, timeZone),
+      },
     },
     connection,
   );
@@ -138,7 +131,7 @@ const numeric = (value: unknown) =>
   typeof value === "string" && value.trim() !== "" ? numberOrNull(value.trim()) : numberOrNull(value);
 
 /** What can be read from a draft as typed; everything else stays in `draft_json`. */
-export function draftColumns(payload: Record<string, unknown>) {
+export function draftColumns(payload: Record<string, unknown>, timeZone: string) {
   const kind = EVENT_KINDS.includes(payload.kind as EventKind) ? (payload.kind as EventKind) : "incident";
   const latitude = numeric(payload.latitude);
   const longitude = numeric(payload.longitude);
@@ -146,8 +139,8 @@ export function draftColumns(payload: Record<string, unknown>) {
   return {
     number: text(payload.number, 32),
     kind,
-    started_at: wallClockToDate(text(payload.startedAt, 19)),
-    cleared_at: wallClockToDate(text(payload.clearedAt, 19)),
+    started_at: wallClockToInstant(text(payload.startedAt, 19), timeZone),
+    cleared_at: wallClockToInstant(text(payload.clearedAt, 19), timeZone),
     address: text(payload.address, 200),
     latitude: latitude != null && Math.abs(latitude) <= 90 ? latitude : null,
     longitude: longitude != null && Math.abs(longitude) <= 180 ? longitude : null,
@@ -209,7 +202,8 @@ async function nextEventNumber(connection: Db, kind: EventKind, year: number): P
 
 /** A suggestion for a new report's number (the officer may type the dispatch number instead). */
 export async function suggestEventNumber(kind: EventKind = "incident", now = new Date()): Promise<string> {
-  return nextEventNumber(db, kind, now.getUTCFullYear());
+  const year = Number(instantToWallClock(now, await agencyTimeZone()).slice(0, 4));
+  return nextEventNumber(db, kind, year);
 }
 
 export function canEditReport(user: SessionUser, row: { created_by: number; status: EventStatus }): boolean {
@@ -230,7 +224,7 @@ async function snapshotEvent(eventId: number, connection: Db) {
 
 type Lines = ReturnType<typeof draftLines>;
 
-async function writeLines(trx: Knex.Transaction, eventId: number, lines: Lines, usage: UsageResult) {
+async function writeLines(trx: Knex.Transaction, eventId: number, lines: Lines, usage: UsageResult, timeZone: string) {
   await trx("discharges").where({ event_id: eventId }).delete();
   await trx("runoff_dispositions").where({ event_id: eventId }).delete();
   await trx("tank_readings").where({ event_id: eventId }).delete();
@@ -248,8 +242,8 @@ async function writeLines(trx: Knex.Transaction, eventId: number, lines: Lines, 
           flow: line.flow,
           flow_unit: line.flowUnit,
           flow_basis: line.basis,
-          started_at: wallClockToDate(line.startedAt),
-          ended_at: wallClockToDate(line.endedAt),
+          started_at: wallClockToInstant(line.startedAt, timeZone),
+          ended_at: wallClockToInstant(line.endedAt, timeZone),
           minutes: lineMinutes(line),
           method: line.method ?? null,
           air_flow_cfm: line.airFlowCfm ?? null,
@@ -315,19 +309,20 @@ export async function saveReport(request: SaveRequest, hooks: SaveHooks = {}): P
       if (previous?.event_id) return { kind: "repeat", eventId: previous.event_id } as const;
 
       const report = request.report;
+      const timeZone = await agencyTimeZone(trx);
       const columns = filing
         ? {
             number: report!.number,
             kind: report!.kind,
-            started_at: wallClockToDate(report!.startedAt),
-            cleared_at: wallClockToDate(report!.clearedAt),
+            started_at: wallClockToInstant(report!.startedAt, timeZone),
+            cleared_at: wallClockToInstant(report!.clearedAt, timeZone),
             address: report!.address,
             latitude: report!.latitude,
             longitude: report!.longitude,
             station_id: report!.stationId,
             narrative: report!.narrative ?? "",
           }
-        : draftColumns(request.payload);
+        : draftColumns(request.payload, timeZone);
       const lines: Lines = filing
         ? {
             discharges: report!.discharges,
@@ -336,7 +331,7 @@ export async function saveReport(request: SaveRequest, hooks: SaveHooks = {}): P
           }
         : draftLines(request.payload);
       const usage = await computeForInputs(
-        dischargeInputs(lines.discharges),
+        dischargeInputs(lines.discharges, timeZone),
         {
           tankReadings: tankReadingInputs(lines.tankReadings),
           eventWindow: { start: columns.started_at, end: columns.cleared_at },
@@ -458,7 +453,7 @@ export async function saveReport(request: SaveRequest, hooks: SaveHooks = {}): P
         });
       }
 
-      await writeLines(trx, eventId!, lines, usage);
+      await writeLines(trx, eventId!, lines, usage, timeZone);
       await trx("form_submissions").insert({
         submission_key: request.submissionKey,
         user_id: request.user.id,

@@ -1,14 +1,17 @@
+import { agencyTimeZone } from "./agency.server";
 import { listActiveApparatus, listActiveProducts, listStationOptions } from "./catalogue.server";
 import type { ReportDetail } from "./event-read.server";
 
 /** The choices the usage-report form offers. */
 export async function reportFormOptions() {
-  const [stations, apparatus, products] = await Promise.all([
+  const [stations, apparatus, products, timeZone] = await Promise.all([
     listStationOptions(),
     listActiveApparatus(),
     listActiveProducts(),
+    agencyTimeZone(),
   ]);
   return {
+    timeZone,
     stations: stations.filter((station) => station.active),
     apparatus: apparatus.map(({ id, unitId, description, compressedAirCfm, outlets }) => ({
       id,

@@ -112,6 +112,8 @@ describe("filing a usage report", () => {
     expect(statusOf(outcome.value)).toBe(302);
     const event = await db("events").where({ number: fields.number }).first();
     expect(event.status).toBe("filed");
+    // Typed as the agency's local time (America/Chicago, UTC−6 in March), stored as the UTC instant.
+    expect(new Date(event.started_at).toISOString()).toBe("2026-03-01T15:00:00.000Z");
 
     const expected = computeUsage(
       [
@@ -142,6 +144,8 @@ describe("filing a usage report", () => {
     expect(body.totals.concentrate).toEqual({ gal: 51, L: 193.06 });
     expect(body.discharges).toHaveLength(2);
     expect(body.discharges[1].minutes).toBe(15);
+    expect(body.startedAt).toBe("2026-03-01T09:00");
+    expect(body.discharges[1].startedAt).toBe("2026-03-01T09:30");
     expect(body.dispositions.map((line: { released: { gal: number } }) => line.released.gal)).toEqual([
       Number((0.8 * expected.totals.solution.gal).toFixed(2)),
       Number((0.2 * expected.totals.solution.gal).toFixed(2)),

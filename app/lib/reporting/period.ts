@@ -1,3 +1,4 @@
+import { zoneOffsetMinutes } from "../time-zone";
 /** A reporting period: calendar days in the agency's time zone, first and last day inclusive. */
 export type ReportPeriod = {
   from: string;
@@ -32,23 +33,6 @@ function nextDay(value: string): string {
   const date = new Date(`${value}T00:00:00Z`);
   date.setUTCDate(date.getUTCDate() + 1);
   return date.toISOString().slice(0, 10);
-}
-
-/** Offset of `timeZone` from UTC at `instant`, in minutes (positive east of Greenwich). */
-function zoneOffsetMinutes(instant: Date, timeZone: string): number {
-  const parts = new Intl.DateTimeFormat("en-US", {
-    timeZone,
-    hourCycle: "h23",
-    year: "numeric",
-    month: "2-digit",
-    day: "2-digit",
-    hour: "2-digit",
-    minute: "2-digit",
-    second: "2-digit",
-  }).formatToParts(instant);
-  const get = (type: string) => Number(parts.find((part) => part.type === type)?.value);
-  const asUtc = Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"), get("second"));
-  return Math.round((asUtc - instant.getTime()) / 60_000);
 }
 
 /** The UTC instant of local midnight at the start of `day` in `timeZone`. */

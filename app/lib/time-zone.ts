@@ -1,0 +1,46 @@
+/**
+ * Instants are stored in UTC; people type and read the agency's wall-clock time ("YYYY-MM-DDTHH:MM",
+ * as a datetime-local field gives it). These convert between the two with the platform's time-zone
+ * data (Intl), daylight-saving changes included.
+ */
+
+/** Offset of `timeZone` from UTC at `instant`, in minutes (positive east of Greenwich). */
+export function zoneOffsetMinutes(instant: Date, timeZone: string): number {
+  const parts = new Intl.DateTimeFormat("en-US", {
+    timeZone,
+    hourCycle: "h23",
+    year: "numeric",
+    month: "2-digit",
+    day: "2-digit",
+    hour: "2-digit",
+    minute: "2-digit",
+    second: "2-digit",
+  }).formatToParts(instant);
+  const get = (type: string) => Number(parts.find((part) => part.type === type)?.value);
+  const asUtc = Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"), get("second"));
+  return Math.round((asUtc - instant.getTime()) / 60_000);
+}
+
+const WALL_CLOCK = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2}))?$/;
+
+/** The instant at which the agency's clocks showed `wallClock`, or null for text that is not a time. */
+export function wallClockToInstant(wallClock: string | null | undefined, timeZone: string): Date | null {
+  const match = wallClock ? WALL_CLOCK.exec(wallClock) : null;
+  if (!match) return null;
+  const [, year, month, day, hour, minute, second] = match.map(Number);
+  const guess = Date.UTC(year, month - 1, day, hour, minute, second || 0);
+  if (Number.isNaN(guess)) return null;
+  let instant = guess - zoneOffsetMinutes(new Date(guess), timeZone) * 60_000;
+  // Once more, in case the first guess fell on the other side of a daylight-saving change.
+  instant = guess - zoneOffsetMinutes(new Date(instant), timeZone) * 60_000;
+  return new Date(instant);
+}
+
+/** How the agency's clocks showed `instant`, as "YYYY-MM-DDTHH:MM"; "" for no instant. */
+export function instantToWallClock(instant: Date | string | null | undefined, timeZone: string): string {
+  if (!instant) return "";
+  const date = instant instanceof Date ? instant : new Date(instant);
+  if (Number.isNaN(date.getTime())) return "";
+  const shifted = new Date(date.getTime() + zoneOffsetMinutes(date, timeZone) * 60_000);
+  return shifted.toISOString().slice(0, 16);
+}
