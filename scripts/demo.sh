@@ -6,6 +6,8 @@ cd "$root"
 bash scripts/install-deps.sh
 # shellcheck source=scripts/env.sh
 source scripts/env.sh
+# Links in e-mail point at the port actually served, unless APP_URL was set on purpose.
+if [ -n "${PORT:-}" ] && [ "${APP_URL:-}" = "http://127.0.0.1:3000" ]; then export APP_URL="http://127.0.0.1:$PORT"; fi
 bash scripts/db.sh up
 npm run --silent db:migrate
 if bash scripts/db.sh is-empty; then
