@@ -57,6 +57,7 @@ test.describe("signing in", () => {
     consoleErrors.allow(/status of 401/);
     await signInAs(page, "chief");
     await page.getByRole("button", { name: "Sign out" }).click();
+    await expect(page.getByRole("heading", { name: "Sign in to Foamtally" })).toBeVisible();
     await page.goto("/admin/users");
     await expect(page).toHaveURL(/\/sign-in\?redirectTo=%2Fadmin%2Fusers/);
     const me = await page.request.get("/api/me");
