@@ -1,4 +1,4 @@
-import type { DischargeMethod } from "~/lib/catalogue/apparatus-form";
+import type { ApplicationMethod } from "~/lib/foam/vocabulary";
 import { parseNominalPercents, type FoamType } from "~/lib/catalogue/product-form";
 import { db, type Db } from "~/lib/db.server";
 import type { ApparatusFacts, FlowBasis, FoamClass, ProductFacts } from "~/lib/foam/totals";
@@ -44,7 +44,7 @@ export type OutletDefaults = {
   foamCapable: boolean;
   defaultFlowGpm: number | null;
   defaultFlowBasis: FlowBasis;
-  defaultMethod: DischargeMethod | null;
+  defaultMethod: ApplicationMethod | null;
 };
 
 export type ActiveApparatus = {
@@ -66,7 +66,7 @@ function outletOf(row: Record<string, unknown>): OutletDefaults {
     foamCapable: Boolean(row.foam_capable),
     defaultFlowGpm: numberOrNull(row.default_flow_gpm),
     defaultFlowBasis: row.default_flow_basis === "solution" ? "solution" : "water",
-    defaultMethod: (row.default_method as DischargeMethod | null) ?? null,
+    defaultMethod: (row.default_method as ApplicationMethod | null) ?? null,
   };
 }
 

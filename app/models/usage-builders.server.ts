@@ -2,7 +2,7 @@
 // the connection as an argument (never the app's pool) and compute every stored volume with the same
 // module the server uses, so seeded numbers equal what a save would store.
 import type { Knex } from "knex";
-import type { DischargeMethod } from "../lib/catalogue/apparatus-form";
+import type { ApplicationMethod } from "../lib/foam/vocabulary";
 import type { FoamType, PfasContentUnit } from "../lib/catalogue/product-form";
 import {
   computeUsage,
@@ -60,7 +60,7 @@ export type OutletSpec = {
   foamCapable?: boolean;
   defaultFlowGpm?: number | null;
   defaultFlowBasis?: FlowBasis;
-  defaultMethod?: DischargeMethod | null;
+  defaultMethod?: ApplicationMethod | null;
 };
 
 export type ApparatusSpec = {
@@ -170,7 +170,7 @@ export type DischargeSpec = {
   minutes: number;
   startedAt?: Date | null;
   endedAt?: Date | null;
-  method?: DischargeMethod | null;
+  method?: ApplicationMethod | null;
   airFlowCfm?: number | null;
 };
 

@@ -5,13 +5,8 @@ import type { Route } from "./+types/apparatus.$apparatusId";
 import { CheckboxField, SelectField } from "~/components/catalogue-fields";
 import { FormErrors, TextField } from "~/components/form-fields";
 import { requireUser } from "~/lib/auth.server";
-import {
-  ApparatusFormSchema,
-  DISCHARGE_METHOD_LABELS,
-  DISCHARGE_METHODS,
-  FLOW_BASES,
-  FLOW_BASIS_LABELS,
-} from "~/lib/catalogue/apparatus-form";
+import { ApparatusFormSchema } from "~/lib/catalogue/apparatus-form";
+import { APPLICATION_METHOD_LABELS, APPLICATION_METHODS, FLOW_BASES, FLOW_BASIS_LABELS } from "~/lib/foam/vocabulary";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import {
@@ -189,9 +184,9 @@ export default function ApparatusPage({ loaderData, actionData }: Route.Componen
                         label="Default method"
                         field={item.defaultMethod}
                         placeholder="None"
-                        options={DISCHARGE_METHODS.map((method) => ({
+                        options={APPLICATION_METHODS.map((method) => ({
                           value: method,
-                          label: DISCHARGE_METHOD_LABELS[method],
+                          label: APPLICATION_METHOD_LABELS[method],
                         }))}
                       />
                     </div>

@@ -1,21 +1,5 @@
 import { z } from "zod";
-
-export const DISCHARGE_METHODS = ["compressed_air", "aspirated", "non_aspirated", "monitor", "wetting"] as const;
-export type DischargeMethod = (typeof DISCHARGE_METHODS)[number];
-
-export const DISCHARGE_METHOD_LABELS: Record<DischargeMethod, string> = {
-  compressed_air: "Compressed-air foam",
-  aspirated: "Aspirated",
-  non_aspirated: "Non-aspirated",
-  monitor: "Monitor",
-  wetting: "Wetting",
-};
-
-export const FLOW_BASES = ["water", "solution"] as const;
-export const FLOW_BASIS_LABELS: Record<(typeof FLOW_BASES)[number], string> = {
-  water: "Water flow (direct injection)",
-  solution: "Foam-solution flow (nozzle or eductor rating)",
-};
+import { APPLICATION_METHODS, FLOW_BASES } from "../foam/vocabulary";
 
 const checkbox = z.preprocess((value) => value === "on" || value === "true", z.boolean());
 
@@ -99,7 +83,7 @@ export const OutletSchema = z.object({
   foamCapable: checkbox,
   defaultFlowGpm: optionalNumber("The default flow", { max: 10_000, positive: true }),
   defaultFlowBasis: z.enum(FLOW_BASES, { error: "Choose what the flow figure measures." }).default("water"),
-  defaultMethod: z.enum(DISCHARGE_METHODS, { error: "Choose a method." }).optional(),
+  defaultMethod: z.enum(APPLICATION_METHODS, { error: "Choose a method." }).optional(),
 });
 
 export const ApparatusFormSchema = z

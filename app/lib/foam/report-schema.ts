@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { FLOW_UNITS } from "./units";
+import { APPLICATION_METHODS, FLOW_BASES } from "./vocabulary";
 
 export const EVENT_KINDS = ["incident", "training", "test", "flush"] as const;
 export type EventKind = (typeof EVENT_KINDS)[number];
@@ -19,20 +20,7 @@ export const EVENT_STATUS_LABELS: Record<EventStatus, string> = {
   accepted: "Accepted",
 };
 
-export const FLOW_BASES = ["water", "solution"] as const;
-export const FLOW_BASIS_LABELS = {
-  water: "Water flow (direct injection)",
-  solution: "Foam solution (nozzle or eductor rating)",
-} as const;
-
-export const APPLICATION_METHODS = ["compressed_air", "aspirated", "non_aspirated", "monitor", "wetting"] as const;
-export const APPLICATION_METHOD_LABELS: Record<(typeof APPLICATION_METHODS)[number], string> = {
-  compressed_air: "Compressed-air foam",
-  aspirated: "Aspirated",
-  non_aspirated: "Non-aspirated",
-  monitor: "Monitor",
-  wetting: "Wetting agent",
-};
+export { APPLICATION_METHOD_LABELS, APPLICATION_METHODS, FLOW_BASES, FLOW_BASIS_LABELS } from "./vocabulary";
 
 export const DISPOSITIONS = [
   "contained",
