@@ -6,6 +6,7 @@ export default [
   route("sign-out", "routes/sign-out.tsx"),
   route("profile", "routes/profile.tsx"),
   route("admin/users", "routes/admin.users.tsx"),
+  route("admin/settings", "routes/admin.settings.tsx"),
   route("api/me", "routes/api.me.ts"),
   route("events", "routes/events._index.tsx"),
   route("events.csv", "routes/events.csv.ts"),

@@ -9,6 +9,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: "/events", label: "Events", roles: ["officer", "environmental", "chief", "records"] },
   { to: "/events?status=filed", label: "To review", roles: ["environmental", "chief"] },
   { to: "/admin/users", label: "People and roles", roles: ["admin", "chief"] },
+  { to: "/admin/settings", label: "Agency settings", roles: ["admin", "chief"] },
   { to: "/products", label: "Foam products", roles: ["environmental", "chief"] },
   { to: "/apparatus", label: "Apparatus and stations", roles: ["chief", "admin"] },
   { to: "/map", label: "Usage map", roles: ["chief", "environmental"] },

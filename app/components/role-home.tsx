@@ -21,6 +21,7 @@ export const ROLE_TASKS: Record<Role, Task[]> = {
     { label: "Quarterly runoff and PFAS summaries", to: "/environmental" },
     { label: "Reports waiting for review", to: "/events?status=filed" },
     { label: "People and roles", to: "/admin/users" },
+    { label: "Agency settings (read only)", to: "/admin/settings" },
     { label: "Apparatus, foam systems and stations", to: "/apparatus" },
     { label: "Foam products", to: "/products" },
   ],
@@ -30,6 +31,7 @@ export const ROLE_TASKS: Record<Role, Task[]> = {
   ],
   admin: [
     { label: "People and roles", to: "/admin/users" },
+    { label: "Agency settings: buffers, thresholds and mail recipients", to: "/admin/settings" },
     { label: "Apparatus and stations", to: "/apparatus" },
   ],
 };

@@ -18,13 +18,14 @@ test.describe("signing in", () => {
         "Events",
         "To review",
         "People and roles",
+        "Agency settings",
         "Foam products",
         "Apparatus and stations",
         "Usage map",
         "Quarterly summaries",
       ],
       records: ["Home", "Events"],
-      admin: ["Home", "People and roles", "Apparatus and stations"],
+      admin: ["Home", "People and roles", "Agency settings", "Apparatus and stations"],
     };
     for (const role of Object.keys(expected) as (keyof typeof DEMO)[]) {
       await signInAs(page, role);

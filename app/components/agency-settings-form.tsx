@@ -1,0 +1,298 @@
+import {
+  getFormProps,
+  getInputProps,
+  getSelectProps,
+  getTextareaProps,
+  useForm,
+  type FieldMetadata,
+  type SubmissionResult,
+} from "@conform-to/react";
+import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
+import { Form, useNavigation } from "react-router";
+import {
+  AgencySettingsSchema,
+  DISPLAY_UNIT_LABELS,
+  DISPLAY_UNITS,
+  feetFromMetres,
+  MAX_RECIPIENTS,
+} from "~/lib/agency-settings-form";
+import { ErrorList, FormErrors } from "./form-fields";
+
+export type AgencySettingsView = {
+  name: string;
+  timeZone: string;
+  displayUnits: "us" | "metric";
+  waterwayBufferM: number;
+  drawdownToleranceShare: number;
+  pfasReportableLb: number;
+  classAAccuracyShare: number;
+  reportRecipients: string[];
+  releaseAlertRecipients: string[];
+  updatedAt: string | null;
+  version: string;
+};
+
+// Any field of this form; the helpers below need only its name, id, errors and value.
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+type Field = FieldMetadata<any, any, any>;
+
+const percent = (share: number) => Number((share * 100).toFixed(2));
+const formatNumber = (value: number, digits = 2) => value.toLocaleString("en-US", { maximumFractionDigits: digits });
+
+function Hint({ id, children }: { id: string; children: React.ReactNode }) {
+  return (
+    <p id={id} className="text-xs text-slate-ft">
+      {children}
+    </p>
+  );
+}
+
+function NumberField({
+  label,
+  field,
+  unit,
+  hint,
+  after,
+}: {
+  label: string;
+  field: Field;
+  unit: string;
+  hint: React.ReactNode;
+  after?: React.ReactNode;
+}) {
+  const props = getInputProps(field, { type: "text", ariaDescribedBy: `${field.id}-hint` });
+  return (
+    <div>
+      <label htmlFor={field.id} className="field-label">
+        {label} ({unit})
+      </label>
+      <Hint id={`${field.id}-hint`}>{hint}</Hint>
+      <div className="flex items-center gap-2">
+        <input {...props} key={props.key} inputMode="decimal" className="field-input max-w-40" autoComplete="off" />
+        <span aria-hidden="true">{unit}</span>
+        {after}
+      </div>
+      <ErrorList id={field.errorId} errors={field.errors} />
+    </div>
+  );
+}
+
+function RecipientsField({ label, field, hint }: { label: string; field: Field; hint: string }) {
+  const props = getTextareaProps(field, { ariaDescribedBy: `${field.id}-hint` });
+  return (
+    <div>
+      <label htmlFor={field.id} className="field-label">
+        {label}
+      </label>
+      <Hint id={`${field.id}-hint`}>
+        {hint} One address a line, or separated by commas; at most {MAX_RECIPIENTS}.
+      </Hint>
+      <textarea {...props} key={props.key} rows={3} className="field-input" autoComplete="off" />
+      <ErrorList id={field.errorId} errors={field.errors} />
+    </div>
+  );
+}
+
+function CurrentValues({ settings }: { settings: AgencySettingsView }) {
+  const rows: [string, string][] = [
+    ["Agency name", settings.name],
+    ["Time zone", settings.timeZone],
+    ["Units shown first", DISPLAY_UNIT_LABELS[settings.displayUnits]],
+    [
+      "Waterway buffer",
+      `${formatNumber(settings.waterwayBufferM)} m (${formatNumber(feetFromMetres(settings.waterwayBufferM), 1)} ft)`,
+    ],
+    ["Drawdown tolerance", `${formatNumber(percent(settings.drawdownToleranceShare))} %`],
+    ["PFAS threshold", `${formatNumber(settings.pfasReportableLb, 4)} lb in 24 h`],
+    ["Class A accuracy band", `± ${formatNumber(percent(settings.classAAccuracyShare))} %`],
+    ["Report recipients", settings.reportRecipients.join(", ") || "none"],
+    ["Release alert recipients", settings.releaseAlertRecipients.join(", ") || "none"],
+  ];
+  return (
+    <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
+      {rows.map(([label, value]) => (
+        <div key={label} className="contents">
+          <dt className="font-semibold">{label}</dt>
+          <dd>{value}</dd>
+        </div>
+      ))}
+    </dl>
+  );
+}
+
+/** The agency's settings: an editable form for administrators, the same fields read-only for others. */
+export function AgencySettingsForm({
+  settings,
+  timeZones,
+  readOnly,
+  lastResult,
+  conflict,
+}: {
+  settings: AgencySettingsView;
+  timeZones: string[];
+  readOnly: boolean;
+  lastResult?: SubmissionResult<string[]>;
+  conflict?: AgencySettingsView;
+}) {
+  const navigation = useNavigation();
+  const saving = navigation.state === "submitting";
+  const version = conflict?.version ?? settings.version;
+  const [form, fields] = useForm({
+    id: "agency-settings",
+    lastResult,
+    constraint: getZodConstraint(AgencySettingsSchema),
+    shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
+    defaultValue: {
+      name: settings.name,
+      timeZone: settings.timeZone,
+      displayUnits: settings.displayUnits,
+      waterwayBufferM: String(settings.waterwayBufferM),
+      drawdownTolerancePercent: String(percent(settings.drawdownToleranceShare)),
+      pfasReportableLb: String(settings.pfasReportableLb),
+      classAAccuracyPercent: String(percent(settings.classAAccuracyShare)),
+      reportRecipients: settings.reportRecipients.join("\n"),
+      releaseAlertRecipients: settings.releaseAlertRecipients.join("\n"),
+    },
+    onValidate: ({ formData }) => parseWithZod(formData, { schema: AgencySettingsSchema }),
+  });
+  const bufferMetres = Number(fields.waterwayBufferM.value);
+  const bufferFeet =
+    fields.waterwayBufferM.value && Number.isFinite(bufferMetres) && bufferMetres > 0
+      ? `= ${formatNumber(feetFromMetres(bufferMetres), 1)} ft`
+      : null;
+  const nameProps = getInputProps(fields.name, { type: "text" });
+  const zoneProps = getInputProps(fields.timeZone, { type: "text", ariaDescribedBy: `${fields.timeZone.id}-hint` });
+  const unitProps = getSelectProps(fields.displayUnits);
+
+  return (
+    <Form method="post" className="space-y-6" {...getFormProps(form)}>
+      <input type="hidden" name="version" value={version} key={version} readOnly />
+      <FormErrors id={form.errorId} errors={form.errors} />
+      {conflict ? (
+        <section className="card max-w-3xl" aria-labelledby="conflict-title">
+          <h2 id="conflict-title" className="text-lg font-semibold">
+            Saved by someone else in the meantime
+          </h2>
+          <p className="text-sm">
+            These are the settings as they are stored now. Your typing is kept in the form below; compare the two and
+            save again to replace the stored values with yours.
+          </p>
+          <CurrentValues settings={conflict} />
+        </section>
+      ) : null}
+      <fieldset disabled={readOnly || saving} className="space-y-6">
+        <section className="card max-w-3xl space-y-4" aria-labelledby="agency-title">
+          <h2 id="agency-title" className="text-lg font-semibold">
+            Agency
+          </h2>
+          <div>
+            <label htmlFor={fields.name.id} className="field-label">
+              Agency name
+            </label>
+            <input {...nameProps} key={nameProps.key} className="field-input" autoComplete="organization" />
+            <ErrorList id={fields.name.errorId} errors={fields.name.errors} />
+          </div>
+          <div>
+            <label htmlFor={fields.timeZone.id} className="field-label">
+              Time zone
+            </label>
+            <Hint id={`${fields.timeZone.id}-hint`}>
+              An IANA time zone name, for example America/Chicago. Times are typed and shown in it; stored times do not
+              move when it changes.
+            </Hint>
+            <input
+              {...zoneProps}
+              key={zoneProps.key}
+              list="agency-time-zones"
+              className="field-input max-w-sm"
+              autoComplete="off"
+            />
+            <datalist id="agency-time-zones">
+              {timeZones.map((zone) => (
+                <option key={zone} value={zone} />
+              ))}
+            </datalist>
+            <ErrorList id={fields.timeZone.errorId} errors={fields.timeZone.errors} />
+          </div>
+          <div>
+            <label htmlFor={fields.displayUnits.id} className="field-label">
+              Units shown first
+            </label>
+            <select {...unitProps} key={unitProps.key} className="field-input max-w-sm">
+              {DISPLAY_UNITS.map((unit) => (
+                <option key={unit} value={unit}>
+                  {DISPLAY_UNIT_LABELS[unit]}
+                </option>
+              ))}
+            </select>
+            <ErrorList id={fields.displayUnits.errorId} errors={fields.displayUnits.errors} />
+          </div>
+        </section>
+
+        <section className="card max-w-3xl space-y-4" aria-labelledby="thresholds-title">
+          <h2 id="thresholds-title" className="text-lg font-semibold">
+            Buffers and thresholds
+          </h2>
+          <p className="caution" role="note" aria-label="Thresholds caution">
+            These figures are defaults that support your own judgement; they are not legal limits. Local codes, permits
+            and state and federal law govern what you must avoid and report — set the values they require and check them
+            with your regulator.
+          </p>
+          <NumberField
+            label="Waterway buffer"
+            field={fields.waterwayBufferM}
+            unit="m"
+            hint="Default 91.44 m = 300 ft: USDA Forest Service aerial application guide — local rules govern. Ground use has no fixed distance. A change rechecks every event's stored location checks."
+            after={<span className="text-sm text-slate-ft">{bufferFeet}</span>}
+          />
+          <NumberField
+            label="Tank drawdown tolerance"
+            field={fields.drawdownTolerancePercent}
+            unit="%"
+            hint="How far computed concentrate may differ from the tank refill or level readings before a report is warned. Default 15 %: common practice, no published source."
+          />
+          <NumberField
+            label="PFAS threshold in any 24 hours"
+            field={fields.pfasReportableLb}
+            unit="lb"
+            hint="Default 1 lb in 24 h: CERCLA reportable quantity for PFOA/PFOS, 40 CFR 302.4 — state law may be stricter. The quarterly workbook compares the heaviest 24 hours with it."
+          />
+          <NumberField
+            label="Class A proportioning accuracy band, ± share of the set percentage"
+            field={fields.classAAccuracyPercent}
+            unit="%"
+            hint="Default 30 %: from memory, low confidence — no published figure for apparatus Class A systems was found; use your acceptance-test criteria. Stored for reference; no check uses it yet."
+          />
+        </section>
+
+        <section className="card max-w-3xl space-y-4" aria-labelledby="mail-title">
+          <h2 id="mail-title" className="text-lg font-semibold">
+            Who gets mail
+          </h2>
+          <RecipientsField
+            label="Quarterly report recipients"
+            field={fields.reportRecipients}
+            hint="They receive the quarterly runoff and PFAS workbook when it is sent."
+          />
+          <RecipientsField
+            label="Release alert recipients"
+            field={fields.releaseAlertRecipients}
+            hint="They receive an alert, with every environmental officer, when a filed report used PFAS foam or sent runoff to a storm drain or surface water."
+          />
+          <p className="caution" role="note" aria-label="Mail caution">
+            Mail from Foamtally is a notice, not a regulatory report: check who must be told, how and by when under your
+            permits and state and federal law.
+          </p>
+        </section>
+      </fieldset>
+      {readOnly ? (
+        <p className="text-sm text-slate-ft">You can read these settings; an administrator changes them.</p>
+      ) : (
+        <button type="submit" className="btn-primary" disabled={saving}>
+          {saving ? "Saving…" : "Save settings"}
+        </button>
+      )}
+    </Form>
+  );
+}

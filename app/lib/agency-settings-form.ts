@@ -1,0 +1,101 @@
+import { z } from "zod";
+
+/** 1 ft = 0.3048 m exactly (definition of the international foot). */
+export const METRES_PER_FOOT = 0.3048;
+
+/** 300 ft (91.44 m): USDA Forest Service aerial application guide; local rules govern. */
+export const DEFAULT_WATERWAY_BUFFER_M = 91.44;
+/** 15 %: the product's own starting point for computed against measured drawdown (common practice, no source). */
+export const DEFAULT_DRAWDOWN_TOLERANCE_SHARE = 0.15;
+/** 1 lb in 24 h: CERCLA reportable quantity for PFOA/PFOS, 40 CFR 302.4 (89 FR 39124). */
+export const DEFAULT_PFAS_REPORTABLE_LB = 1;
+/** 30 %: from memory, low confidence — no published figure for Class A apparatus systems was found. */
+export const DEFAULT_CLASS_A_ACCURACY_SHARE = 0.3;
+
+export const DISPLAY_UNITS = ["us", "metric"] as const;
+export const DISPLAY_UNIT_LABELS: Record<(typeof DISPLAY_UNITS)[number], string> = {
+  us: "US customary (gallons, feet) first",
+  metric: "Metric (litres, metres) first",
+};
+
+export const MAX_RECIPIENTS = 50;
+
+/** Splits a typed list of addresses on commas, semicolons, spaces or new lines. */
+export function splitRecipientList(text: string | null | undefined): string[] {
+  return (text ?? "")
+    .split(/[,;\s]+/)
+    .map((address) => address.trim())
+    .filter((address) => address.length > 0);
+}
+
+const EmailAddress = z.email();
+
+function recipientList(label: string) {
+  return z
+    .string()
+    .max(20_000, `The ${label} list is too long.`)
+    .optional()
+    .transform((text) => text ?? "")
+    .superRefine((text, context) => {
+      const addresses = splitRecipientList(text);
+      for (const address of addresses) {
+        if (address.length > 254 || !EmailAddress.safeParse(address).success) {
+          context.addIssue({ code: "custom", message: `“${address}” is not an e-mail address.` });
+        }
+      }
+      if (addresses.length > MAX_RECIPIENTS) {
+        context.addIssue({ code: "custom", message: `At most ${MAX_RECIPIENTS} addresses.` });
+      }
+    })
+    .transform((text) => [...new Set(splitRecipientList(text).map((address) => address.toLowerCase()))]);
+}
+
+/** Whether a name is an IANA time zone this runtime knows (the same list in the browser and on the server). */
+export function isKnownTimeZone(name: string): boolean {
+  if (name === "UTC") return true;
+  return Intl.supportedValuesOf("timeZone").includes(name);
+}
+
+/** At most `places` decimals, so what is stored is exactly what was typed. */
+const decimals = (value: number, places: number) =>
+  Math.abs(value * 10 ** places - Math.round(value * 10 ** places)) < 1e-6;
+
+export const AgencySettingsSchema = z.object({
+  version: z.string({ error: "Reload the page and try again." }).min(1, "Reload the page and try again.").max(100),
+  name: z
+    .string({ error: "Give the agency's name." })
+    .trim()
+    .min(1, "Give the agency's name.")
+    .max(200, "At most 200 characters."),
+  timeZone: z
+    .string({ error: "Choose the agency's time zone." })
+    .trim()
+    .refine(isKnownTimeZone, "Not a known time zone. Use an IANA name such as America/Chicago."),
+  displayUnits: z.enum(DISPLAY_UNITS, { error: "Choose which units are shown first." }),
+  waterwayBufferM: z
+    .number({ error: "Give the buffer in metres, as a number." })
+    .gt(0, "The buffer must be more than 0 m.")
+    .max(5000, "At most 5,000 m.")
+    .refine((value) => decimals(value, 2), "At most two decimals (centimetres)."),
+  drawdownTolerancePercent: z
+    .number({ error: "Give the tolerance as a percent, as a number." })
+    .gt(0, "The tolerance must be more than 0 %.")
+    .max(100, "At most 100 %.")
+    .refine((value) => decimals(value, 2), "At most two decimals."),
+  pfasReportableLb: z
+    .number({ error: "Give the threshold in pounds, as a number." })
+    .gt(0, "The threshold must be more than 0 lb.")
+    .max(1_000_000, "At most 1,000,000 lb.")
+    .refine((value) => decimals(value, 4), "At most four decimals."),
+  classAAccuracyPercent: z
+    .number({ error: "Give the accuracy band as a percent, as a number." })
+    .gt(0, "The band must be more than 0 %.")
+    .max(100, "At most 100 %.")
+    .refine((value) => decimals(value, 2), "At most two decimals."),
+  reportRecipients: recipientList("report recipients"),
+  releaseAlertRecipients: recipientList("release alert recipients"),
+});
+
+export type AgencySettingsInput = z.infer<typeof AgencySettingsSchema>;
+
+export const feetFromMetres = (metres: number) => metres / METRES_PER_FOOT;

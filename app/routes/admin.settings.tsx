@@ -1,0 +1,65 @@
+import { parseWithZod } from "@conform-to/zod/v4";
+import { data, redirect } from "react-router";
+import type { Route } from "./+types/admin.settings";
+import { AgencySettingsForm } from "~/components/agency-settings-form";
+import { AgencySettingsSchema } from "~/lib/agency-settings-form";
+import { requireUser } from "~/lib/auth.server";
+import { clientAddress, rethrowDatabaseDown } from "~/lib/http.server";
+import { flashHeaders } from "~/lib/session.server";
+import { readAgencySettings, saveAgencySettings } from "~/models/agency.server";
+
+export const meta: Route.MetaFunction = () => [{ title: "Agency settings · Foamtally" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireUser(request, ["admin", "chief"]);
+  const settings = await readAgencySettings().catch((error) => rethrowDatabaseDown(request, error));
+  return { settings, timeZones: Intl.supportedValuesOf("timeZone"), canEdit: user.roles.includes("admin") };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireUser(request, ["admin"]);
+  const submission = parseWithZod(await request.formData(), { schema: AgencySettingsSchema });
+  if (submission.status !== "success") {
+    return data({ result: submission.reply(), conflict: null }, { status: 400 });
+  }
+  const outcome = await saveAgencySettings(submission.value, user, clientAddress(request)).catch((error) =>
+    rethrowDatabaseDown(request, error),
+  );
+  if (!outcome.ok) {
+    return data(
+      {
+        result: submission.reply({
+          formErrors: [
+            "Someone else saved the agency settings after you opened this page. Nothing of yours was saved: compare the stored values below with yours, then save again.",
+          ],
+        }),
+        conflict: outcome.conflict,
+      },
+      { status: 409 },
+    );
+  }
+  const message =
+    outcome.changed.length === 0
+      ? "Nothing had changed; the settings stay as they were."
+      : `Agency settings saved.${outcome.eventsRechecked === null ? "" : ` The new waterway buffer rechecked ${outcome.eventsRechecked} events.`}`;
+  throw redirect("/admin/settings", { headers: await flashHeaders(request, message) });
+}
+
+export default function AgencySettingsPage({ loaderData, actionData }: Route.ComponentProps) {
+  return (
+    <div className="space-y-6">
+      <h1 className="text-2xl font-bold">Agency settings</h1>
+      <p className="max-w-3xl">
+        The agency&apos;s name, time zone, the buffers and thresholds every report is checked against, and who receives
+        the quarterly workbook and release alerts.
+      </p>
+      <AgencySettingsForm
+        settings={loaderData.settings}
+        timeZones={loaderData.timeZones}
+        readOnly={!loaderData.canEdit}
+        lastResult={actionData?.result}
+        conflict={actionData?.conflict ?? undefined}
+      />
+    </div>
+  );
+}
