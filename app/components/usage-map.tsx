@@ -1,5 +1,6 @@
 import type { ExpressionSpecification, GeoJSONSource, Map as MapLibreMap, MapLayerMouseEvent } from "maplibre-gl";
-import { useEffect, useRef, useState } from "react";
+import { useEffect, useRef, useState, type RefObject } from "react";
+import type { MappedEventFeature } from "~/lib/geo/events-in-view";
 import type { BoundingBox } from "~/lib/geo/map-filters";
 import { basemapStyle, DISTRICT_BOUNDS, MAP_COLOURS } from "~/lib/geo/map-style";
 import { loadMapLibre } from "./maplibre-loader";
@@ -29,7 +30,25 @@ type Props = {
   timeZone: string;
   overlays: Record<OverlayId, boolean>;
   onViewChange: (bbox: BoundingBox) => void;
+  /** Called with the events drawn on the map each time they are loaded, or null when loading failed. */
+  onEventsChange?: (features: MappedEventFeature[] | null) => void;
+  /** Filled in once the map runs, so that other parts of the page can show an event on it. */
+  control?: RefObject<UsageMapControl | null>;
 };
+
+export type UsageMapControl = {
+  /** Flies to the event and opens its popup; false when the event is not on the map. */
+  showEvent: (eventId: number) => boolean;
+};
+
+type EventCollection = { type: "FeatureCollection"; features: MappedEventFeature[] };
+const EMPTY: EventCollection = { type: "FeatureCollection", features: [] };
+
+async function fetchEvents(query: string): Promise<EventCollection> {
+  const response = await fetch(`/api/map/events.geojson?${query}`, { headers: { Accept: "application/geo+json" } });
+  if (!response.ok) throw new Error(`events: status ${response.status}`);
+  return (await response.json()) as EventCollection;
+}
 
 function text(tag: string, content: string, className?: string) {
   const element = document.createElement(tag);
@@ -78,13 +97,20 @@ function popupContent(properties: Record<string, unknown>, timeZone: string): HT
 }
 
 /** The chief's usage map: events as circles, clusters at low zoom, popups, overlay layers. */
-export function UsageMap({ eventsQuery, timeZone, overlays, onViewChange }: Props) {
+export function UsageMap({ eventsQuery, timeZone, overlays, onViewChange, onEventsChange, control }: Props) {
   const container = useRef<HTMLDivElement>(null);
   const mapRef = useRef<MapLibreMap | null>(null);
   const [state, setState] = useState<"loading" | "ready" | "failed">("loading");
+  const [eventsFailed, setEventsFailed] = useState(false);
   const viewChange = useRef(onViewChange);
   viewChange.current = onViewChange;
-  const initial = useRef({ eventsQuery, overlays });
+  const eventsChange = useRef(onEventsChange);
+  eventsChange.current = onEventsChange;
+  const loaded = useRef<EventCollection>(EMPTY);
+  const loadedQuery = useRef<string | null>(null);
+  const currentQuery = useRef(eventsQuery);
+  currentQuery.current = eventsQuery;
+  const initial = useRef({ overlays });
   const zone = useRef(timeZone);
   zone.current = timeZone;
 
@@ -113,11 +139,11 @@ export function UsageMap({ eventsQuery, timeZone, overlays, onViewChange }: Prop
         };
         map.on("load", () => {
           if (!map) return;
-          const { eventsQuery: query, overlays: shown } = initial.current;
+          const { overlays: shown } = initial.current;
           addOverlays(map, shown);
           map.addSource("events", {
             type: "geojson",
-            data: `${window.location.origin}/api/map/events.geojson?${query}`,
+            data: EMPTY,
             cluster: true,
             clusterMaxZoom: 11,
             clusterRadius: 36,
@@ -127,14 +153,33 @@ export function UsageMap({ eventsQuery, timeZone, overlays, onViewChange }: Prop
             },
           });
           addEventLayers(map);
+          let popup: InstanceType<typeof maplibre.Popup> | null = null;
+          const openPopup = (coordinates: [number, number], properties: Record<string, unknown>) => {
+            popup?.remove();
+            popup = new maplibre.Popup({ maxWidth: "280px" })
+              .setLngLat(coordinates)
+              .setDOMContent(popupContent(properties, zone.current))
+              .addTo(map!);
+          };
           map.on("click", "event-circles", (event: MapLayerMouseEvent) => {
             const feature = event.features?.[0];
             if (!feature || feature.geometry.type !== "Point") return;
-            new maplibre.Popup({ maxWidth: "280px" })
-              .setLngLat(feature.geometry.coordinates as [number, number])
-              .setDOMContent(popupContent(feature.properties ?? {}, zone.current))
-              .addTo(map!);
+            openPopup(feature.geometry.coordinates as [number, number], feature.properties ?? {});
           });
+          if (control) {
+            control.current = {
+              showEvent(eventId) {
+                const feature = loaded.current.features.find((candidate) => candidate.properties.id === eventId);
+                if (!map || !feature) return false;
+                const coordinates = feature.geometry.coordinates;
+                // Past the clustering zoom, so the event is drawn as its own circle.
+                map.flyTo({ center: coordinates, zoom: Math.max(map.getZoom(), 13), essential: true });
+                openPopup(coordinates, feature.properties);
+                return true;
+              },
+            };
+          }
+          void loadEvents(map, currentQuery.current);
           map.on("click", "event-clusters", async (event: MapLayerMouseEvent) => {
             const feature = event.features?.[0];
             if (!feature || feature.geometry.type !== "Point") return;
@@ -170,13 +215,34 @@ export function UsageMap({ eventsQuery, timeZone, overlays, onViewChange }: Prop
       cancelled = true;
       map?.remove();
       mapRef.current = null;
+      if (control) control.current = null;
     };
+    // The map is made once; later changes reach it through refs and the effects below.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, []);
+
+  /** Loads the events for a filter, draws them and hands them to the page; the newest request wins. */
+  async function loadEvents(map: MapLibreMap, query: string) {
+    loadedQuery.current = query;
+    try {
+      const collection = await fetchEvents(query);
+      if (loadedQuery.current !== query || mapRef.current !== map) return;
+      loaded.current = collection;
+      (map.getSource("events") as GeoJSONSource | undefined)?.setData(
+        collection as unknown as Parameters<GeoJSONSource["setData"]>[0],
+      );
+      setEventsFailed(false);
+      eventsChange.current?.(collection.features);
+    } catch {
+      if (loadedQuery.current !== query) return;
+      setEventsFailed(true);
+      eventsChange.current?.(null);
+    }
+  }
 
   useEffect(() => {
     const map = mapRef.current;
-    const source = map?.getSource("events") as GeoJSONSource | undefined;
-    if (source) source.setData(`${window.location.origin}/api/map/events.geojson?${eventsQuery}`);
+    if (map?.getSource("events") && loadedQuery.current !== eventsQuery) void loadEvents(map, eventsQuery);
   }, [eventsQuery]);
 
   useEffect(() => {
@@ -202,6 +268,11 @@ export function UsageMap({ eventsQuery, timeZone, overlays, onViewChange }: Prop
       {state === "failed" ? (
         <p className="absolute inset-x-4 top-4 caution" role="alert">
           The map could not start in this browser (WebGL is needed). The totals and charts beside it still work.
+        </p>
+      ) : null}
+      {eventsFailed ? (
+        <p className="absolute inset-x-4 bottom-10 caution" role="alert">
+          The events could not be loaded just now. Reload the page to try again.
         </p>
       ) : null}
     </div>

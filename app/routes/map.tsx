@@ -1,9 +1,18 @@
-import { useCallback, useMemo, useState } from "react";
+import { useCallback, useMemo, useRef, useState } from "react";
 import { Form, useFetcher } from "react-router";
 import type { Route } from "./+types/map";
+import { EventsInViewTable } from "~/components/events-in-view-table";
 import { ConcentrateByMonthChart, ConcentrateByStationChart } from "~/components/usage-charts";
-import { FOAM_CLASS_COLOURS, OVERLAYS, PFAS_RING, UsageMap, type OverlayId } from "~/components/usage-map";
+import {
+  FOAM_CLASS_COLOURS,
+  OVERLAYS,
+  PFAS_RING,
+  UsageMap,
+  type OverlayId,
+  type UsageMapControl,
+} from "~/components/usage-map";
 import { requireUser } from "~/lib/auth.server";
+import { eventsInView, type MappedEventFeature } from "~/lib/geo/events-in-view";
 import { EVENT_KINDS, mapQuery, parseMapFilters, type BoundingBox } from "~/lib/geo/map-filters";
 import { httpError, rethrowDatabaseDown } from "~/lib/http.server";
 import { localDateTime } from "~/lib/reporting/period";
@@ -47,6 +56,9 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
+/** Rows in the list of events in view; the rest are counted. */
+const EVENTS_LISTED = 50;
+
 const gal = (value: number) => `${value.toLocaleString("en-US", { maximumFractionDigits: 1 })} gal`;
 const DISPOSITION_LABELS: Record<string, string> = {
   contained: "Contained and collected",
@@ -68,11 +80,19 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
   });
   const eventsQuery = useMemo(() => mapQuery(filters), [filters]);
   const { load } = summaryFetcher;
+  const [bounds, setBounds] = useState<BoundingBox | null>(null);
+  const [mappedEvents, setMappedEvents] = useState<MappedEventFeature[] | null | undefined>(undefined);
+  const mapControl = useRef<UsageMapControl | null>(null);
   const onViewChange = useCallback(
     (bbox: BoundingBox) => {
+      setBounds(bbox);
       void load(`/api/summary?${mapQuery({ ...filters, bbox })}`);
     },
     [filters, load],
+  );
+  const listed = useMemo(
+    () => (mappedEvents && bounds ? eventsInView(mappedEvents, bounds, EVENTS_LISTED) : null),
+    [mappedEvents, bounds],
   );
   const summary = summaryFetcher.data ?? loaderData.summary;
   const inView = Boolean(summaryFetcher.data?.bbox);
@@ -150,6 +170,8 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
             timeZone={loaderData.timeZone}
             overlays={overlays}
             onViewChange={onViewChange}
+            onEventsChange={setMappedEvents}
+            control={mapControl}
           />
           <MapKey />
         </div>
@@ -220,6 +242,16 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
           <ConcentrateByStationChart rows={summary.byStation} />
         </aside>
       </div>
+      <EventsInViewTable
+        view={listed}
+        timeZone={loaderData.timeZone}
+        loading={mappedEvents === undefined}
+        onShow={(eventId) => {
+          if (mapControl.current?.showEvent(eventId)) {
+            document.querySelector("[data-testid=usage-map]")?.scrollIntoView({ block: "nearest" });
+          }
+        }}
+      />
     </div>
   );
 }

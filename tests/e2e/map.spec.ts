@@ -131,7 +131,7 @@ test.describe("the chief's usage map", () => {
     const map = page.getByTestId("usage-map");
     await expect(map).toHaveAttribute("data-state", "ready", { timeout: 30_000 });
     const concentrate = page.getByTestId("in-view-concentrate");
-    await expect(page.getByRole("heading", { name: "In view" })).toBeVisible();
+    await expect(page.getByRole("heading", { name: "In view", exact: true })).toBeVisible();
     await expect(concentrate).toHaveText("55 gal");
     await expect(page.getByText(/PFAS-containing events/)).toBeVisible();
     // Zooming in on the centre leaves the two corner events out of view.
@@ -139,6 +139,46 @@ test.describe("the chief's usage map", () => {
     await page.getByRole("button", { name: "Zoom in" }).click();
     await expect(concentrate).toHaveText("40 gal");
     await expect(page.getByTestId("in-view-events")).toHaveText("1");
+  });
+
+  test("lists the events in view in a table that follows the map and leads to each event", async ({ page }) => {
+    await signInAs(page, "chief");
+    await page.goto(`/map?${PERIOD}`);
+    const map = page.getByTestId("usage-map");
+    await expect(map).toHaveAttribute("data-state", "ready", { timeout: 30_000 });
+    const table = page.getByRole("table", { name: /within the map and filters/ });
+    const rows = table.locator("tbody tr");
+    await expect(table).toContainText("3 events");
+    // Most concentrate first: centre 40 gal, south-east 9 gal (PFAS), north-west 6 gal.
+    await expect(rows.locator("th")).toHaveText(["E2E-MAP-centre", "E2E-MAP-south-east", "E2E-MAP-north-west"]);
+    await expect(rows.nth(0)).toContainText("May 4, 2020");
+    await expect(rows.nth(0)).toContainText("40.0");
+    await expect(rows.nth(1)).toContainText("PFAS-containing");
+    await expect(rows.nth(1)).toContainText("Class B");
+
+    // Zooming in on the centre leaves the corner events out of the list.
+    await page.getByRole("button", { name: "Zoom in" }).click();
+    await page.getByRole("button", { name: "Zoom in" }).click();
+    await expect(table).toContainText("1 event within");
+    await expect(rows.locator("th")).toHaveText(["E2E-MAP-centre"]);
+
+    // Back out, then show a corner event from the list: the map flies there and opens its popup.
+    await page.getByRole("button", { name: "Zoom out" }).click();
+    await page.getByRole("button", { name: "Zoom out" }).click();
+    await expect(rows).toHaveCount(3);
+    await table.getByRole("button", { name: "Show on map: E2E-MAP-south-east" }).click();
+    const popup = page.locator(".maplibregl-popup");
+    await expect(popup).toContainText("E2E-MAP-south-east");
+    await expect(popup).toContainText("PFAS-containing foam used");
+    // Flown in to the event, the others drop out of the list.
+    await expect(rows.locator("th")).toHaveText(["E2E-MAP-south-east"], { timeout: 10_000 });
+
+    // The event number is a link to the event's report, reached with the keyboard.
+    const link = rows.nth(0).getByRole("link", { name: "E2E-MAP-south-east" });
+    await link.focus();
+    await page.keyboard.press("Enter");
+    await expect(page).toHaveURL(/\/events\/\d+$/);
+    await expect(page.getByRole("heading", { level: 1 })).toContainText("E2E-MAP-south-east");
   });
 
   test("is not for a company officer", async ({ page, consoleErrors }) => {

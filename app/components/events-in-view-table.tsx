@@ -1,0 +1,104 @@
+import { Link } from "react-router";
+import type { EventsInView } from "~/lib/geo/events-in-view";
+
+const KIND_LABELS: Record<string, string> = {
+  incident: "Incident",
+  training: "Training",
+  test: "Test",
+  flush: "Flush",
+};
+
+const gal = (value: number) => value.toLocaleString("en-US", { minimumFractionDigits: 1, maximumFractionDigits: 1 });
+
+/**
+ * The events within the map's bounds and filters as a table, so that people who do not use the
+ * canvas (keyboard, screen readers) can read and reach every event in view.
+ */
+export function EventsInViewTable({
+  view,
+  timeZone,
+  loading,
+  onShow,
+}: {
+  view: EventsInView | null;
+  timeZone: string;
+  loading: boolean;
+  onShow: (eventId: number) => void;
+}) {
+  const date = (instant: string | null) =>
+    instant ? new Date(instant).toLocaleDateString("en-US", { timeZone, dateStyle: "medium" }) : "not given";
+  const more = view ? view.total - view.rows.length : 0;
+  return (
+    <section className="card space-y-2" aria-labelledby="events-in-view-title">
+      <h2 id="events-in-view-title" className="text-lg font-semibold">
+        Events in view
+      </h2>
+      {view === null ? (
+        <p className="text-sm text-slate-ft">{loading ? "Loading the events…" : "The events could not be loaded."}</p>
+      ) : view.total === 0 ? (
+        <p className="text-sm text-slate-ft" data-testid="events-in-view-count">
+          No events in view. Zoom out or move the map.
+        </p>
+      ) : (
+        <div className="overflow-x-auto">
+          <table className="data-table" data-testid="events-in-view">
+            <caption className="text-left text-sm text-slate-ft" data-testid="events-in-view-count">
+              {view.total === 1 ? "1 event" : `${view.total} events`} within the map and filters, most concentrate first
+              {more > 0 ? `; the first ${view.rows.length} are listed` : ""}.
+            </caption>
+            <thead>
+              <tr>
+                <th scope="col">Event</th>
+                <th scope="col">Date</th>
+                <th scope="col">Kind</th>
+                <th scope="col">Foam class</th>
+                <th scope="col">PFAS</th>
+                <th scope="col" className="text-right">
+                  Concentrate (US gal)
+                </th>
+                <th scope="col">Drainage basin</th>
+                <th scope="col">
+                  <span className="sr-only">On the map</span>
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {view.rows.map(({ event }) => (
+                <tr key={event.id}>
+                  <th scope="row" className="font-normal">
+                    <Link to={event.url} className="font-semibold text-pond-700 underline">
+                      {event.number}
+                    </Link>
+                  </th>
+                  <td>{date(event.startedAt)}</td>
+                  <td>{KIND_LABELS[event.kind] ?? event.kind}</td>
+                  <td>{event.foamClass === "none" ? "No foam" : `Class ${event.foamClass}`}</td>
+                  <td className={event.pfasContaining ? "font-semibold text-danger-700" : undefined}>
+                    {event.pfasContaining ? "PFAS-containing" : "No"}
+                  </td>
+                  <td className="text-right tabular-nums">{gal(event.concentrateGal)}</td>
+                  <td>{event.drainageBasin ?? "Outside the basins"}</td>
+                  <td>
+                    <button
+                      type="button"
+                      className="btn-quiet"
+                      onClick={() => onShow(event.id)}
+                      aria-label={`Show on map: ${event.number}`}
+                    >
+                      Show on map
+                    </button>
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          {more > 0 ? (
+            <p className="mt-1 text-sm text-slate-ft" data-testid="events-in-view-more">
+              and {more} more. Zoom in or narrow the filters to list them.
+            </p>
+          ) : null}
+        </div>
+      )}
+    </section>
+  );
+}
