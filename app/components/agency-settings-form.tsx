@@ -163,7 +163,7 @@ export function AgencySettingsForm({
       : null;
   const nameProps = getInputProps(fields.name, { type: "text" });
   const zoneProps = getInputProps(fields.timeZone, { type: "text", ariaDescribedBy: `${fields.timeZone.id}-hint` });
-  const unitProps = getSelectProps(fields.displayUnits);
+  const unitProps = getSelectProps(fields.displayUnits, { ariaDescribedBy: `${fields.displayUnits.id}-hint` });
 
   return (
     <Form method="post" className="space-y-6" {...getFormProps(form)}>
@@ -219,6 +219,9 @@ export function AgencySettingsForm({
             <label htmlFor={fields.displayUnits.id} className="field-label">
               Units shown first
             </label>
+            <Hint id={`${fields.displayUnits.id}-hint`}>
+              Pages and exports show US gallons with litres beside them today; this choice is kept for the order.
+            </Hint>
             <select {...unitProps} key={unitProps.key} className="field-input max-w-sm">
               {DISPLAY_UNITS.map((unit) => (
                 <option key={unit} value={unit}>
