@@ -1,6 +1,7 @@
 import { recordAudit } from "~/lib/audit.server";
 import type { SessionUser } from "~/lib/auth.server";
 import type { ApparatusFormValue, StationFormValue } from "~/lib/catalogue/apparatus-form";
+import { StaleRecordError } from "~/lib/catalogue/record-version";
 import { db } from "~/lib/db.server";
 import { numberOrNull, type OutletDefaults } from "./catalogue.server";
 
@@ -12,6 +13,7 @@ export type StationRecord = {
   latitude: number | null;
   longitude: number | null;
   active: boolean;
+  version: number;
 };
 
 function stationOf(row: Record<string, unknown>): StationRecord {
@@ -23,6 +25,7 @@ function stationOf(row: Record<string, unknown>): StationRecord {
     latitude: numberOrNull(row.latitude),
     longitude: numberOrNull(row.longitude),
     active: Boolean(row.active),
+    version: Number(row.version ?? 1),
   };
 }
 
@@ -39,6 +42,7 @@ export type ApparatusRecord = {
   compressedAirCfm: number | null;
   active: boolean;
   outlets: OutletDefaults[];
+  version: number;
 };
 
 function apparatusOf(row: Record<string, unknown>, outlets: Array<Record<string, unknown>>): ApparatusRecord {
@@ -63,6 +67,7 @@ function apparatusOf(row: Record<string, unknown>, outlets: Array<Record<string,
         defaultFlowBasis: outlet.default_flow_basis === "solution" ? "solution" : "water",
         defaultMethod: (outlet.default_method as OutletDefaults["defaultMethod"]) ?? null,
       })),
+    version: Number(row.version ?? 1),
   };
 }
 
@@ -101,14 +106,23 @@ export async function getApparatus(id: number): Promise<ApparatusRecord | null> 
 export class DuplicateCodeError extends Error {}
 export class UnknownStationError extends Error {}
 
-/** Creates (id null) or updates a station with its audit row; null when the station does not exist. */
+/**
+ * Creates (id null) or updates a station with its audit row; null when the station does not exist.
+ * An update names the version it was opened with; a stale one throws StaleRecordError.
+ */
 export async function saveStation(
   id: number | null,
+  expectedVersion: number | null,
   value: StationFormValue,
   actor: SessionUser,
   clientAddress?: string,
 ): Promise<number | null> {
   return db.transaction(async (trx) => {
+    const current = id == null ? null : await trx("stations").where({ id }).forUpdate().first();
+    if (id != null && !current) return null;
+    if (current && Number(current.version) !== expectedVersion) {
+      throw new StaleRecordError(Number(current.version), expectedVersion);
+    }
     const clash = await trx("stations")
       .where({ code: value.code })
       .modify((query) => {
@@ -129,10 +143,10 @@ export async function saveStation(
     if (id == null) {
       [savedId] = await trx("stations").insert(columns);
     } else {
-      const row = await trx("stations").where({ id }).forUpdate().first();
-      if (!row) return null;
-      before = stationOf(row);
-      await trx("stations").where({ id }).update(columns);
+      before = stationOf(current!);
+      await trx("stations")
+        .where({ id, version: expectedVersion })
+        .update({ ...columns, version: Number(current!.version) + 1 });
       savedId = id;
     }
     await recordAudit(
@@ -155,15 +169,22 @@ export async function saveStation(
 
 /**
  * Creates (id null) or updates an apparatus, its foam system and its outlets (replaced as a set)
- * with one audit row, in one transaction. Null when the apparatus does not exist.
+ * with one audit row, in one transaction. Null when the apparatus does not exist. An update names
+ * the version it was opened with; a stale one throws StaleRecordError.
  */
 export async function saveApparatus(
   id: number | null,
+  expectedVersion: number | null,
   value: ApparatusFormValue,
   actor: SessionUser,
   clientAddress?: string,
 ): Promise<number | null> {
   return db.transaction(async (trx) => {
+    const current = id == null ? null : await trx("apparatus").where({ id }).forUpdate().first();
+    if (id != null && !current) return null;
+    if (current && Number(current.version) !== expectedVersion) {
+      throw new StaleRecordError(Number(current.version), expectedVersion);
+    }
     const clash = await trx("apparatus")
       .where({ unit_id: value.unitId })
       .modify((query) => {
@@ -190,11 +211,11 @@ export async function saveApparatus(
     if (id == null) {
       [savedId] = await trx("apparatus").insert(columns);
     } else {
-      const row = await trx("apparatus").where({ id }).forUpdate().first();
-      if (!row) return null;
       const outlets = await trx("apparatus_outlets").where({ apparatus_id: id }).orderBy("id");
-      before = apparatusOf(row, outlets);
-      await trx("apparatus").where({ id }).update(columns);
+      before = apparatusOf(current!, outlets);
+      await trx("apparatus")
+        .where({ id, version: expectedVersion })
+        .update({ ...columns, version: Number(current!.version) + 1 });
       await trx("apparatus_outlets").where({ apparatus_id: id }).delete();
       savedId = id;
     }

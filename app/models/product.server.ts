@@ -2,6 +2,7 @@ import { randomUUID } from "node:crypto";
 import { recordAudit } from "~/lib/audit.server";
 import type { SessionUser } from "~/lib/auth.server";
 import type { FoamType, PfasContentUnit, ProductFormValue } from "~/lib/catalogue/product-form";
+import { StaleRecordError } from "~/lib/catalogue/record-version";
 import { db } from "~/lib/db.server";
 import type { FoamClass } from "~/lib/foam/totals";
 import { deleteObjectQuietly, putObject } from "~/lib/storage.server";
@@ -24,6 +25,8 @@ export type ProductRecord = {
   hasSafetySheet: boolean;
   active: boolean;
   notes: string | null;
+  /** Raised by every save; an edit must name the version it started from. */
+  version: number;
 };
 
 function recordOf(row: Record<string, unknown>): ProductRecord {
@@ -44,6 +47,7 @@ function recordOf(row: Record<string, unknown>): ProductRecord {
     hasSafetySheet: Boolean(row.safety_sheet_key),
     active: Boolean(row.active),
     notes: (row.notes as string | null) ?? null,
+    version: Number(row.version ?? 1),
   };
 }
 
@@ -89,10 +93,12 @@ export type SafetySheetUpload = { name: string; contentType: string; body: Uint8
 /**
  * Creates (id null) or updates a product with its audit row in one transaction. A new safety sheet
  * is stored first; if the database save then fails, the stored file is removed again.
- * Returns the id, or null when the product to update does not exist.
+ * An update must name the version it was opened with (`expectedVersion`); a stale or missing one
+ * throws StaleRecordError and changes nothing. Returns the id, or null when the product does not exist.
  */
 export async function saveProduct(
   id: number | null,
+  expectedVersion: number | null,
   value: ProductFormValue,
   safetySheet: SafetySheetUpload | null,
   actor: SessionUser,
@@ -105,6 +111,11 @@ export async function saveProduct(
   }
   try {
     return await db.transaction(async (trx) => {
+      const current = id == null ? null : await trx("foam_products").where({ id }).forUpdate().first();
+      if (id != null && !current) return null;
+      if (current && Number(current.version) !== expectedVersion) {
+        throw new StaleRecordError(Number(current.version), expectedVersion);
+      }
       const clash = await trx("foam_products")
         .where({ name: value.name })
         .modify((query) => {
@@ -121,10 +132,10 @@ export async function saveProduct(
       if (id == null) {
         [savedId] = await trx("foam_products").insert(columns);
       } else {
-        const row = await trx("foam_products").where({ id }).forUpdate().first();
-        if (!row) return null;
-        before = recordOf(row);
-        await trx("foam_products").where({ id }).update(columns);
+        before = recordOf(current!);
+        await trx("foam_products")
+          .where({ id, version: expectedVersion })
+          .update({ ...columns, version: Number(current!.version) + 1 });
         savedId = id;
       }
       const after = recordOf((await trx("foam_products").where({ id: savedId }).first())!);

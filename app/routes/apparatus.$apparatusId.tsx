@@ -7,6 +7,7 @@ import { FormErrors, TextField } from "~/components/form-fields";
 import { requireUser } from "~/lib/auth.server";
 import { ApparatusFormSchema } from "~/lib/catalogue/apparatus-form";
 import { APPLICATION_METHOD_LABELS, APPLICATION_METHODS, FLOW_BASES, FLOW_BASIS_LABELS } from "~/lib/foam/vocabulary";
+import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import {
@@ -43,12 +44,16 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request, [...MANAGERS]);
   const id = apparatusIdOf(params);
-  const submission = parseWithZod(await request.formData(), { schema: ApparatusFormSchema });
+  const formData = await request.formData();
+  const submission = parseWithZod(formData, { schema: ApparatusFormSchema });
   if (submission.status !== "success") return data({ result: submission.reply() }, { status: 400 });
   try {
-    const saved = await saveApparatus(id, submission.value, user, clientAddress(request));
+    const saved = await saveApparatus(id, submittedVersion(formData), submission.value, user, clientAddress(request));
     invariantResponse(saved, "No such apparatus.");
   } catch (error) {
+    if (error instanceof StaleRecordError) {
+      return data({ result: submission.reply({ formErrors: [staleRecordMessage("apparatus")] }) }, { status: 409 });
+    }
     if (error instanceof DuplicateCodeError) {
       return data(
         { result: submission.reply({ fieldErrors: { unitId: ["Another apparatus has this unit identifier."] } }) },
@@ -109,6 +114,9 @@ export default function ApparatusPage({ loaderData, actionData }: Route.Componen
       <h1 className="text-2xl font-bold">{apparatus ? `Apparatus ${apparatus.unitId}` : "Add apparatus"}</h1>
       <Form method="post" className="space-y-6" {...getFormProps(form)}>
         <FormErrors id={form.errorId} errors={form.errors} />
+        {apparatus ? (
+          <input type="hidden" name="version" value={formVersion(actionData?.result, apparatus.version)} />
+        ) : null}
         <section className="card space-y-4" aria-labelledby="unit-title">
           <h2 id="unit-title" className="text-lg font-semibold">
             Unit

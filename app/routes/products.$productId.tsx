@@ -14,6 +14,7 @@ import {
   ProductFormSchema,
   SAFETY_SHEET_MAX_BYTES,
 } from "~/lib/catalogue/product-form";
+import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { hasRole } from "~/lib/roles";
 import { flashHeaders } from "~/lib/session.server";
@@ -79,8 +80,11 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
   let savedId: number | null;
   try {
-    savedId = await saveProduct(id, submission.value, sheet, user, clientAddress(request));
+    savedId = await saveProduct(id, submittedVersion(formData), submission.value, sheet, user, clientAddress(request));
   } catch (error) {
+    if (error instanceof StaleRecordError) {
+      return data({ result: submission.reply({ formErrors: [staleRecordMessage("product")] }) }, { status: 409 });
+    }
     if (error instanceof DuplicateProductNameError) {
       return data(
         { result: submission.reply({ fieldErrors: { name: ["Another product already has this name."] } }) },
@@ -157,6 +161,9 @@ export default function ProductPage({ loaderData, actionData }: Route.ComponentP
       </div>
       <Form method="post" encType="multipart/form-data" className="card space-y-4" {...getFormProps(form)}>
         <FormErrors id={form.errorId} errors={form.errors} />
+        {product ? (
+          <input type="hidden" name="version" value={formVersion(actionData?.result, product.version)} />
+        ) : null}
         <fieldset disabled={readOnly} className="space-y-4">
           <TextField label="Name" field={fields.name} autoComplete="off" />
           <TextField label="Maker" field={fields.maker} autoComplete="off" />

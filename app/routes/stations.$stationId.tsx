@@ -6,6 +6,7 @@ import { CheckboxField } from "~/components/catalogue-fields";
 import { FormErrors, TextField } from "~/components/form-fields";
 import { requireUser } from "~/lib/auth.server";
 import { StationFormSchema } from "~/lib/catalogue/apparatus-form";
+import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { DuplicateCodeError, getStation, saveStation } from "~/models/apparatus.server";
@@ -35,12 +36,16 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request, [...MANAGERS]);
   const id = stationIdOf(params);
-  const submission = parseWithZod(await request.formData(), { schema: StationFormSchema });
+  const formData = await request.formData();
+  const submission = parseWithZod(formData, { schema: StationFormSchema });
   if (submission.status !== "success") return data({ result: submission.reply() }, { status: 400 });
   try {
-    const saved = await saveStation(id, submission.value, user, clientAddress(request));
+    const saved = await saveStation(id, submittedVersion(formData), submission.value, user, clientAddress(request));
     invariantResponse(saved, "No such station.");
   } catch (error) {
+    if (error instanceof StaleRecordError) {
+      return data({ result: submission.reply({ formErrors: [staleRecordMessage("station")] }) }, { status: 409 });
+    }
     if (!(error instanceof DuplicateCodeError)) throw error;
     return data(
       { result: submission.reply({ fieldErrors: { code: ["Another station has this code."] } }) },
@@ -81,6 +86,9 @@ export default function StationPage({ loaderData, actionData }: Route.ComponentP
       <h1 className="text-2xl font-bold">{station ? `Station ${station.code}` : "Add a station"}</h1>
       <Form method="post" className="card space-y-4" {...getFormProps(form)}>
         <FormErrors id={form.errorId} errors={form.errors} />
+        {station ? (
+          <input type="hidden" name="version" value={formVersion(actionData?.result, station.version)} />
+        ) : null}
         <TextField label="Code" field={fields.code} hint="Short, e.g. S1." autoComplete="off" />
         <TextField label="Name" field={fields.name} autoComplete="off" />
         <TextField label="Address" field={fields.address} autoComplete="off" />

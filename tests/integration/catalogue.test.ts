@@ -115,7 +115,14 @@ describe("foam products", () => {
         routeArgs(
           multipartRequest(
             `/products/${product.id}`,
-            { name: product.name, foamClass: "B", foamType: "f3", nominalPercents: "3", unitCostPerGal: "44.25" },
+            {
+              name: product.name,
+              foamClass: "B",
+              foamType: "f3",
+              nominalPercents: "3",
+              unitCostPerGal: "44.25",
+              version: "1",
+            },
             cookie,
           ),
           { productId: String(product.id) },
@@ -214,7 +221,7 @@ describe("foam products", () => {
         routeArgs(
           multipartRequest(
             `/products/${other.id}`,
-            { name: existing.name, foamClass: "B", foamType: "f3", nominalPercents: "3, 6" },
+            { name: existing.name, foamClass: "B", foamType: "f3", nominalPercents: "3, 6", version: "1" },
             cookie,
           ),
           { productId: String(other.id) },
@@ -436,6 +443,140 @@ describe("stations and apparatus", () => {
     );
     expect(replyOf(clash.value).error.code?.[0]).toMatch(/Another station/);
     expect(await countOf("stations", { code: existing.code })).toBe(1);
+  });
+});
+
+describe("two people editing one catalogue record", () => {
+  const formError = (value: unknown) => replyOf(value).error[""]?.[0];
+  const typedValue = (value: unknown) =>
+    (value as { data: { result: { initialValue?: Record<string, unknown> } } }).data.result.initialValue ?? {};
+  const auditCount = (entityType: string, id: number) =>
+    countOf("audit_events", { entity_type: entityType, entity_id: String(id) });
+
+  it("refuses a product save from a stale page with 409, keeps the typing and changes nothing", async () => {
+    const { cookie } = await signedIn(["environmental"]);
+    const product = await makeProductRow({ unitCostPerGal: 30 });
+    const save = (fields: Record<string, string>) =>
+      settle(() =>
+        productAction(
+          routeArgs(
+            multipartRequest(
+              `/products/${product.id}`,
+              { name: product.name, foamClass: "B", foamType: "f3", nominalPercents: "3", active: "on", ...fields },
+              cookie,
+            ),
+            { productId: String(product.id) },
+          ),
+        ),
+      );
+    // Both pages were opened at version 1; the first save wins and raises the version.
+    expect(statusOf((await save({ unitCostPerGal: "41", version: "1" })).value)).toBe(302);
+    const saved = await db("foam_products").where({ id: product.id }).first();
+    expect(saved.version).toBe(2);
+    const audits = await auditCount("foam_product", product.id);
+
+    const stale = (await save({ unitCostPerGal: "99.5", notes: "Second person's note (test)", version: "1" })).value;
+    expect(statusOf(stale)).toBe(409);
+    expect(formError(stale)).toMatch(/Someone else saved this product after you opened it/);
+    expect(typedValue(stale)).toMatchObject({ unitCostPerGal: "99.5", notes: "Second person's note (test)" });
+    // A form without its version is refused the same way.
+    const missing = (await save({ unitCostPerGal: "12" })).value;
+    expect(statusOf(missing)).toBe(409);
+
+    expect(await db("foam_products").where({ id: product.id }).first()).toEqual(saved);
+    expect(Number(saved.unit_cost_per_gal)).toBe(41);
+    expect(await auditCount("foam_product", product.id)).toBe(audits);
+
+    // The page reloaded at version 2 saves.
+    expect(statusOf((await save({ unitCostPerGal: "99.5", version: "2" })).value)).toBe(302);
+    expect(Number((await db("foam_products").where({ id: product.id }).first()).unit_cost_per_gal)).toBe(99.5);
+  });
+
+  it("keeps a stale page's new safety sheet out of the record", async () => {
+    const { cookie } = await signedIn(["environmental"]);
+    const product = await makeProductRow({ safetySheetKey: "safety-sheets/first.pdf", safetySheetName: "first.pdf" });
+    await db("foam_products").where({ id: product.id }).update({ version: 4 });
+    const file = new File([PDF_BYTES], "stale.pdf", { type: "application/pdf" });
+    const outcome = await settle(() =>
+      productAction(
+        routeArgs(
+          multipartRequest(
+            `/products/${product.id}`,
+            { name: product.name, foamClass: "B", foamType: "f3", nominalPercents: "3", version: "3" },
+            cookie,
+            file,
+          ),
+          { productId: String(product.id) },
+        ),
+      ),
+    );
+    expect(statusOf(outcome.value)).toBe(409);
+    const row = await db("foam_products").where({ id: product.id }).first();
+    expect(row).toMatchObject({
+      safety_sheet_key: "safety-sheets/first.pdf",
+      safety_sheet_name: "first.pdf",
+      version: 4,
+    });
+  });
+
+  it("refuses an apparatus save from a stale page, leaving the unit and its outlets as the first save left them", async () => {
+    const { cookie } = await signedIn(["chief"]);
+    const unit = await makeApparatusRow({ waterFlowMaxGpm: 200, outlets: [{ name: "Reel", defaultFlowGpm: 20 }] });
+    const save = (fields: Record<string, string>) =>
+      settle(() =>
+        apparatusAction(
+          routeArgs(
+            formRequest(`/apparatus/${unit.id}`, { unitId: unit.unitId, active: "on", ...fields }, { Cookie: cookie }),
+            {
+              apparatusId: String(unit.id),
+            },
+          ),
+        ),
+      );
+    expect(statusOf((await save({ waterFlowMaxGpm: "250", "outlets[0].name": "Crosslay", version: "1" })).value)).toBe(
+      302,
+    );
+    const saved = await db("apparatus").where({ id: unit.id }).first();
+    const audits = await auditCount("apparatus", unit.id);
+
+    const stale = (
+      await save({ waterFlowMaxGpm: "500", "outlets[0].name": "Monitor", "outlets[1].name": "Reel", version: "1" })
+    ).value;
+    expect(statusOf(stale)).toBe(409);
+    expect(formError(stale)).toMatch(/Someone else saved this apparatus/);
+    expect(typedValue(stale)).toMatchObject({ waterFlowMaxGpm: "500" });
+    expect(await db("apparatus").where({ id: unit.id }).first()).toEqual(saved);
+    expect(saved.version).toBe(2);
+    expect(Number(saved.water_flow_max_gpm)).toBe(250);
+    expect(await db("apparatus_outlets").where({ apparatus_id: unit.id }).pluck("name")).toEqual(["Crosslay"]);
+    expect(await auditCount("apparatus", unit.id)).toBe(audits);
+  });
+
+  it("refuses a station save from a stale page and changes nothing", async () => {
+    const { cookie } = await signedIn(["chief"]);
+    const station = await makeStationRow();
+    const save = (fields: Record<string, string>) =>
+      settle(() =>
+        stationAction(
+          routeArgs(
+            formRequest(`/stations/${station.id}`, { code: station.code, active: "on", ...fields }, { Cookie: cookie }),
+            {
+              stationId: String(station.id),
+            },
+          ),
+        ),
+      );
+    expect(statusOf((await save({ name: "First name (test)", version: "1" })).value)).toBe(302);
+    const saved = await db("stations").where({ id: station.id }).first();
+    const audits = await auditCount("station", station.id);
+
+    const stale = (await save({ name: "Second name (test)", version: "1" })).value;
+    expect(statusOf(stale)).toBe(409);
+    expect(formError(stale)).toMatch(/Someone else saved this station/);
+    expect(typedValue(stale)).toMatchObject({ name: "Second name (test)" });
+    expect(await db("stations").where({ id: station.id }).first()).toEqual(saved);
+    expect(saved).toMatchObject({ name: "First name (test)", version: 2 });
+    expect(await auditCount("station", station.id)).toBe(audits);
   });
 });
 
