@@ -1,4 +1,5 @@
 import { expect, signInAs, test } from "../support/e2e";
+import { testKnex } from "../support/test-database";
 
 const PDF = Buffer.from("%PDF-1.4\n% demo safety sheet for an end-to-end test\n1 0 obj <<>> endobj\n%%EOF\n");
 
@@ -80,6 +81,35 @@ test.describe("the foam catalogue", () => {
     await expect(row).toContainText("1.8 gpm concentrate");
     await expect(row).toContainText("10–300 gpm");
     await expect(row).toContainText("Crosslay 1, Rear discharge");
+  });
+
+  test("a save from a page opened before someone else's save is refused, keeping the typing", async ({
+    page,
+    consoleErrors,
+  }) => {
+    consoleErrors.allow(/status of 409/);
+    const knex = testKnex();
+    const code = `Q${Date.now() % 100000}`;
+    const [stationId] = await knex("stations").insert({ code, name: "Two editors (test)", address: "", active: true });
+    await knex.destroy();
+    await signInAs(page, "chief");
+    const other = await page.context().newPage();
+    await page.goto(`/stations/${stationId}`);
+    await other.goto(`/stations/${stationId}`);
+
+    await other.getByLabel("Name").fill("Saved first (test)");
+    await other.getByRole("button", { name: "Save station" }).click();
+    await expect(other.getByRole("status")).toContainText(`Saved station ${code}.`);
+
+    await page.getByLabel("Name").fill("Typed second (test)");
+    await page.getByRole("button", { name: "Save station" }).click();
+    await expect(page.getByRole("alert")).toContainText("Someone else saved this station after you opened it");
+    await expect(page.getByLabel("Name")).toHaveValue("Typed second (test)");
+    // Saving again from the same stale page is still refused; the first save stands.
+    await page.getByRole("button", { name: "Save station" }).click();
+    await expect(page.getByRole("alert")).toContainText("your changes were not saved");
+    await page.reload();
+    await expect(page.getByLabel("Name")).toHaveValue("Saved first (test)");
   });
 
   test("an officer cannot open the catalogue pages", async ({ page, consoleErrors }) => {
