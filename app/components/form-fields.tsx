@@ -1,4 +1,8 @@
-import { getInputProps, type FieldMetadata } from "@conform-to/react";
+import { getInputProps, getSelectProps, getTextareaProps, type FieldMetadata } from "@conform-to/react";
+
+// Any field of any form: the inputs below only need its name, id, errors and initial value.
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+type AnyField = FieldMetadata<any, any, any>;
 
 export function ErrorList({ id, errors }: { id?: string; errors?: string[] | null }) {
   if (!errors?.length) return null;
@@ -8,6 +12,41 @@ export function ErrorList({ id, errors }: { id?: string; errors?: string[] | nul
         <li key={error}>{error}</li>
       ))}
     </ul>
+  );
+}
+
+/** The id of a field's hint, for aria-describedby; undefined when there is no hint. */
+const hintIdOf = (field: AnyField, hint: string | undefined) => (hint ? `${field.id}-hint` : undefined);
+
+function FieldHint({ field, hint }: { field: AnyField; hint?: string }) {
+  return hint ? (
+    <p id={hintIdOf(field, hint)} className="text-xs text-slate-ft">
+      {hint}
+    </p>
+  ) : null;
+}
+
+/** A label above its hint, the control and the field's errors. */
+function LabelledField({
+  label,
+  field,
+  hint,
+  children,
+}: {
+  label: string;
+  field: AnyField;
+  hint?: string;
+  children: React.ReactNode;
+}) {
+  return (
+    <div>
+      <label htmlFor={field.id} className="field-label">
+        {label}
+      </label>
+      <FieldHint field={field} hint={hint} />
+      {children}
+      <ErrorList id={field.errorId} errors={field.errors} />
+    </div>
   );
 }
 
@@ -23,18 +62,85 @@ export function TextField({
   type?: "text" | "email" | "password" | "number" | "datetime-local" | "date";
   hint?: string;
 } & Omit<React.InputHTMLAttributes<HTMLInputElement>, "type">) {
-  const props = getInputProps(field, { type, ariaDescribedBy: hint ? `${field.id}-hint` : undefined });
+  const props = getInputProps(field, { type, ariaDescribedBy: hintIdOf(field, hint) });
+  return (
+    <LabelledField label={label} field={field} hint={hint}>
+      <input {...props} {...rest} key={props.key} className="field-input" />
+    </LabelledField>
+  );
+}
+
+export function SelectField({
+  label,
+  field,
+  options,
+  hint,
+  placeholder,
+  disabled,
+}: {
+  label: string;
+  field: AnyField;
+  options: Array<{ value: string; label: string }>;
+  hint?: string;
+  placeholder?: string;
+  disabled?: boolean;
+}) {
+  const props = getSelectProps(field, { ariaDescribedBy: hintIdOf(field, hint) });
+  return (
+    <LabelledField label={label} field={field} hint={hint}>
+      <select {...props} key={props.key} className="field-input" disabled={disabled}>
+        {placeholder !== undefined ? <option value="">{placeholder}</option> : null}
+        {options.map((option) => (
+          <option key={option.value} value={option.value}>
+            {option.label}
+          </option>
+        ))}
+      </select>
+    </LabelledField>
+  );
+}
+
+export function TextAreaField({
+  label,
+  field,
+  hint,
+  rows = 3,
+  disabled,
+}: {
+  label: string;
+  field: AnyField;
+  hint?: string;
+  rows?: number;
+  disabled?: boolean;
+}) {
+  const props = getTextareaProps(field, { ariaDescribedBy: hintIdOf(field, hint) });
+  return (
+    <LabelledField label={label} field={field} hint={hint}>
+      <textarea {...props} key={props.key} rows={rows} className="field-input" disabled={disabled} />
+    </LabelledField>
+  );
+}
+
+/** A checkbox inside its label (a large target), the hint and errors below. */
+export function CheckboxField({
+  label,
+  field,
+  hint,
+  disabled,
+}: {
+  label: string;
+  field: AnyField;
+  hint?: string;
+  disabled?: boolean;
+}) {
+  const props = getInputProps(field, { type: "checkbox", ariaDescribedBy: hintIdOf(field, hint) });
   return (
     <div>
-      <label htmlFor={field.id} className="field-label">
+      <label className="flex min-h-11 items-center gap-2 font-medium">
+        <input {...props} key={props.key} className="h-5 w-5" disabled={disabled} />
         {label}
       </label>
-      {hint ? (
-        <p id={`${field.id}-hint`} className="text-xs text-slate-ft">
-          {hint}
-        </p>
-      ) : null}
-      <input {...props} {...rest} key={props.key} className="field-input" />
+      <FieldHint field={field} hint={hint} />
       <ErrorList id={field.errorId} errors={field.errors} />
     </div>
   );

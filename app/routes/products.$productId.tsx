@@ -2,8 +2,7 @@ import { getFormProps, getInputProps, useForm } from "@conform-to/react";
 import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/products.$productId";
-import { CheckboxField, SelectField, TextAreaField } from "~/components/catalogue-fields";
-import { ErrorList, FormErrors, TextField } from "~/components/form-fields";
+import { CheckboxField, ErrorList, FormErrors, SelectField, TextAreaField, TextField } from "~/components/form-fields";
 import { requireUser } from "~/lib/auth.server";
 import {
   FOAM_TYPE_LABELS,
