@@ -174,6 +174,16 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
             control={mapControl}
           />
           <MapKey />
+          <EventsInViewTable
+            view={listed}
+            timeZone={loaderData.timeZone}
+            loading={mappedEvents === undefined}
+            onShow={(eventId) => {
+              if (mapControl.current?.showEvent(eventId)) {
+                document.querySelector("[data-testid=usage-map]")?.scrollIntoView({ block: "nearest" });
+              }
+            }}
+          />
         </div>
 
         <aside className="card space-y-4" aria-labelledby="in-view-title">
@@ -242,16 +252,6 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
           <ConcentrateByStationChart rows={summary.byStation} />
         </aside>
       </div>
-      <EventsInViewTable
-        view={listed}
-        timeZone={loaderData.timeZone}
-        loading={mappedEvents === undefined}
-        onShow={(eventId) => {
-          if (mapControl.current?.showEvent(eventId)) {
-            document.querySelector("[data-testid=usage-map]")?.scrollIntoView({ block: "nearest" });
-          }
-        }}
-      />
     </div>
   );
 }
