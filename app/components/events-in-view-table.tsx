@@ -65,14 +65,16 @@ export function EventsInViewTable({
             <tbody>
               {view.rows.map(({ event }) => (
                 <tr key={event.id}>
-                  <th scope="row" className="font-normal">
+                  <th scope="row" className="border-b border-stone-200 font-normal whitespace-nowrap">
                     <Link to={event.url} className="font-semibold text-pond-700 underline">
                       {event.number}
                     </Link>
                   </th>
-                  <td>{date(event.startedAt)}</td>
+                  <td className="whitespace-nowrap">{date(event.startedAt)}</td>
                   <td>{KIND_LABELS[event.kind] ?? event.kind}</td>
-                  <td>{event.foamClass === "none" ? "No foam" : `Class ${event.foamClass}`}</td>
+                  <td className="whitespace-nowrap">
+                    {event.foamClass === "none" ? "No foam" : `Class ${event.foamClass}`}
+                  </td>
                   <td className={event.pfasContaining ? "font-semibold text-danger-700" : undefined}>
                     {event.pfasContaining ? "PFAS-containing" : "No"}
                   </td>
@@ -81,7 +83,7 @@ export function EventsInViewTable({
                   <td>
                     <button
                       type="button"
-                      className="btn-quiet"
+                      className="btn-quiet whitespace-nowrap"
                       onClick={() => onShow(event.id)}
                       aria-label={`Show on map: ${event.number}`}
                     >
