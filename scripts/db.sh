@@ -92,6 +92,7 @@ recreate() {
 
 case "${1:-up}" in
   up) up ;;
+  status) running ;;
   recreate) recreate "${2:-}" ;;
   is-empty) up >/dev/null; n="$(client -N -e "SELECT COUNT(*) FROM \`${DB_NAME:-foamtally}\`.users" 2>/dev/null || echo 0)"; [ "$n" = "0" ] ;;
   stop) stop ;;

@@ -26,8 +26,14 @@ if [ ! -x /usr/bin/chromium ]; then
   fi
 fi
 
+# Stop at the end only what this run started: a MariaDB already running is left running.
+db_was_running=false
+bash scripts/db.sh status && db_was_running=true
 bash scripts/db.sh up
-cleanup() { bash scripts/fakes.sh stop || true; }
+cleanup() {
+  bash scripts/fakes.sh stop || true
+  if [ "$db_was_running" = false ]; then bash scripts/db.sh stop || true; fi
+}
 trap cleanup EXIT
 
 step() { printf '\n== %s ==\n' "$1"; }
