@@ -58,7 +58,7 @@ export function TextField({
   ...rest
 }: {
   label: string;
-  field: FieldMetadata<string | number | undefined | null>;
+  field: AnyField;
   type?: "text" | "email" | "password" | "number" | "datetime-local" | "date";
   hint?: string;
 } & Omit<React.InputHTMLAttributes<HTMLInputElement>, "type">) {
@@ -77,6 +77,7 @@ export function SelectField({
   hint,
   placeholder,
   disabled,
+  onChange,
 }: {
   label: string;
   field: AnyField;
@@ -84,11 +85,12 @@ export function SelectField({
   hint?: string;
   placeholder?: string;
   disabled?: boolean;
+  onChange?: (event: React.ChangeEvent<HTMLSelectElement>) => void;
 }) {
   const props = getSelectProps(field, { ariaDescribedBy: hintIdOf(field, hint) });
   return (
     <LabelledField label={label} field={field} hint={hint}>
-      <select {...props} key={props.key} className="field-input" disabled={disabled}>
+      <select {...props} key={props.key} className="field-input" disabled={disabled} onChange={onChange}>
         {placeholder !== undefined ? <option value="">{placeholder}</option> : null}
         {options.map((option) => (
           <option key={option.value} value={option.value}>

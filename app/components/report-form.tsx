@@ -1,12 +1,4 @@
-import {
-  getFormProps,
-  getInputProps,
-  getSelectProps,
-  getTextareaProps,
-  useForm,
-  type FieldMetadata,
-  type SubmissionResult,
-} from "@conform-to/react";
+import { getFormProps, getInputProps, getTextareaProps, useForm, type SubmissionResult } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { useEffect, useMemo, useRef } from "react";
 import { Form, useFetcher, useNavigation } from "react-router";
@@ -27,7 +19,7 @@ import {
 } from "~/lib/foam/report-schema";
 import type { UsageWarning } from "~/lib/foam/totals";
 import { EventLocationMap } from "./event-location-map";
-import { ErrorList, FormErrors } from "./form-fields";
+import { ErrorList, FormErrors, SelectField, TextField } from "./form-fields";
 import { UsageCautions } from "./usage-cautions";
 
 export type ProductOption = {
@@ -181,26 +173,26 @@ export function ReportForm(props: ReportFormProps) {
           Event
         </h2>
         <div className="grid gap-4 md:grid-cols-3">
-          <Field label="Event number" field={fields.number} hint="Dispatch or training number." />
+          <TextField label="Event number" field={fields.number} hint="Dispatch or training number." />
           <SelectField
             label="Kind"
             field={fields.kind}
-            options={EVENT_KINDS.map((kind) => [kind, EVENT_KIND_LABELS[kind]])}
+            options={choices(EVENT_KINDS.map((kind) => [kind, EVENT_KIND_LABELS[kind]]))}
           />
           <SelectField
             label="Station"
             field={fields.stationId}
             placeholder="Choose the station"
-            options={props.stations.map((station) => [String(station.id), `${station.code} ${station.name}`])}
+            options={choices(props.stations.map((station) => [String(station.id), `${station.code} ${station.name}`]))}
           />
-          <Field
+          <TextField
             label="Started"
             field={fields.startedAt}
             type="datetime-local"
             hint={`Local time, ${props.timeZone}.`}
           />
-          <Field label="Cleared" field={fields.clearedAt} type="datetime-local" />
-          <Field label="Address or location" field={fields.address} />
+          <TextField label="Cleared" field={fields.clearedAt} type="datetime-local" />
+          <TextField label="Address or location" field={fields.address} />
         </div>
         <EventLocationMap
           defaultLatitude={fields.latitude.initialValue}
@@ -289,10 +281,9 @@ export function ReportForm(props: ReportFormProps) {
                     label="Apparatus"
                     field={row.apparatusId}
                     placeholder="Not listed / mutual aid"
-                    options={props.apparatus.map((option) => [
-                      String(option.id),
-                      `${option.unitId} ${option.description}`,
-                    ])}
+                    options={choices(
+                      props.apparatus.map((option) => [String(option.id), `${option.unitId} ${option.description}`]),
+                    )}
                     onChange={(event) => {
                       const chosen = apparatusById.get(Number(event.currentTarget.value));
                       const outlet = chosen?.outlets.find((item) => item.foamCapable) ?? chosen?.outlets[0];
@@ -328,10 +319,12 @@ export function ReportForm(props: ReportFormProps) {
                     label="Concentrate"
                     field={row.productId}
                     placeholder="Water only"
-                    options={props.products.map((option) => [
-                      String(option.id),
-                      `${option.name} (Class ${option.foamClass}${option.pfasContaining ? ", contains PFAS" : ""})`,
-                    ])}
+                    options={choices(
+                      props.products.map((option) => [
+                        String(option.id),
+                        `${option.name} (Class ${option.foamClass}${option.pfasContaining ? ", contains PFAS" : ""})`,
+                      ]),
+                    )}
                     onChange={(event) => {
                       const chosen = productsById.get(Number(event.currentTarget.value));
                       if (!chosen || values.percent) return;
@@ -341,7 +334,7 @@ export function ReportForm(props: ReportFormProps) {
                       if (suggested) form.update({ name: row.percent.name, value: String(suggested) });
                     }}
                   />
-                  <Field
+                  <TextField
                     label="Percent"
                     field={row.percent}
                     inputMode="decimal"
@@ -349,27 +342,27 @@ export function ReportForm(props: ReportFormProps) {
                       product ? `Nominal ${product.nominalPercents.join(" or ") || "—"} %` : "Blank for water only."
                     }
                   />
-                  <Field label="Flow" field={row.flow} inputMode="decimal" />
+                  <TextField label="Flow" field={row.flow} inputMode="decimal" />
                   <SelectField
                     label="Flow unit"
                     field={row.flowUnit}
-                    options={[
+                    options={choices([
                       ["gpm", "gpm"],
                       ["lpm", "L/min"],
-                    ]}
+                    ])}
                   />
-                  <SelectField label="Flow is" field={row.basis} options={Object.entries(FLOW_BASIS_LABELS)} />
+                  <SelectField label="Flow is" field={row.basis} options={choices(Object.entries(FLOW_BASIS_LABELS))} />
                   <SelectField
                     label="Method"
                     field={row.method}
                     placeholder="Choose"
-                    options={APPLICATION_METHODS.map((method) => [method, APPLICATION_METHOD_LABELS[method]])}
+                    options={choices(APPLICATION_METHODS.map((method) => [method, APPLICATION_METHOD_LABELS[method]]))}
                   />
-                  <Field label="Minutes" field={row.minutes} inputMode="decimal" hint="Or give start and end." />
-                  <Field label="Start" field={row.startedAt} type="datetime-local" />
-                  <Field label="End" field={row.endedAt} type="datetime-local" />
+                  <TextField label="Minutes" field={row.minutes} inputMode="decimal" hint="Or give start and end." />
+                  <TextField label="Start" field={row.startedAt} type="datetime-local" />
+                  <TextField label="End" field={row.endedAt} type="datetime-local" />
                   {values.method === "compressed_air" ? (
-                    <Field label="Air flow (cfm)" field={row.airFlowCfm} inputMode="decimal" />
+                    <TextField label="Air flow (cfm)" field={row.airFlowCfm} inputMode="decimal" />
                   ) : null}
                 </div>
                 <LineResult result={result} />
@@ -434,20 +427,20 @@ export function ReportForm(props: ReportFormProps) {
                   <SelectField
                     label="Went to"
                     field={row.disposition}
-                    options={DISPOSITIONS.map((value) => [value, DISPOSITION_LABELS[value]])}
+                    options={choices(DISPOSITIONS.map((value) => [value, DISPOSITION_LABELS[value]]))}
                   />
-                  <Field label="Share (%)" field={row.sharePercent} inputMode="decimal" />
-                  <Field label="Or volume (gal)" field={row.volumeGal} inputMode="decimal" />
-                  <Field label="Receiving water or drain" field={row.receivingWater} />
+                  <TextField label="Share (%)" field={row.sharePercent} inputMode="decimal" />
+                  <TextField label="Or volume (gal)" field={row.volumeGal} inputMode="decimal" />
+                  <TextField label="Receiving water or drain" field={row.receivingWater} />
                   {values.disposition === "contained" ? (
-                    <Field
+                    <TextField
                       label="Disposal record"
                       field={row.disposalReference}
                       hint="Manifest, ticket or drum number."
                     />
                   ) : null}
                   {values.disposition === "sanitary_sewer" ? (
-                    <Field label="Treatment works told" field={row.sewerNotice} hint="Who, and when." />
+                    <TextField label="Treatment works told" field={row.sewerNotice} hint="Who, and when." />
                   ) : null}
                 </div>
                 <button
@@ -493,17 +486,17 @@ export function ReportForm(props: ReportFormProps) {
                   label="Apparatus"
                   field={row.apparatusId}
                   placeholder="Choose"
-                  options={props.apparatus.map((option) => [String(option.id), option.unitId])}
+                  options={choices(props.apparatus.map((option) => [String(option.id), option.unitId]))}
                 />
                 <SelectField
                   label="Concentrate"
                   field={row.productId}
                   placeholder="Choose"
-                  options={props.products.map((option) => [String(option.id), option.name])}
+                  options={choices(props.products.map((option) => [String(option.id), option.name]))}
                 />
-                <Field label="Refilled (gal)" field={row.refillGal} inputMode="decimal" />
-                <Field label="Level before (gal)" field={row.levelBeforeGal} inputMode="decimal" />
-                <Field label="Level after (gal)" field={row.levelAfterGal} inputMode="decimal" />
+                <TextField label="Refilled (gal)" field={row.refillGal} inputMode="decimal" />
+                <TextField label="Level before (gal)" field={row.levelBeforeGal} inputMode="decimal" />
+                <TextField label="Level after (gal)" field={row.levelAfterGal} inputMode="decimal" />
                 <button
                   type="submit"
                   className="btn-quiet"
@@ -559,6 +552,11 @@ export function ReportForm(props: ReportFormProps) {
   );
 }
 
+/** Select options from [value, label] pairs. */
+function choices(pairs: Array<[string, string]>) {
+  return pairs.map(([value, label]) => ({ value, label }));
+}
+
 function LineResult({ result }: { result?: NonNullable<TotalsResponse["discharges"]>[number] }) {
   if (!result) return null;
   return (
@@ -576,71 +574,6 @@ function LineResult({ result }: { result?: NonNullable<TotalsResponse["discharge
           ))}
         </ul>
       ) : null}
-    </div>
-  );
-}
-
-function Field({
-  label,
-  field,
-  type = "text",
-  hint,
-  inputMode,
-}: {
-  label: string;
-  field: FieldMetadata<unknown>;
-  type?: "text" | "datetime-local";
-  hint?: string;
-  inputMode?: "decimal";
-}) {
-  const props = getInputProps(field as FieldMetadata<string>, {
-    type,
-    ariaDescribedBy: hint ? `${field.id}-hint` : undefined,
-  });
-  return (
-    <div>
-      <label htmlFor={field.id} className="field-label">
-        {label}
-      </label>
-      <input {...props} key={props.key} inputMode={inputMode} className="field-input" />
-      {hint ? (
-        <p id={`${field.id}-hint`} className="mt-0.5 text-xs text-slate-ft">
-          {hint}
-        </p>
-      ) : null}
-      <ErrorList id={field.errorId} errors={field.errors} />
-    </div>
-  );
-}
-
-function SelectField({
-  label,
-  field,
-  options,
-  placeholder,
-  onChange,
-}: {
-  label: string;
-  field: FieldMetadata<unknown>;
-  options: Array<[string, string]>;
-  placeholder?: string;
-  onChange?: (event: React.ChangeEvent<HTMLSelectElement>) => void;
-}) {
-  const props = getSelectProps(field as FieldMetadata<string>);
-  return (
-    <div>
-      <label htmlFor={field.id} className="field-label">
-        {label}
-      </label>
-      <select {...props} key={props.key} className="field-input" onChange={onChange}>
-        {placeholder !== undefined ? <option value="">{placeholder}</option> : null}
-        {options.map(([value, text]) => (
-          <option key={value} value={value}>
-            {text}
-          </option>
-        ))}
-      </select>
-      <ErrorList id={field.errorId} errors={field.errors} />
     </div>
   );
 }
