@@ -10,6 +10,8 @@ source scripts/env.sh
 if [ -n "${PORT:-}" ] && [ "${APP_URL:-}" = "http://127.0.0.1:3000" ]; then export APP_URL="http://127.0.0.1:$PORT"; fi
 bash scripts/db.sh up
 npm run --silent db:migrate
+# The local fakes come first: the demo seed puts its placeholder safety sheets into the file store.
+bash scripts/fakes.sh start
 if bash scripts/db.sh is-empty; then
   echo "Seeding the invented Alder Bend demo district…"
   npm run --silent db:seed
@@ -17,7 +19,6 @@ else
   echo "The database already has data; the demo seed was not run."
 fi
 npm run --silent build
-bash scripts/fakes.sh start
 port="${PORT:-3000}"
 cat <<TXT
 
