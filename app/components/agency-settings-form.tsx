@@ -15,22 +15,11 @@ import {
   DISPLAY_UNITS,
   feetFromMetres,
   MAX_RECIPIENTS,
+  type AgencySettings,
 } from "~/lib/agency-settings-form";
 import { ErrorList, FormErrors } from "./form-fields";
 
-export type AgencySettingsView = {
-  name: string;
-  timeZone: string;
-  displayUnits: "us" | "metric";
-  waterwayBufferM: number;
-  drawdownToleranceShare: number;
-  pfasReportableLb: number;
-  classAAccuracyShare: number;
-  reportRecipients: string[];
-  releaseAlertRecipients: string[];
-  updatedAt: string | null;
-  version: string;
-};
+export type AgencySettingsView = AgencySettings;
 
 // Any field of this form; the helpers below need only its name, id, errors and value.
 // eslint-disable-next-line @typescript-eslint/no-explicit-any

@@ -99,3 +99,19 @@ export const AgencySettingsSchema = z.object({
 export type AgencySettingsInput = z.infer<typeof AgencySettingsSchema>;
 
 export const feetFromMetres = (metres: number) => metres / METRES_PER_FOOT;
+
+/** The agency settings as stored and shown. */
+export type AgencySettings = {
+  name: string;
+  timeZone: string;
+  displayUnits: "us" | "metric";
+  waterwayBufferM: number;
+  drawdownToleranceShare: number;
+  pfasReportableLb: number;
+  classAAccuracyShare: number;
+  reportRecipients: string[];
+  releaseAlertRecipients: string[];
+  updatedAt: string | null;
+  /** A fingerprint of the stored row: a save names the version it started from. */
+  version: string;
+};

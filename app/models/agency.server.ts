@@ -6,6 +6,7 @@ import {
   DEFAULT_PFAS_REPORTABLE_LB,
   DEFAULT_WATERWAY_BUFFER_M,
   splitRecipientList,
+  type AgencySettings,
   type AgencySettingsInput,
 } from "~/lib/agency-settings-form";
 import { recordAudit } from "~/lib/audit.server";
@@ -19,21 +20,6 @@ export async function agencyTimeZone(connection: Db = db): Promise<string> {
   const row = await connection("agency_settings").where({ id: 1 }).first("time_zone");
   return row?.time_zone || DEFAULT_TIME_ZONE;
 }
-
-export type AgencySettings = {
-  name: string;
-  timeZone: string;
-  displayUnits: "us" | "metric";
-  waterwayBufferM: number;
-  drawdownToleranceShare: number;
-  pfasReportableLb: number;
-  classAAccuracyShare: number;
-  reportRecipients: string[];
-  releaseAlertRecipients: string[];
-  updatedAt: string | null;
-  /** A fingerprint of the stored row: a save names the version it started from. */
-  version: string;
-};
 
 type SettingsRow = Record<string, unknown> | undefined;
 
@@ -146,3 +132,5 @@ export async function saveAgencySettings(
     return { ok: true, changed, eventsRechecked };
   });
 }
+
+export type { AgencySettings };
