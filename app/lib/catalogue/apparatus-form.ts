@@ -1,6 +1,22 @@
 import { z } from "zod";
 import { APPLICATION_METHODS, FLOW_BASES } from "../foam/vocabulary";
 
+/** A decimal-degree coordinate, blank for none. */
+const coordinate = (label: string, limit: number) =>
+  z
+    .string()
+    .trim()
+    .optional()
+    .transform((value, ctx) => {
+      if (!value) return null;
+      const number = Number(value);
+      if (!Number.isFinite(number) || number < -limit || number > limit) {
+        ctx.addIssue({ code: "custom", message: `${label} is a number from -${limit} to ${limit}.` });
+        return z.NEVER;
+      }
+      return number;
+    });
+
 const checkbox = z.preprocess((value) => value === "on" || value === "true", z.boolean());
 
 const optionalNumber = (label: string, { max = 1_000_000, positive = false } = {}) =>
@@ -43,32 +59,8 @@ export const StationFormSchema = z.object({
     .max(200, "An address has at most 200 characters.")
     .optional()
     .transform((value) => value ?? ""),
-  latitude: z
-    .string()
-    .trim()
-    .optional()
-    .transform((value, ctx) => {
-      if (!value) return null;
-      const number = Number(value);
-      if (!Number.isFinite(number) || number < -90 || number > 90) {
-        ctx.addIssue({ code: "custom", message: "Latitude is a number from -90 to 90." });
-        return z.NEVER;
-      }
-      return number;
-    }),
-  longitude: z
-    .string()
-    .trim()
-    .optional()
-    .transform((value, ctx) => {
-      if (!value) return null;
-      const number = Number(value);
-      if (!Number.isFinite(number) || number < -180 || number > 180) {
-        ctx.addIssue({ code: "custom", message: "Longitude is a number from -180 to 180." });
-        return z.NEVER;
-      }
-      return number;
-    }),
+  latitude: coordinate("Latitude", 90),
+  longitude: coordinate("Longitude", 180),
   active: checkbox,
 });
 
