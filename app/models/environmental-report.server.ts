@@ -1,7 +1,7 @@
 import type { Knex } from "knex";
 import { db, type Db } from "~/lib/db.server";
 import { isPfasContentUnit, pfasGrams, gramsToPoundsMass, rollingWindowTotals } from "~/lib/foam/pfas";
-import type { ReportPeriod } from "~/lib/reporting/period";
+import { wallClockIn, type ReportPeriod } from "~/lib/reporting/period";
 
 /** Labels used in the exports; the Summary formulas match on these exact strings. */
 export const KIND_LABELS = {
@@ -600,4 +600,14 @@ export async function eventsChangedSince(
         reason: `Record changed after submission (now ${row.status})`,
       })),
   ];
+}
+
+/** What every export of a period starts from: the agency, its clock, the period's totals and PFAS rows. */
+export async function periodFacts(period: ReportPeriod, connection: Db = db) {
+  const agency = await agencyFacts(connection);
+  const [aggregates, pfas] = await Promise.all([
+    periodAggregates(period, connection),
+    pfasRows(period, agency.pfasReportableLb, connection),
+  ]);
+  return { agency, wall: wallClockIn(agency.timeZone), aggregates, pfas };
 }

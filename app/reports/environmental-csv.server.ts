@@ -5,15 +5,13 @@ import { ZipArchive } from "archiver";
 import { csvLine } from "~/lib/csv";
 import { db, type Db } from "~/lib/db.server";
 import { gallonsToLitres } from "~/lib/foam/units";
-import { localDateTime, wallClockIn } from "~/lib/reporting/period";
+import { localDateTime } from "~/lib/reporting/period";
 import {
-  agencyFacts,
   DISPOSITION_LABELS,
   DISPOSITIONS,
   EVENT_KINDS,
   KIND_LABELS,
-  periodAggregates,
-  pfasRows,
+  periodFacts,
 } from "~/models/environmental-report.server";
 import {
   dischargeTable,
@@ -57,10 +55,7 @@ export async function writeEnvironmentalCsvZip(
 ): Promise<WrittenFile> {
   await connection.transaction(
     async (trx) => {
-      const agency = await agencyFacts(trx);
-      const wall = wallClockIn(agency.timeZone);
-      const aggregates = await periodAggregates(request.period, trx);
-      const pfas = await pfasRows(request.period, agency.pfasReportableLb, trx);
+      const { agency, wall, aggregates, pfas } = await periodFacts(request.period, trx);
       const output = createWriteStream(path);
       const zip = new ZipArchive({ zlib: { level: 6 } });
       const failed = new Promise<never>((_, reject) => zip.on("error", reject));

@@ -6,14 +6,12 @@ import { ASSUMED_CONCENTRATE_KG_PER_L } from "~/lib/foam/pfas";
 import { GRAMS_PER_POUND, LITRES_PER_US_GALLON } from "~/lib/foam/units";
 import { localDateTime, wallClockIn, type ReportPeriod } from "~/lib/reporting/period";
 import {
-  agencyFacts,
   DISPOSITION_LABELS,
   DISPOSITIONS,
   EVENT_KINDS,
   eventsChangedSince,
   KIND_LABELS,
-  periodAggregates,
-  pfasRows,
+  periodFacts,
   WATER_ONLY,
   type AgencyFacts,
   type AmendedEvent,
@@ -517,10 +515,7 @@ export async function writeEnvironmentalWorkbook(
 ): Promise<WrittenFile> {
   await connection.transaction(
     async (trx) => {
-      const agency = await agencyFacts(trx);
-      const wall = wallClockIn(agency.timeZone);
-      const aggregates = await periodAggregates(request.period, trx);
-      const pfas = await pfasRows(request.period, agency.pfasReportableLb, trx);
+      const { agency, wall, aggregates, pfas } = await periodFacts(request.period, trx);
       const changes = request.submission
         ? await eventsChangedSince(request.period, request.submission.submittedAt, trx)
         : [];
