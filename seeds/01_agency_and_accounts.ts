@@ -5,12 +5,12 @@ import type { Knex } from "knex";
 export const DEMO_PASSWORD = "demo-password";
 
 export const DEMO_ACCOUNTS = [
-  { email: "officer@alderbend.example", name: "Lt. Rowan Keats (demo)", roles: ["officer"] },
+  { email: "officer@alderbend.example", name: "Lt. Rowan Keats (demo)", roles: ["officer"], station: "S1" },
   { email: "enviro@alderbend.example", name: "Imani Okafor (demo)", roles: ["environmental"] },
   { email: "chief@alderbend.example", name: "Chief Dana Whitlow (demo)", roles: ["chief"] },
   { email: "records@alderbend.example", name: "Priya Santos (demo)", roles: ["records"] },
   { email: "admin@alderbend.example", name: "Morgan Lee (demo)", roles: ["admin"] },
-  { email: "officer2@alderbend.example", name: "Capt. Sam Ortiz (demo)", roles: ["officer"] },
+  { email: "officer2@alderbend.example", name: "Capt. Sam Ortiz (demo)", roles: ["officer"], station: "S2" },
 ] as const;
 
 export async function seed(knex: Knex): Promise<void> {

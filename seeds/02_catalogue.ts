@@ -8,6 +8,7 @@ import {
   type ProductSpec,
   type StationSpec,
 } from "../app/models/usage-builders.server";
+import { DEMO_ACCOUNTS } from "./01_agency_and_accounts";
 
 // Demo data only: the invented Alder Bend Fire District, its stations, apparatus and invented products.
 export const DEMO_STATIONS: StationSpec[] = [
@@ -151,6 +152,14 @@ export async function seed(knex: Knex): Promise<void> {
   const stations = new Map<string, number>(
     (await knex("stations").select("id", "code")).map((row) => [row.code as string, row.id as number]),
   );
+  // Each demo officer belongs to a station; their station's returned and accepted reports are theirs to fix.
+  for (const account of DEMO_ACCOUNTS) {
+    if (!("station" in account)) continue;
+    await knex("users")
+      .where({ email: account.email })
+      .whereNull("station_id")
+      .update({ station_id: stations.get(account.station) ?? null });
+  }
   for (const spec of DEMO_APPARATUS) {
     const existing = await knex("apparatus").where({ unit_id: spec.unitId }).first();
     if (existing) continue;

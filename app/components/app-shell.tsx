@@ -1,5 +1,5 @@
 import { Form, NavLink, useLocation } from "react-router";
-import { ROLE_LABELS, type Role } from "~/lib/roles";
+import { ROLE_LABELS, type Role } from "~/lib/access";
 import { navFor } from "./navigation";
 
 type ShellUser = { id: number; name: string; email: string; roles: Role[] } | null;

@@ -1,22 +1,22 @@
-import type { Role } from "~/lib/roles";
+import { type Capability, type Role, rolesCan } from "~/lib/access";
 
-export type NavItem = { to: string; label: string; roles: Role[] };
+export type NavItem = { to: string; label: string; capability: Capability | "signed-in" };
 
-/** What each role may open; the server checks the same roles on every route. */
+/** The menu; each item shows for the roles the access table gives its capability. */
 export const NAV_ITEMS: NavItem[] = [
-  { to: "/", label: "Home", roles: [] },
-  { to: "/events/new", label: "New report", roles: ["officer"] },
-  { to: "/events", label: "Events", roles: ["officer", "environmental", "chief", "records"] },
-  { to: "/events?status=filed", label: "To review", roles: ["environmental", "chief"] },
-  { to: "/admin/users", label: "People and roles", roles: ["admin", "chief"] },
-  { to: "/admin/settings", label: "Agency settings", roles: ["admin", "chief"] },
-  { to: "/products", label: "Foam products", roles: ["environmental", "chief"] },
-  { to: "/apparatus", label: "Apparatus and stations", roles: ["chief", "admin"] },
-  { to: "/map", label: "Usage map", roles: ["chief", "environmental"] },
-  { to: "/geography", label: "Drainage layers", roles: ["environmental"] },
-  { to: "/environmental", label: "Quarterly summaries", roles: ["environmental", "chief"] },
+  { to: "/", label: "Home", capability: "signed-in" },
+  { to: "/events/new", label: "New report", capability: "report.create" },
+  { to: "/events", label: "Events", capability: "report.read" },
+  { to: "/events?status=filed", label: "To review", capability: "report.review" },
+  { to: "/admin/users", label: "People and roles", capability: "users.manage" },
+  { to: "/admin/settings", label: "Agency settings", capability: "settings.read" },
+  { to: "/products", label: "Foam products", capability: "catalogue.read" },
+  { to: "/apparatus", label: "Apparatus and stations", capability: "apparatus.edit" },
+  { to: "/map", label: "Usage map", capability: "usage.map" },
+  { to: "/geography", label: "Drainage layers", capability: "geography.edit" },
+  { to: "/environmental", label: "Quarterly summaries", capability: "exports.quarterly" },
 ];
 
 export function navFor(roles: readonly Role[]): NavItem[] {
-  return NAV_ITEMS.filter((item) => item.roles.length === 0 || item.roles.some((role) => roles.includes(role)));
+  return NAV_ITEMS.filter((item) => item.capability === "signed-in" || rolesCan(roles, item.capability));
 }

@@ -48,7 +48,6 @@ export type StationOption = { id: number; code: string; name: string };
 export type ReportFormProps = {
   lastResult?: SubmissionResult<string[]> | null;
   defaultValue: Record<string, unknown>;
-  eventId?: number;
   version?: number;
   status?: EventStatus;
   submissionKey: string;
@@ -164,7 +163,6 @@ export function ReportForm(props: ReportFormProps) {
   return (
     <Form method="post" {...getFormProps(form)} className="space-y-6" aria-describedby={form.errorId}>
       <input type="hidden" name="submissionKey" value={props.submissionKey} />
-      {props.eventId ? <input type="hidden" name="eventId" value={props.eventId} /> : null}
       {props.version ? <input type="hidden" name="version" value={props.version} /> : null}
       <FormErrors id={form.errorId} errors={form.errors} />
 

@@ -1,40 +1,37 @@
 import { Link } from "react-router";
-import { ROLE_LABELS, type Role } from "~/lib/roles";
+import { type Capability, ROLE_LABELS, type Role, rolesCan } from "~/lib/access";
 
-type Task = { label: string; to?: string; note?: string };
+type Task = { label: string; capability: Capability; to?: string; note?: string };
 
-/** What each role gets done from its home page. Items without a link are not built yet and say so. */
-export const ROLE_TASKS: Record<Role, Task[]> = {
-  officer: [
-    { label: "File a foam-usage report for your crew's event", to: "/events/new" },
-    { label: "Events and reports", to: "/events" },
-  ],
-  environmental: [
-    { label: "Review filed reports", to: "/events?status=filed" },
-    { label: "Quarterly runoff and PFAS summaries", to: "/environmental" },
-    { label: "Foam products: PFAS content and safety sheets", to: "/products" },
-    { label: "Drainage basins, waterways and storm inlets", to: "/geography" },
-    { label: "Usage on the map", to: "/map" },
-  ],
-  chief: [
-    { label: "Usage across the district on the map", to: "/map" },
-    { label: "Quarterly runoff and PFAS summaries", to: "/environmental" },
-    { label: "Reports waiting for review", to: "/events?status=filed" },
-    { label: "People and roles", to: "/admin/users" },
-    { label: "Agency settings (read only)", to: "/admin/settings" },
-    { label: "Apparatus, foam systems and stations", to: "/apparatus" },
-    { label: "Foam products", to: "/products" },
-  ],
-  records: [
-    { label: "Events and their usage reports", to: "/events" },
-    { label: "Public-records requests", note: "Records requests are planned and not yet available." },
-  ],
-  admin: [
-    { label: "People and roles", to: "/admin/users" },
-    { label: "Agency settings: buffers, thresholds and mail recipients", to: "/admin/settings" },
-    { label: "Apparatus and stations", to: "/apparatus" },
-  ],
-};
+/**
+ * The tasks a home page offers, in order. Each role's card lists those the access table gives that
+ * role; items without a link are not built yet and say so.
+ */
+export const HOME_TASKS: Task[] = [
+  { label: "File a foam-usage report for your crew's event", capability: "report.create", to: "/events/new" },
+  { label: "Review filed reports", capability: "report.review", to: "/events?status=filed" },
+  { label: "Events and their usage reports", capability: "report.read", to: "/events" },
+  { label: "Usage across the district on the map", capability: "usage.map", to: "/map" },
+  { label: "Quarterly runoff and PFAS summaries", capability: "exports.quarterly", to: "/environmental" },
+  { label: "Foam products: PFAS content and safety sheets", capability: "catalogue.read", to: "/products" },
+  { label: "Drainage basins, waterways and storm inlets", capability: "geography.edit", to: "/geography" },
+  { label: "People and roles", capability: "users.manage", to: "/admin/users" },
+  {
+    label: "Agency settings: buffers, thresholds and mail recipients",
+    capability: "settings.read",
+    to: "/admin/settings",
+  },
+  { label: "Apparatus, foam systems and stations", capability: "apparatus.edit", to: "/apparatus" },
+  {
+    label: "Public-records requests",
+    capability: "records.manage",
+    note: "Records requests are planned and not yet available.",
+  },
+];
+
+export function tasksFor(role: Role): Task[] {
+  return HOME_TASKS.filter((task) => rolesCan([role], task.capability));
+}
 
 export function RoleHome({ roles }: { roles: Role[] }) {
   if (roles.length === 0) {
@@ -48,7 +45,7 @@ export function RoleHome({ roles }: { roles: Role[] }) {
             {ROLE_LABELS[role]}
           </h2>
           <ul className="mt-3 space-y-2">
-            {ROLE_TASKS[role].map((task) => (
+            {tasksFor(role).map((task) => (
               <li key={task.label}>
                 {task.to ? (
                   <Link to={task.to} className="font-medium text-pond-700 underline underline-offset-4">

@@ -5,13 +5,13 @@ import { Authenticator } from "remix-auth";
 import { FormStrategy } from "remix-auth-form";
 import { recordAudit } from "./audit.server";
 import { db } from "./db.server";
-import { apiError, clientAddress, httpError, isApiRequest, rethrowDatabaseDown } from "./http.server";
-import { decideAccess, isRole, type Role } from "./roles";
+import { apiError, clientAddress, isApiRequest, rethrowDatabaseDown } from "./http.server";
+import { acceptsApiToken, isRole, type Principal, type Role } from "./access";
 import { getSession } from "./session.server";
 import { SignInFormSchema } from "./sign-in-form";
 import { recordSignInAttempt, signInWaitMinutes } from "./sign-in-throttle.server";
 
-export type SessionUser = { id: number; email: string; name: string; roles: Role[]; epoch: number };
+export type SessionUser = Principal & { email: string; name: string; roles: Role[]; epoch: number };
 
 export const PASSWORD_COST = 12;
 export const SIGN_IN_FAILED = "The email or password is incorrect.";
@@ -40,6 +40,7 @@ async function loadUser(
     email: row.email,
     name: row.name,
     roles: roles.filter(isRole),
+    stationId: row.station_id ?? null,
     epoch: row.session_epoch,
     active: Boolean(row.active),
     passwordHash: row.password_hash,
@@ -86,7 +87,14 @@ authenticator.use(
       entityId: user.id,
       clientAddress: address,
     });
-    return { id: user.id, email: user.email, name: user.name, roles: user.roles, epoch: user.epoch };
+    return {
+      id: user.id,
+      email: user.email,
+      name: user.name,
+      roles: user.roles,
+      stationId: user.stationId,
+      epoch: user.epoch,
+    };
   }),
   "form",
 );
@@ -119,10 +127,15 @@ async function userFromSession(request: Request): Promise<SessionUser | null> {
   return user;
 }
 
-/** The signed-in person (by bearer token or session), or null. Never throws for a bad cookie. */
+/**
+ * The signed-in person, or null. Never throws for a bad cookie. A bearer token counts on `/api/*`
+ * only: it never signs into a page, a download or a form action.
+ */
 export async function getUser(request: Request): Promise<SessionUser | null> {
   try {
-    if (request.headers.has("Authorization")) return await userFromBearer(request);
+    if (acceptsApiToken(new URL(request.url).pathname) && request.headers.has("Authorization")) {
+      return await userFromBearer(request);
+    }
     return await userFromSession(request);
   } catch (error) {
     rethrowDatabaseDown(request, error);
@@ -130,21 +143,15 @@ export async function getUser(request: Request): Promise<SessionUser | null> {
 }
 
 /**
- * The guard that opens every loader and action: the signed-in user holding one of `roles`
- * (any signed-in user when empty). Pages redirect to sign-in; `/api/*` answers 401/403 JSON.
+ * Any signed-in person. Pages redirect to sign-in; `/api/*` answers 401 JSON. Guards that need a
+ * role call `requireCapability` (`access.server.ts`), which starts here.
  */
-export async function requireUser(request: Request, roles: readonly Role[] = []): Promise<SessionUser> {
+export async function requireUser(request: Request): Promise<SessionUser> {
   const user = await getUser(request);
-  const decision = decideAccess(user?.roles ?? null, roles);
-  if (decision === "allow" && user) return user;
-  const api = isApiRequest(request);
-  if (decision === "sign-in") {
-    if (api) apiError(401, "Sign in, or send a valid API token as 'Authorization: Bearer <token>'.");
-    const url = new URL(request.url);
-    throw redirect(`/sign-in?redirectTo=${encodeURIComponent(url.pathname + url.search)}`);
-  }
-  if (api) apiError(403, "Your roles do not allow this.");
-  httpError(403, "Your roles do not allow you to use this page.");
+  if (user) return user;
+  if (isApiRequest(request)) apiError(401, "Sign in, or send a valid API token as 'Authorization: Bearer <token>'.");
+  const url = new URL(request.url);
+  throw redirect(`/sign-in?redirectTo=${encodeURIComponent(url.pathname + url.search)}`);
 }
 
 export function safeRedirectTo(target: string | null | undefined, fallback = "/"): string {

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { ROLES } from "./roles";
+import { ROLES } from "./access";
 
 const name = z
   .string({ error: "Enter a name." })
@@ -19,6 +19,11 @@ const newPassword = z
   .min(12, "Use at least 12 characters.")
   .max(200, "A password has at most 200 characters.");
 
+const stationId = z.preprocess(
+  (value) => (value === "" || value == null ? null : value),
+  z.coerce.number({ error: "Choose a station from the list." }).int().positive().nullable(),
+);
+
 const roles = z.array(z.enum(ROLES), { error: "Choose at least one role." }).min(1, "Choose at least one role.");
 
 export const CreateUserSchema = z.object({
@@ -27,6 +32,7 @@ export const CreateUserSchema = z.object({
   email,
   password: newPassword,
   roles,
+  stationId,
 });
 
 export const UpdateUserSchema = z.object({
@@ -34,6 +40,7 @@ export const UpdateUserSchema = z.object({
   userId: z.coerce.number().int().positive(),
   name,
   roles,
+  stationId,
   active: z.preprocess((value) => value === "on" || value === "true", z.boolean()),
 });
 

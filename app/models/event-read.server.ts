@@ -1,6 +1,7 @@
 import type { Knex } from "knex";
+import type { ReportRecord } from "~/lib/access";
 import type { SessionUser } from "~/lib/auth.server";
-import { db } from "~/lib/db.server";
+import { db, type Db } from "~/lib/db.server";
 import {
   EVENT_KINDS,
   EVENT_STATUSES,
@@ -31,9 +32,19 @@ function warningsOf(stored: unknown): UsageWarning[] {
 
 export type ReportDetail = Awaited<ReturnType<typeof getReport>>;
 
-/** Whether this person may see this report at all: drafts belong to their author until filed. */
-export function canSeeReport(user: SessionUser, row: { status: EventStatus; created_by: number }): boolean {
-  return row.status !== "draft" || row.created_by === user.id;
+/** What the access rules need to know about a report, or null when there is no such report. */
+export async function reportAccessRecord(eventId: number, connection: Db = db): Promise<ReportRecord | null> {
+  if (!Number.isInteger(eventId) || eventId < 1) return null;
+  const row = await connection("events").where({ id: eventId }).first("status", "created_by", "station_id");
+  return row ? reportRecordOf(row) : null;
+}
+
+export function reportRecordOf(row: {
+  status: EventStatus;
+  created_by: number;
+  station_id: number | null;
+}): ReportRecord {
+  return { status: row.status, createdBy: row.created_by, stationId: row.station_id ?? null };
 }
 
 /** One report with its discharges, runoff, tank readings, stored totals and geography checks. */
@@ -437,9 +448,14 @@ export async function reportHistory(eventId: number): Promise<HistoryEntry[]> {
   }));
 }
 
+/** Returned reports this person may fix: their own, and those of their own station. */
 export async function returnedReportsFor(user: SessionUser) {
   const rows = await db("events")
-    .where({ created_by: user.id, status: "returned" })
+    .where({ status: "returned" })
+    .where((mine) => {
+      mine.where({ created_by: user.id });
+      if (user.stationId !== null) mine.orWhere({ station_id: user.stationId });
+    })
     .orderBy("reviewed_at", "desc")
     .select("id", "number", "review_comment", "reviewed_at");
   return rows.map((row) => ({

@@ -14,9 +14,10 @@ import {
   type FiledReport,
 } from "~/lib/foam/report-schema";
 import { computeUsage, type DischargeInput, type TankReading, type UsageResult } from "~/lib/foam/totals";
-import { hasRole } from "~/lib/roles";
+import { changeCapabilityFor, decide } from "~/lib/access";
 import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
 import { agencyTimeZone } from "./agency.server";
+import { reportRecordOf } from "./event-read.server";
 import { apparatusFactsMap, numberOrNull, productFactsMap } from "./catalogue.server";
 
 function dischargeInputs(lines: DischargeLine[], timeZone: string): DischargeInput[] {
@@ -206,12 +207,6 @@ export async function suggestEventNumber(kind: EventKind = "incident", now = new
   return nextEventNumber(db, kind, year);
 }
 
-export function canEditReport(user: SessionUser, row: { created_by: number; status: EventStatus }): boolean {
-  if (row.status === "accepted") return hasRole(user.roles, "officer", "environmental", "chief");
-  if (row.status === "filed") return row.created_by === user.id || hasRole(user.roles, "environmental", "chief");
-  return row.created_by === user.id || hasRole(user.roles, "officer");
-}
-
 async function snapshotEvent(eventId: number, connection: Db) {
   const [event, discharges, dispositions, tankReadings] = await Promise.all([
     connection("events").where({ id: eventId }).first(),
@@ -361,8 +356,12 @@ export async function saveReport(request: SaveRequest, hooks: SaveHooks = {}): P
       let revision = 0;
       if (eventId) {
         const row = await trx("events").where({ id: eventId }).forUpdate().first();
-        if (!row) throw new SaveRefused({ kind: "refused", status: 404, message: "This report no longer exists." });
-        if (!canEditReport(request.user, row)) {
+        // Access first, then the version: a conflict never answers for a report one may not change.
+        const decision = row ? decide(request.user, changeCapabilityFor(row.status), reportRecordOf(row)) : "hidden";
+        if (decision === "hidden") {
+          throw new SaveRefused({ kind: "refused", status: 404, message: "This report no longer exists." });
+        }
+        if (decision !== "allow") {
           throw new SaveRefused({
             kind: "refused",
             status: 403,
@@ -512,7 +511,10 @@ export async function saveReport(request: SaveRequest, hooks: SaveHooks = {}): P
 // ---------------------------------------------------------------------------------------------
 // Review
 
-export type ReviewOutcome = { kind: "done"; status: EventStatus } | { kind: "conflict" | "refused"; message: string };
+export type ReviewOutcome =
+  | { kind: "done"; status: EventStatus }
+  | { kind: "conflict"; message: string }
+  | { kind: "refused"; status: 400 | 403 | 404; message: string };
 
 export async function reviewReport(
   args: {
@@ -527,14 +529,19 @@ export async function reviewReport(
 ): Promise<ReviewOutcome> {
   return db.transaction(async (trx) => {
     const row = await trx("events").where({ id: args.eventId }).forUpdate().first();
-    if (!row) return { kind: "refused", message: "This report no longer exists." };
+    // Access first, then the version: a conflict never answers for a report one may not review.
+    const decision = row ? decide(args.user, "report.review", reportRecordOf(row)) : "hidden";
+    if (decision === "hidden") return { kind: "refused", status: 404, message: "This report no longer exists." };
+    if (decision !== "allow") return { kind: "refused", status: 403, message: "Your roles do not allow this." };
     if (row.version !== args.version) {
       return {
         kind: "conflict",
         message: "The report changed while you were reviewing it. Review the latest version below.",
       };
     }
-    if (row.status !== "filed") return { kind: "refused", message: "Only a filed report can be accepted or returned." };
+    if (row.status !== "filed") {
+      return { kind: "refused", status: 400, message: "Only a filed report can be accepted or returned." };
+    }
     const status: EventStatus = args.decision === "accept" ? "accepted" : "returned";
     await trx("events")
       .where({ id: args.eventId })

@@ -2,13 +2,20 @@ import bcrypt from "bcryptjs";
 import { recordAudit } from "~/lib/audit.server";
 import { hashPassword, type SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
-import { isRole, type Role } from "~/lib/roles";
+import { isRole, type Role } from "~/lib/access";
 
-export type UserRow = { id: number; email: string; name: string; active: boolean; roles: Role[] };
+export type UserRow = {
+  id: number;
+  email: string;
+  name: string;
+  active: boolean;
+  roles: Role[];
+  stationId: number | null;
+};
 
 export async function listUsers(): Promise<UserRow[]> {
   const [users, roles] = await Promise.all([
-    db("users").select("id", "email", "name", "active").orderBy("name"),
+    db("users").select("id", "email", "name", "active", "station_id").orderBy("name"),
     db("user_roles").select("user_id", "role"),
   ]);
   return users.map((user) => ({
@@ -16,14 +23,23 @@ export async function listUsers(): Promise<UserRow[]> {
     email: user.email,
     name: user.name,
     active: Boolean(user.active),
+    stationId: (user.station_id as number | null) ?? null,
     roles: roles.filter((row) => row.user_id === user.id && isRole(row.role)).map((row) => row.role as Role),
   }));
+}
+
+/** The roles an account holds now (what the access rules on accounts look at), or null if there is none. */
+export async function accountRecord(userId: number): Promise<{ roles: Role[] } | null> {
+  const row = await db("users").where({ id: userId }).first("id");
+  if (!row) return null;
+  const roles = await db("user_roles").where({ user_id: userId }).pluck("role");
+  return { roles: roles.filter(isRole) };
 }
 
 export class DuplicateEmailError extends Error {}
 
 export async function createUser(
-  input: { email: string; name: string; password: string; roles: Role[] },
+  input: { email: string; name: string; password: string; roles: Role[]; stationId?: number | null },
   actor: SessionUser | null,
   clientAddress?: string,
 ): Promise<number> {
@@ -31,7 +47,12 @@ export async function createUser(
   return db.transaction(async (trx) => {
     const existing = await trx("users").where({ email: input.email }).first();
     if (existing) throw new DuplicateEmailError(input.email);
-    const [id] = await trx("users").insert({ email: input.email, name: input.name, password_hash: passwordHash });
+    const [id] = await trx("users").insert({
+      email: input.email,
+      name: input.name,
+      password_hash: passwordHash,
+      station_id: input.stationId ?? null,
+    });
     if (input.roles.length) await trx("user_roles").insert(input.roles.map((role) => ({ user_id: id, role })));
     await recordAudit(
       {
@@ -40,7 +61,7 @@ export async function createUser(
         action: "user_created",
         entityType: "user",
         entityId: id,
-        after: { email: input.email, name: input.name, roles: input.roles },
+        after: { email: input.email, name: input.name, roles: input.roles, stationId: input.stationId ?? null },
         clientAddress,
       },
       trx,
@@ -51,7 +72,7 @@ export async function createUser(
 
 export async function updateUser(
   userId: number,
-  changes: { name: string; roles: Role[]; active: boolean },
+  changes: { name: string; roles: Role[]; active: boolean; stationId: number | null },
   actor: SessionUser,
   clientAddress?: string,
 ): Promise<boolean> {
@@ -65,6 +86,7 @@ export async function updateUser(
       .update({
         name: changes.name,
         active: changes.active,
+        station_id: changes.stationId,
         updated_at: trx.fn.now(),
         // A deactivated person's sessions stop at once; tokens stop because the user is inactive.
         session_epoch: deactivating ? before.session_epoch + 1 : before.session_epoch,
@@ -78,8 +100,18 @@ export async function updateUser(
         action: deactivating ? "user_deactivated" : "user_updated",
         entityType: "user",
         entityId: userId,
-        before: { name: before.name, active: Boolean(before.active), roles: beforeRoles.sort() },
-        after: { name: changes.name, active: changes.active, roles: [...changes.roles].sort() },
+        before: {
+          name: before.name,
+          active: Boolean(before.active),
+          roles: beforeRoles.sort(),
+          stationId: before.station_id ?? null,
+        },
+        after: {
+          name: changes.name,
+          active: changes.active,
+          roles: [...changes.roles].sort(),
+          stationId: changes.stationId,
+        },
         clientAddress,
       },
       trx,

@@ -1,6 +1,6 @@
 import { data, Form } from "react-router";
 import type { Route } from "./+types/admin.outbox";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { env } from "~/lib/env.server";
 import { fakeMailDirectory, readFakeMailbox, smtpPort } from "~/lib/fake-mailbox.server";
 import { httpError } from "~/lib/http.server";
@@ -13,7 +13,7 @@ function requireDemoMode() {
 }
 
 export async function loader({ request }: Route.LoaderArgs) {
-  await requireUser(request, ["admin"]);
+  await requireCapability(request, "outbox.view");
   requireDemoMode();
   const port = smtpPort(env().SMTP_URL);
   const [queue, received] = await Promise.all([listOutbox(), readFakeMailbox(fakeMailDirectory(port))]);
@@ -21,7 +21,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  await requireUser(request, ["admin"]);
+  await requireCapability(request, "outbox.view");
   requireDemoMode();
   const formData = await request.formData();
   if (formData.get("intent") === "retry") {

@@ -2,8 +2,9 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { data, redirect } from "react-router";
 import type { Route } from "./+types/admin.settings";
 import { AgencySettingsForm } from "~/components/agency-settings-form";
+import { can } from "~/lib/access";
 import { AgencySettingsSchema } from "~/lib/agency-settings-form";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { clientAddress, rethrowDatabaseDown } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { readAgencySettings, saveAgencySettings } from "~/models/agency.server";
@@ -11,13 +12,13 @@ import { readAgencySettings, saveAgencySettings } from "~/models/agency.server";
 export const meta: Route.MetaFunction = () => [{ title: "Agency settings · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request, ["admin", "chief"]);
+  const user = await requireCapability(request, "settings.read");
   const settings = await readAgencySettings().catch((error) => rethrowDatabaseDown(request, error));
-  return { settings, timeZones: Intl.supportedValuesOf("timeZone"), canEdit: user.roles.includes("admin") };
+  return { settings, timeZones: Intl.supportedValuesOf("timeZone"), canEdit: can(user, "settings.edit") };
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request, ["admin"]);
+  const user = await requireCapability(request, "settings.edit");
   const submission = parseWithZod(await request.formData(), { schema: AgencySettingsSchema });
   if (submission.status !== "success") {
     return data({ result: submission.reply(), conflict: null }, { status: 400 });

@@ -3,30 +3,57 @@ import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/admin.users";
 import { ErrorList, FormErrors, TextField } from "~/components/form-fields";
-import { requireUser } from "~/lib/auth.server";
+import { can, ROLE_LABELS, ROLES, type Role } from "~/lib/access";
+import { authorize, requireCapability } from "~/lib/access.server";
 import { clientAddress } from "~/lib/http.server";
-import { ROLE_LABELS, ROLES, type Role } from "~/lib/roles";
 import { flashHeaders } from "~/lib/session.server";
 import { CreateUserSchema, UpdateUserSchema } from "~/lib/user-forms";
-import { createUser, DuplicateEmailError, listUsers, updateUser, type UserRow } from "~/models/user.server";
+import { listStationOptions, type StationOption } from "~/models/catalogue.server";
+import {
+  accountRecord,
+  createUser,
+  DuplicateEmailError,
+  listUsers,
+  updateUser,
+  type UserRow,
+} from "~/models/user.server";
 
-const MANAGERS: Role[] = ["admin", "chief"];
+const GRANT_ADMIN_REFUSED = "Only an administrator can give or take away the administrator role.";
+const UNKNOWN_STATION = "Choose a station from the list.";
 
 export const meta: Route.MetaFunction = () => [{ title: "People and roles · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request, MANAGERS);
-  return { users: await listUsers(), selfId: user.id };
+  const user = await requireCapability(request, "users.manage");
+  const [users, stations] = await Promise.all([listUsers(), listStationOptions()]);
+  return {
+    users: users.map((person) => ({ ...person, editable: can(user, "users.manage", person) })),
+    stations,
+    selfId: user.id,
+    canGrantAdmin: can(user, "users.grant-admin"),
+  };
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const actor = await requireUser(request, MANAGERS);
+  const actor = await requireCapability(request, "users.manage");
   const formData = await request.formData();
+  const stationIds = new Set((await listStationOptions()).map((station) => station.id));
   const intent = formData.get("intent");
   if (intent === "create") {
     const submission = parseWithZod(formData, { schema: CreateUserSchema });
     if (submission.status !== "success") {
       return data({ intent, result: submission.reply({ hideFields: ["password"] }) }, { status: 400 });
+    }
+    const refusal: Record<string, string[]> | null = !can(actor, "users.manage", submission.value)
+      ? { roles: [GRANT_ADMIN_REFUSED] }
+      : submission.value.stationId !== null && !stationIds.has(submission.value.stationId)
+        ? { stationId: [UNKNOWN_STATION] }
+        : null;
+    if (refusal) {
+      return data(
+        { intent, result: submission.reply({ fieldErrors: refusal, hideFields: ["password"] }) },
+        { status: refusal.roles ? 403 : 400 },
+      );
     }
     try {
       await createUser(submission.value, actor, clientAddress(request));
@@ -51,8 +78,20 @@ export async function action({ request }: Route.ActionArgs) {
   if (submission.status !== "success") {
     return data({ intent: "update", result: submission.reply() }, { status: 400 });
   }
-  const { userId, name, roles, active } = submission.value;
-  if (userId === actor.id && (!active || !roles.some((role) => MANAGERS.includes(role)))) {
+  const { userId, name, roles, active, stationId } = submission.value;
+  const target = await accountRecord(userId);
+  if (!target) {
+    return data({ intent: "update", result: submission.reply({ formErrors: ["No such person."] }) }, { status: 404 });
+  }
+  authorize(request, actor, "users.manage", target);
+  const adminChanged = target.roles.includes("admin") !== roles.includes("admin");
+  if (adminChanged && !can(actor, "users.grant-admin")) {
+    return data({ intent: "update", result: submission.reply({ formErrors: [GRANT_ADMIN_REFUSED] }) }, { status: 403 });
+  }
+  if (stationId !== null && !stationIds.has(stationId)) {
+    return data({ intent: "update", result: submission.reply({ formErrors: [UNKNOWN_STATION] }) }, { status: 400 });
+  }
+  if (userId === actor.id && (!active || !can({ ...actor, roles }, "users.manage"))) {
     return data(
       {
         intent: "update",
@@ -61,7 +100,7 @@ export async function action({ request }: Route.ActionArgs) {
       { status: 400 },
     );
   }
-  const found = await updateUser(userId, { name, roles, active }, actor, clientAddress(request));
+  const found = await updateUser(userId, { name, roles, active, stationId }, actor, clientAddress(request));
   if (!found)
     return data({ intent: "update", result: submission.reply({ formErrors: ["No such person."] }) }, { status: 404 });
   throw redirect("/admin/users", { headers: await flashHeaders(request, `Saved changes for ${name}.`) });
@@ -76,6 +115,8 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
     onValidate: ({ formData }) => parseWithZod(formData, { schema: CreateUserSchema }),
   });
   const updateErrors = actionData?.intent === "update" ? actionData.result.error?.[""] : undefined;
+  const { stations, canGrantAdmin } = loaderData;
+  const grantable = ROLES.filter((role) => role !== "admin" || canGrantAdmin);
   return (
     <div className="space-y-6">
       <h1 className="text-2xl font-bold">People and roles</h1>
@@ -89,6 +130,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
             <tr>
               <th scope="col">Person</th>
               <th scope="col">Roles</th>
+              <th scope="col">Station</th>
               <th scope="col">Active</th>
               <th scope="col">
                 <span className="sr-only">Save</span>
@@ -96,9 +138,13 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
             </tr>
           </thead>
           <tbody>
-            {loaderData.users.map((user) => (
-              <UserRowForm key={user.id} user={user} />
-            ))}
+            {loaderData.users.map((user) =>
+              user.editable ? (
+                <UserRowForm key={user.id} user={user} roles={grantable} stations={stations} />
+              ) : (
+                <ReadOnlyUserRow key={user.id} user={user} stations={stations} />
+              ),
+            )}
           </tbody>
         </table>
       </section>
@@ -124,7 +170,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
           <fieldset>
             <legend className="field-label">Roles</legend>
             <div className="mt-1 flex flex-wrap gap-3">
-              {ROLES.map((role) => (
+              {grantable.map((role) => (
                 <label key={role} className="flex min-h-11 items-center gap-2">
                   <input type="checkbox" name={fields.roles.name} value={role} className="h-5 w-5" />
                   {ROLE_LABELS[role]}
@@ -133,6 +179,23 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
             </div>
             <ErrorList id={fields.roles.errorId} errors={fields.roles.errors} />
           </fieldset>
+          <div>
+            <label htmlFor={fields.stationId.id} className="field-label">
+              Station
+            </label>
+            <select id={fields.stationId.id} name={fields.stationId.name} defaultValue="" className="field-input">
+              <option value="">No station</option>
+              {stations.map((station) => (
+                <option key={station.id} value={station.id}>
+                  {station.code} {station.name}
+                </option>
+              ))}
+            </select>
+            <p className="text-sm text-slate-ft">
+              A company officer fixes returned reports and revises accepted reports of their own station.
+            </p>
+            <ErrorList id={fields.stationId.errorId} errors={fields.stationId.errors} />
+          </div>
           <button type="submit" className="btn-primary">
             Create account
           </button>
@@ -142,7 +205,28 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
   );
 }
 
-function UserRowForm({ user }: { user: UserRow }) {
+function stationLabel(stations: StationOption[], id: number | null): string {
+  const station = stations.find((candidate) => candidate.id === id);
+  return station ? `${station.code} ${station.name}` : "none";
+}
+
+/** An account this person may not change (an administrator, for someone who is not one). */
+function ReadOnlyUserRow({ user, stations }: { user: UserRow; stations: StationOption[] }) {
+  return (
+    <tr>
+      <td>
+        {user.name}
+        <span className="block text-xs text-slate-ft">{user.email}</span>
+      </td>
+      <td>{user.roles.map((role) => ROLE_LABELS[role]).join(", ")}</td>
+      <td>{stationLabel(stations, user.stationId)}</td>
+      <td>{user.active ? "Active" : "Inactive"}</td>
+      <td className="text-sm text-slate-ft">Only an administrator changes this account.</td>
+    </tr>
+  );
+}
+
+function UserRowForm({ user, roles, stations }: { user: UserRow; roles: readonly Role[]; stations: StationOption[] }) {
   const navigation = useNavigation();
   const formId = `user-${user.id}`;
   return (
@@ -170,7 +254,7 @@ function UserRowForm({ user }: { user: UserRow }) {
         <fieldset>
           <legend className="sr-only">Roles of {user.email}</legend>
           <div className="flex flex-wrap gap-x-3">
-            {ROLES.map((role) => (
+            {roles.map((role) => (
               <label key={role} className="flex min-h-11 items-center gap-1 text-sm">
                 <input
                   form={formId}
@@ -185,6 +269,25 @@ function UserRowForm({ user }: { user: UserRow }) {
             ))}
           </div>
         </fieldset>
+      </td>
+      <td>
+        <label className="sr-only" htmlFor={`${formId}-station`}>
+          Station of {user.email}
+        </label>
+        <select
+          id={`${formId}-station`}
+          form={formId}
+          name="stationId"
+          defaultValue={user.stationId ?? ""}
+          className="field-input mt-0"
+        >
+          <option value="">No station</option>
+          {stations.map((station) => (
+            <option key={station.id} value={station.id}>
+              {station.code}
+            </option>
+          ))}
+        </select>
       </td>
       <td>
         <label className="flex min-h-11 items-center gap-2 text-sm">

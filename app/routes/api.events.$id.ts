@@ -1,15 +1,14 @@
 import type { Route } from "./+types/api.events.$id";
-import { requireUser } from "~/lib/auth.server";
+import { authorize, requireCapability } from "~/lib/access.server";
 import { apiError } from "~/lib/http.server";
-import { REPORT_READERS } from "~/lib/report-access";
-import { canSeeReport, getReport, reportForApi } from "~/models/event-read.server";
+import { getReport, reportForApi } from "~/models/event-read.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request, REPORT_READERS);
+  const user = await requireCapability(request, "report.read");
   const id = Number(params.id);
   if (!Number.isInteger(id) || id < 1) apiError(404, "No such event.");
   const report = await getReport(id);
-  if (!report || !canSeeReport(user, { status: report.status, created_by: report.createdBy }))
-    apiError(404, "No such event.");
+  if (!report) apiError(404, "No such event.");
+  authorize(request, user, "report.read", report);
   return Response.json(reportForApi(report));
 }

@@ -1,11 +1,10 @@
 import type { Route } from "./+types/api.events";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { apiError } from "~/lib/http.server";
-import { REPORT_READERS } from "~/lib/report-access";
 import { apiVolume, listEvents, parseEventFilters } from "~/models/event-read.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request, REPORT_READERS);
+  const user = await requireCapability(request, "report.read");
   const url = new URL(request.url);
   const { filters, errors } = parseEventFilters(url.searchParams);
   if (Object.keys(errors).length) apiError(400, "Some filters cannot be used.", { errors });

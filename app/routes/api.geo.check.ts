@@ -1,12 +1,12 @@
 import type { Route } from "./+types/api.geo.check";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { isValidLatLon } from "~/lib/geo/checks";
 import { apiError, rethrowDatabaseDown } from "~/lib/http.server";
 import { checkPoint } from "~/models/geography.server";
 
 /** GET /api/geo/check?lat=&lon= — where a point sits against the basins, waterways, inlets and boundary. */
 export async function loader({ request }: Route.LoaderArgs) {
-  await requireUser(request, ["officer", "environmental", "chief"]);
+  await requireCapability(request, "geography.read");
   const url = new URL(request.url);
   const lat = url.searchParams.get("lat")?.trim() ?? "";
   const lon = url.searchParams.get("lon")?.trim() ?? "";

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/api.geo.layers";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { isLayerKind } from "~/lib/geo/layers";
 import { apiError, rethrowDatabaseDown } from "~/lib/http.server";
 import { layerLabelPoints, layerText, waterwayBufferGeoJSON } from "~/models/geography.server";
@@ -11,7 +11,7 @@ const GEOJSON = { "Content-Type": "application/geo+json; charset=utf-8", "Cache-
  * `?as=labels` gives one named point inside each feature, for map labels.
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireUser(request, ["officer", "environmental", "chief"]);
+  await requireCapability(request, "geography.read");
   try {
     return await layerResponse(request, params.kind);
   } catch (error) {

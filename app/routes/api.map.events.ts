@@ -1,12 +1,12 @@
 import type { Route } from "./+types/api.map.events";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { parseMapFilters } from "~/lib/geo/map-filters";
 import { apiError, rethrowDatabaseDown } from "~/lib/http.server";
 import { agencyTimeZone, mapEvents } from "~/models/usage-map.server";
 
 /** GET /api/map/events.geojson?from=&to=&bbox=&class=&kind=&station= — filed events with their totals. */
 export async function loader({ request }: Route.LoaderArgs) {
-  await requireUser(request, ["chief", "environmental"]);
+  await requireCapability(request, "usage.map");
   const parsed = parseMapFilters(
     new URL(request.url).searchParams,
     await agencyTimeZone().catch((error) => rethrowDatabaseDown(request, error)),

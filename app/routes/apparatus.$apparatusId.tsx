@@ -3,7 +3,7 @@ import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/apparatus.$apparatusId";
 import { CheckboxField, FormErrors, SelectField, TextField } from "~/components/form-fields";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { ApparatusFormSchema } from "~/lib/catalogue/apparatus-form";
 import { APPLICATION_METHOD_LABELS, APPLICATION_METHODS, FLOW_BASES, FLOW_BASIS_LABELS } from "~/lib/foam/vocabulary";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
@@ -17,8 +17,6 @@ import {
   UnknownStationError,
 } from "~/models/apparatus.server";
 
-const MANAGERS = ["chief", "admin"] as const;
-
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `${data?.apparatus ? data.apparatus.unitId : "New apparatus"} · Foamtally` },
 ];
@@ -31,7 +29,7 @@ function apparatusIdOf(params: { apparatusId?: string }): number | null {
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireUser(request, [...MANAGERS]);
+  await requireCapability(request, "apparatus.edit");
   const id = apparatusIdOf(params);
   const stations = await listStations();
   if (id == null) return { apparatus: null, stations };
@@ -41,7 +39,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireUser(request, [...MANAGERS]);
+  const user = await requireCapability(request, "apparatus.edit");
   const id = apparatusIdOf(params);
   const formData = await request.formData();
   const submission = parseWithZod(formData, { schema: ApparatusFormSchema });

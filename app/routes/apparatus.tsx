@@ -1,12 +1,12 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/apparatus";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { listApparatus, listStations } from "~/models/apparatus.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Apparatus and stations · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  await requireUser(request, ["chief", "admin"]);
+  await requireCapability(request, "apparatus.edit");
   const [stations, apparatus] = await Promise.all([listStations(), listApparatus()]);
   return { stations, apparatus };
 }

@@ -7,7 +7,6 @@ import type { SessionUser } from "~/lib/auth.server";
 import { httpError } from "~/lib/http.server";
 import { XLSX_TYPE, ZIP_TYPE } from "~/lib/reporting/files";
 import { parseReportPeriod, type ReportPeriod } from "~/lib/reporting/period";
-import type { Role } from "~/lib/roles";
 import { agencyFacts } from "~/models/environmental-report.server";
 import { latestSubmissionFor } from "~/models/quarterly-submission.server";
 import { writeEnvironmentalCsvZip } from "~/reports/environmental-csv.server";
@@ -17,11 +16,6 @@ import {
   type WorkbookRequest,
   type WrittenFile,
 } from "~/reports/environmental-workbook.server";
-
-/** Who may download the environmental summaries. */
-export const ENVIRONMENTAL_READERS: Role[] = ["environmental", "chief"];
-/** Who may mark a period submitted and send it to the recipients. */
-export const ENVIRONMENTAL_SUBMITTERS: Role[] = ["environmental"];
 
 export async function periodFrom(params: URLSearchParams): Promise<ReportPeriod> {
   const agency = await agencyFacts();

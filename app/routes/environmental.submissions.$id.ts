@@ -1,12 +1,11 @@
 import type { Route } from "./+types/environmental.submissions.$id";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { invariantResponse } from "~/lib/http.server";
 import { submissionFile } from "~/models/quarterly-submission.server";
-import { ENVIRONMENTAL_READERS } from "./environmental-files.server";
 
 /** The exact file recorded when a period was marked submitted. */
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireUser(request, ENVIRONMENTAL_READERS);
+  await requireCapability(request, "exports.quarterly");
   const id = Number(params.id);
   invariantResponse(Number.isInteger(id) && id > 0, "No such submission.", 404);
   const file = await submissionFile(id);

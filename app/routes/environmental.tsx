@@ -1,11 +1,11 @@
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/environmental";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { db } from "~/lib/db.server";
 import { roundForDisplay } from "~/lib/foam/units";
 import { clientAddress } from "~/lib/http.server";
 import { localDateTime, parseReportPeriod, periodQuery, type ReportPeriod } from "~/lib/reporting/period";
-import { hasRole } from "~/lib/roles";
+import { can } from "~/lib/access";
 import { flashHeaders } from "~/lib/session.server";
 import { agencyFacts, eventsChangedSince, periodAggregates, pfasRows } from "~/models/environmental-report.server";
 import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
@@ -16,13 +16,7 @@ import {
   submissionFile,
 } from "~/models/quarterly-submission.server";
 import { NoRecipientsError, queueQuarterlyWorkbookMail } from "~/models/report-notifications.server";
-import {
-  ENVIRONMENTAL_READERS,
-  ENVIRONMENTAL_SUBMITTERS,
-  generatedContent,
-  withGeneratedFile,
-  workbookRequestFor,
-} from "./environmental-files.server";
+import { generatedContent, withGeneratedFile, workbookRequestFor } from "./environmental-files.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Quarterly runoff and PFAS summary · Foamtally" }];
 
@@ -44,7 +38,7 @@ function periodParams(source: URLSearchParams | FormData): URLSearchParams {
 }
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request, ENVIRONMENTAL_READERS);
+  const user = await requireCapability(request, "exports.quarterly");
   const agency = await agencyFacts();
   const asked = periodParams(new URL(request.url).searchParams);
   const parsed = parseReportPeriod(
@@ -103,14 +97,14 @@ export async function loader({ request }: Route.LoaderArgs) {
         changes: changes.map((change) => ({ ...change, changedAt: localDateTime(change.changedAt, agency.timeZone) })),
       },
       history: history.map((row) => ({ ...row, submittedAt: localDateTime(row.submittedAt, agency.timeZone) })),
-      canSubmit: hasRole(user.roles, ...ENVIRONMENTAL_SUBMITTERS),
+      canSubmit: can(user, "exports.submit"),
     },
     { status: periodError ? 400 : 200 },
   );
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request, ENVIRONMENTAL_SUBMITTERS);
+  const user = await requireCapability(request, "exports.submit");
   const formData = await request.formData();
   const intent = formData.get("intent");
   const agency = await agencyFacts();

@@ -1,32 +1,20 @@
 import { randomUUID } from "node:crypto";
 import type { Route } from "./+types/events.$id.edit";
 import { ReportForm } from "~/components/report-form";
-import { requireUser } from "~/lib/auth.server";
-import { httpError, invariantResponse } from "~/lib/http.server";
-import { REPORT_AUTHORS, REPORT_REVISERS } from "~/lib/report-access";
-import { canEditReport } from "~/models/event.server";
-import { canSeeReport, getReport } from "~/models/event-read.server";
+import { invariantResponse } from "~/lib/http.server";
+import { getReport } from "~/models/event-read.server";
 import { formValuesOf, reportFormOptions } from "~/models/report-options.server";
-import { handleReportSubmission } from "./report-form.server";
-
-const EDITORS = [...new Set([...REPORT_AUTHORS, ...REPORT_REVISERS])];
+import { handleReportSubmission, requireReportChange } from "./report-form.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Edit ${data?.number ?? "report"} · Foamtally` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request, EDITORS);
+  await requireReportChange(request, Number(params.id));
   const report = await getReport(Number(params.id));
-  invariantResponse(
-    report && canSeeReport(user, { status: report.status, created_by: report.createdBy }),
-    "No such report.",
-  );
-  if (!canEditReport(user, { status: report.status, created_by: report.createdBy })) {
-    httpError(403, "Your roles do not allow you to change this report.");
-  }
+  invariantResponse(report, "No such report.");
   return {
     ...(await reportFormOptions()),
     number: report.number,
-    eventId: report.id,
     version: report.version,
     status: report.status,
     reviewComment: report.status === "returned" ? report.reviewComment : null,
@@ -35,8 +23,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  return handleReportSubmission(request, () => requireUser(request, EDITORS));
+export async function action({ request, params }: Route.ActionArgs) {
+  const eventId = Number(params.id);
+  return handleReportSubmission(request, () => requireReportChange(request, eventId), eventId);
 }
 
 export default function EditReport({ loaderData, actionData }: Route.ComponentProps) {

@@ -5,37 +5,37 @@ import type { z } from "zod";
 import type { Route } from "./+types/events.$id";
 import { ErrorList, FormErrors } from "~/components/form-fields";
 import { ReportSummary } from "~/components/report-summary";
-import { requireUser } from "~/lib/auth.server";
+import { can, changeCapabilityFor } from "~/lib/access";
+import { authorize, requireCapability } from "~/lib/access.server";
 import { clientAddress, invariantResponse } from "~/lib/http.server";
 import { EVENT_STATUS_LABELS, ReviewSchema } from "~/lib/foam/report-schema";
-import { REPORT_READERS, REPORT_REVIEWERS } from "~/lib/report-access";
-import { hasRole } from "~/lib/roles";
 import { flashHeaders } from "~/lib/session.server";
-import { canEditReport, reviewReport } from "~/models/event.server";
-import { canSeeReport, getReport, reportHistory } from "~/models/event-read.server";
+import { reviewReport } from "~/models/event.server";
+import { getReport, reportAccessRecord, reportHistory } from "~/models/event-read.server";
 import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
 import { reviewHooks } from "./report-form.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.number ?? "Report"} · Foamtally` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request, REPORT_READERS);
+  const user = await requireCapability(request, "report.read");
   const report = await getReport(Number(params.id));
-  invariantResponse(
-    report && canSeeReport(user, { status: report.status, created_by: report.createdBy }),
-    "No such report.",
-  );
+  invariantResponse(report, "No such report.");
+  authorize(request, user, "report.read", report);
   const { draft: _draft, ...visible } = report;
   return {
     report: visible,
     history: await reportHistory(report.id),
-    canReview: report.status === "filed" && hasRole(user.roles, ...REPORT_REVIEWERS),
-    canEdit: canEditReport(user, { status: report.status, created_by: report.createdBy }),
+    canReview: report.status === "filed" && can(user, "report.review", report),
+    canEdit: can(user, changeCapabilityFor(report.status), report),
   };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireUser(request, REPORT_REVIEWERS);
+  const user = await requireCapability(request, "report.review");
+  const record = await reportAccessRecord(Number(params.id));
+  invariantResponse(record, "No such report.");
+  authorize(request, user, "report.review", record);
   const submission = parseWithZod(await request.formData(), { schema: ReviewSchema });
   if (submission.status !== "success") return data({ result: submission.reply() }, { status: 400 });
   const outcome = await reviewReport(
@@ -52,7 +52,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (outcome.kind !== "done") {
     return data(
       { result: submission.reply({ formErrors: [outcome.message] }) },
-      { status: outcome.kind === "conflict" ? 409 : 400 },
+      { status: outcome.kind === "conflict" ? 409 : outcome.status },
     );
   }
   if (outcome.status === "returned") deliverPendingMailSoon();

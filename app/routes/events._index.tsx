@@ -1,19 +1,18 @@
 import { Form, Link, useSearchParams } from "react-router";
 import type { Route } from "./+types/events._index";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { EVENT_KIND_LABELS, EVENT_KINDS, EVENT_STATUS_LABELS, EVENT_STATUSES } from "~/lib/foam/report-schema";
-import { REPORT_AUTHORS, REPORT_READERS } from "~/lib/report-access";
-import { hasRole } from "~/lib/roles";
+import { can } from "~/lib/access";
 import { listStationOptions } from "~/models/catalogue.server";
 import { listEvents, parseEventFilters, type SortKey } from "~/models/event-read.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Events · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request, REPORT_READERS);
+  const user = await requireCapability(request, "report.read");
   const { filters, errors } = parseEventFilters(new URL(request.url).searchParams);
   const [page, stations] = await Promise.all([listEvents(user, filters), listStationOptions()]);
-  return { ...page, filters, errors, stations, canFile: hasRole(user.roles, ...REPORT_AUTHORS) };
+  return { ...page, filters, errors, stations, canFile: can(user, "report.create") };
 }
 
 const gal = (value: number) => value.toLocaleString("en-US", { maximumFractionDigits: 1 });

@@ -1,9 +1,8 @@
 import type { Route } from "./+types/events.csv";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { csvLine } from "~/lib/csv";
 import { EVENT_KIND_LABELS, EVENT_STATUS_LABELS } from "~/lib/foam/report-schema";
 import { httpError } from "~/lib/http.server";
-import { REPORT_READERS } from "~/lib/report-access";
 import { eachEvent, parseEventFilters } from "~/models/event-read.server";
 
 const HEADER = [
@@ -22,7 +21,7 @@ const HEADER = [
 
 /** The events list as CSV, with the same filters and order, streamed row by row. */
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request, REPORT_READERS);
+  const user = await requireCapability(request, "report.read");
   const { filters, errors } = parseEventFilters(new URL(request.url).searchParams);
   if (Object.keys(errors).length)
     httpError(

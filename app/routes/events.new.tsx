@@ -1,8 +1,7 @@
 import { randomUUID } from "node:crypto";
 import type { Route } from "./+types/events.new";
 import { ReportForm } from "~/components/report-form";
-import { requireUser } from "~/lib/auth.server";
-import { REPORT_AUTHORS } from "~/lib/report-access";
+import { requireCapability } from "~/lib/access.server";
 import { reportFormOptions } from "~/models/report-options.server";
 import { suggestEventNumber } from "~/models/event.server";
 import { handleReportSubmission } from "./report-form.server";
@@ -10,7 +9,7 @@ import { handleReportSubmission } from "./report-form.server";
 export const meta: Route.MetaFunction = () => [{ title: "New usage report · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  await requireUser(request, REPORT_AUTHORS);
+  await requireCapability(request, "report.create");
   const [options, number] = await Promise.all([reportFormOptions(), suggestEventNumber()]);
   return {
     ...options,
@@ -25,7 +24,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  return handleReportSubmission(request, () => requireUser(request, REPORT_AUTHORS));
+  return handleReportSubmission(request, () => requireCapability(request, "report.create"));
 }
 
 export default function NewReport({ loaderData, actionData }: Route.ComponentProps) {

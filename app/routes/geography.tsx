@@ -1,7 +1,7 @@
 import { data, Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/geography";
 import { EventLocationMap } from "~/components/event-location-map";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { isLayerKind, LAYER_RULES, MAX_LAYER_BYTES } from "~/lib/geo/layers";
 import { clientAddress, rethrowDatabaseDown } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
@@ -10,7 +10,7 @@ import { listLayers, replaceLayer, waterwayBufferMetres } from "~/models/geograp
 export const meta: Route.MetaFunction = () => [{ title: "Drainage and waterway layers · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  await requireUser(request, ["environmental"]);
+  await requireCapability(request, "geography.edit");
   const [layers, waterwayBufferM] = await Promise.all([listLayers(), waterwayBufferMetres()]).catch((error) =>
     rethrowDatabaseDown(request, error),
   );
@@ -20,7 +20,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 type ActionResult = { kind: string; errors: string[] };
 
 export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request, ["environmental"]);
+  const user = await requireCapability(request, "geography.edit");
   const refuse = (kind: string, errors: string[], status = 400) => data<ActionResult>({ kind, errors }, { status });
   const declared = Number(request.headers.get("Content-Length") ?? 0);
   if (declared > MAX_LAYER_BYTES + 64 * 1024) {

@@ -1,20 +1,19 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/home";
 import { RoleHome } from "~/components/role-home";
+import { can } from "~/lib/access";
 import { requireUser } from "~/lib/auth.server";
-import { REPORT_REVIEWERS } from "~/lib/report-access";
-import { hasRole } from "~/lib/roles";
 import { awaitingReviewCount, draftsOf, returnedReportsFor } from "~/models/event-read.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Home · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  const officer = hasRole(user.roles, "officer");
+  const author = can(user, "report.create") || can(user, "report.edit");
   const [returned, drafts, awaiting] = await Promise.all([
-    officer ? returnedReportsFor(user) : [],
-    officer ? draftsOf(user) : [],
-    hasRole(user.roles, ...REPORT_REVIEWERS) ? awaitingReviewCount() : null,
+    author ? returnedReportsFor(user) : [],
+    author ? draftsOf(user) : [],
+    can(user, "report.review") ? awaitingReviewCount() : null,
   ]);
   return { name: user.name, roles: user.roles, returned, drafts, awaiting };
 }

@@ -11,7 +11,7 @@ import {
   type OverlayId,
   type UsageMapControl,
 } from "~/components/usage-map";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { eventsInView, type MappedEventFeature } from "~/lib/geo/events-in-view";
 import { EVENT_KINDS, mapQuery, parseMapFilters, type BoundingBox } from "~/lib/geo/map-filters";
 import { httpError, rethrowDatabaseDown } from "~/lib/http.server";
@@ -29,7 +29,7 @@ function defaultRange(timeZone: string) {
 }
 
 export async function loader({ request }: Route.LoaderArgs) {
-  await requireUser(request, ["chief", "environmental"]);
+  await requireCapability(request, "usage.map");
   const timeZone = await agencyTimeZone().catch((error) => rethrowDatabaseDown(request, error));
   const params = new URL(request.url).searchParams;
   const range = defaultRange(timeZone);

@@ -3,7 +3,7 @@ import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/products.$productId";
 import { CheckboxField, ErrorList, FormErrors, SelectField, TextAreaField, TextField } from "~/components/form-fields";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import {
   FOAM_TYPE_LABELS,
   FOAM_TYPES,
@@ -15,7 +15,7 @@ import {
 } from "~/lib/catalogue/product-form";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
-import { hasRole } from "~/lib/roles";
+import { can } from "~/lib/access";
 import { flashHeaders } from "~/lib/session.server";
 import { StorageUnavailableError } from "~/lib/storage.server";
 import { DuplicateProductNameError, getProduct, saveProduct, type SafetySheetUpload } from "~/models/product.server";
@@ -32,9 +32,9 @@ function productIdOf(params: { productId?: string }): number | null {
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request, ["environmental", "chief"]);
+  const user = await requireCapability(request, "catalogue.read");
   const id = productIdOf(params);
-  const canEdit = hasRole(user.roles, "environmental");
+  const canEdit = can(user, "catalogue.edit");
   if (id == null) {
     invariantResponse(canEdit, "Only an environmental officer adds foam products.", 403);
     return { product: null, canEdit };
@@ -45,7 +45,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireUser(request, ["environmental"]);
+  const user = await requireCapability(request, "catalogue.edit");
   const id = productIdOf(params);
   // Refuse an oversized upload before reading it into memory (the form's other fields are small).
   const declared = Number(request.headers.get("Content-Length") ?? 0);

@@ -1,15 +1,15 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/products";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { FOAM_TYPE_LABELS, PFAS_CONTENT_UNIT_LABELS } from "~/lib/catalogue/product-form";
-import { hasRole } from "~/lib/roles";
+import { can } from "~/lib/access";
 import { listProducts } from "~/models/product.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Foam products · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request, ["environmental", "chief"]);
-  return { products: await listProducts(), canEdit: hasRole(user.roles, "environmental") };
+  const user = await requireCapability(request, "catalogue.read");
+  return { products: await listProducts(), canEdit: can(user, "catalogue.edit") };
 }
 
 export default function Products({ loaderData }: Route.ComponentProps) {

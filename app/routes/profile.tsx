@@ -6,7 +6,7 @@ import { FormErrors, TextField } from "~/components/form-fields";
 import { CreateApiTokenSchema, MAX_ACTIVE_TOKENS, RevokeApiTokenSchema } from "~/lib/api-token-form";
 import { requireUser } from "~/lib/auth.server";
 import { clientAddress } from "~/lib/http.server";
-import { ROLE_LABELS } from "~/lib/roles";
+import { ROLE_LABELS } from "~/lib/access";
 import { commitSession, flashHeaders, getSession } from "~/lib/session.server";
 import { ChangePasswordSchema } from "~/lib/user-forms";
 import {

@@ -1,10 +1,20 @@
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, redirect } from "react-router";
-import type { SessionUser } from "~/lib/auth.server";
+import { changeCapabilityFor } from "~/lib/access";
+import { authorize } from "~/lib/access.server";
+import { requireUser, type SessionUser } from "~/lib/auth.server";
 import { DraftPayloadSchema, FiledReportSchema, ReportIntentSchema, type FiledReport } from "~/lib/foam/report-schema";
-import { clientAddress, DATABASE_DOWN_MESSAGE, isDatabaseDown, isDatabaseDownResponse } from "~/lib/http.server";
+import {
+  clientAddress,
+  DATABASE_DOWN_MESSAGE,
+  invariantResponse,
+  isDatabaseDown,
+  isDatabaseDownResponse,
+  rethrowDatabaseDown,
+} from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { reviewReport, saveReport, type SaveHooks } from "~/models/event.server";
+import { reportAccessRecord } from "~/models/event-read.server";
 import { recomputeEventGeography } from "~/models/geography.server";
 import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
 import { queueFiledReportAlerts, queueReturnedReportNotice } from "~/models/report-notifications.server";
@@ -22,10 +32,23 @@ export const reviewHooks: Parameters<typeof reviewReport>[1] = {
 };
 
 /**
- * The action behind the new-report and edit-report pages. Drafts are saved exactly as typed; filing
- * validates every field. Failures come back with every value kept, so nothing typed is lost.
+ * The guard of the edit page: the report named in the URL, if this person may change it (edit it,
+ * or revise it once accepted). A report they may not read is a 404, one they may not change a 403.
  */
-export async function handleReportSubmission(request: Request, guard: () => Promise<SessionUser>) {
+export async function requireReportChange(request: Request, eventId: number): Promise<SessionUser> {
+  const user = await requireUser(request);
+  const record = await reportAccessRecord(eventId).catch((error) => rethrowDatabaseDown(request, error));
+  invariantResponse(record, "No such report.");
+  authorize(request, user, changeCapabilityFor(record.status), record);
+  return user;
+}
+
+/**
+ * The action behind the new-report and edit-report pages. The report acted on is the one in the URL
+ * (`eventId`, none for a new report), never one named in the body. Drafts are saved exactly as
+ * typed; filing validates every field. Failures come back with every value kept, so nothing typed is lost.
+ */
+export async function handleReportSubmission(request: Request, guard: () => Promise<SessionUser>, eventId?: number) {
   const formData = await request.formData();
   let user: SessionUser;
   try {
@@ -40,7 +63,6 @@ export async function handleReportSubmission(request: Request, guard: () => Prom
   }
   const intent = ReportIntentSchema.safeParse({
     intent: formData.get("intent"),
-    eventId: formData.get("eventId") ? Number(formData.get("eventId")) : undefined,
     version: formData.get("version") ? Number(formData.get("version")) : undefined,
     submissionKey: formData.get("submissionKey"),
     revisionReason: formData.get("revisionReason") || undefined,
@@ -68,7 +90,7 @@ export async function handleReportSubmission(request: Request, guard: () => Prom
       {
         user,
         intent: intent.data.intent,
-        eventId: intent.data.eventId,
+        eventId,
         version: intent.data.version,
         submissionKey: intent.data.submissionKey,
         payload: submission.payload,

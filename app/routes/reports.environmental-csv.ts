@@ -1,11 +1,11 @@
 import type { Route } from "./+types/reports.environmental-csv";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { rethrowDatabaseDown } from "~/lib/http.server";
-import { ENVIRONMENTAL_READERS, generatedDownload, periodFrom, workbookRequestFor } from "./environmental-files.server";
+import { generatedDownload, periodFrom, workbookRequestFor } from "./environmental-files.server";
 
 /** The workbook's tables as one CSV file each, zipped. */
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request, ENVIRONMENTAL_READERS);
+  const user = await requireCapability(request, "exports.quarterly");
   const period = await periodFrom(new URL(request.url).searchParams);
   try {
     return await generatedDownload("zip", await workbookRequestFor(period, user));

@@ -3,14 +3,12 @@ import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, redirect } from "react-router";
 import type { Route } from "./+types/stations.$stationId";
 import { CheckboxField, FormErrors, TextField } from "~/components/form-fields";
-import { requireUser } from "~/lib/auth.server";
+import { requireCapability } from "~/lib/access.server";
 import { StationFormSchema } from "~/lib/catalogue/apparatus-form";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { DuplicateCodeError, getStation, saveStation } from "~/models/apparatus.server";
-
-const MANAGERS = ["chief", "admin"] as const;
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `${data?.station ? `Station ${data.station.code}` : "New station"} · Foamtally` },
@@ -24,7 +22,7 @@ function stationIdOf(params: { stationId?: string }): number | null {
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireUser(request, [...MANAGERS]);
+  await requireCapability(request, "apparatus.edit");
   const id = stationIdOf(params);
   if (id == null) return { station: null };
   const station = await getStation(id);
@@ -33,7 +31,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireUser(request, [...MANAGERS]);
+  const user = await requireCapability(request, "apparatus.edit");
   const id = stationIdOf(params);
   const formData = await request.formData();
   const submission = parseWithZod(formData, { schema: StationFormSchema });

@@ -43,7 +43,7 @@ beforeAll(async () => {
     nominal_percents: "3,6",
     pfas_containing: true,
   });
-  const officer = await makeUser(["officer"], "Officer Test");
+  const officer = await makeUser(["officer"], "Officer Test", { stationId });
   const reviewer = await makeUser(["environmental"], "Reviewer Test");
   officerCookie = await signIn(officer.email, TEST_PASSWORD);
   reviewerCookie = await signIn(reviewer.email, TEST_PASSWORD);
@@ -213,7 +213,7 @@ describe("filing a usage report", () => {
       post(
         editAction,
         `/events/${event.id}/edit`,
-        { ...fields, ...changes, eventId: String(event.id), version: "1", submissionKey: randomUUID() },
+        { ...fields, ...changes, version: "1", submissionKey: randomUUID() },
         officerCookie,
         {
           id: String(event.id),
@@ -269,7 +269,6 @@ describe("review", () => {
       {
         ...fields,
         "discharges[1].outlet": "Foam cart",
-        eventId: String(event.id),
         version: "2",
         submissionKey: randomUUID(),
       },
@@ -283,7 +282,7 @@ describe("review", () => {
     const noReason = await post(
       editAction,
       `/events/${event.id}/edit`,
-      { ...fields, eventId: String(event.id), version: "4", submissionKey: randomUUID() },
+      { ...fields, version: "4", submissionKey: randomUUID() },
       officerCookie,
       params,
     );
@@ -295,7 +294,6 @@ describe("review", () => {
         ...fields,
         "discharges[0].minutes": "12",
         revisionReason: "Pump log shows 12 minutes",
-        eventId: String(event.id),
         version: "4",
         submissionKey: randomUUID(),
       },

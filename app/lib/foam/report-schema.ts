@@ -273,7 +273,6 @@ export const DraftPayloadSchema = z.looseObject({});
 /** Which form action was asked for. Revisions of accepted reports need a reason. */
 export const ReportIntentSchema = z.object({
   intent: z.enum(["save-draft", "file"], { error: "Choose to save a draft or to file." }),
-  eventId: z.number().int().positive().optional(),
   version: z.number().int().positive().optional(),
   submissionKey: z.string().regex(/^[A-Za-z0-9-]{8,64}$/, "The form is out of date; reload it."),
   revisionReason: z.string().trim().max(500, "A reason has at most 500 characters.").optional(),

@@ -1,0 +1,287 @@
+/**
+ * Who may do what in Foamtally: the one table of roles and capabilities. Every route guard, the
+ * navigation, the home page's tasks and the README's role table are read from here. Pure and
+ * browser-safe; the server guard is `requireCapability` in `access.server.ts`.
+ */
+
+export const ROLES = ["officer", "environmental", "chief", "records", "admin"] as const;
+export type Role = (typeof ROLES)[number];
+
+export const ROLE_LABELS: Record<Role, string> = {
+  officer: "Company officer",
+  environmental: "Environmental officer",
+  chief: "Chief",
+  records: "Records clerk",
+  admin: "Administrator",
+};
+
+export function isRole(value: unknown): value is Role {
+  return typeof value === "string" && (ROLES as readonly string[]).includes(value);
+}
+
+/** Who is asking: enough of the signed-in person to decide. */
+export type Principal = { id: number; roles: readonly Role[]; stationId: number | null };
+
+export type ReportStatus = "draft" | "filed" | "returned" | "accepted";
+/** What the rules need to know about a usage report. */
+export type ReportRecord = { status: ReportStatus; createdBy: number; stationId: number | null };
+/** What the rules need to know about an account being changed. */
+export type AccountRecord = { roles: readonly Role[] };
+
+type Rule<R> = { says: string; holds: (principal: Principal, record: R) => boolean };
+
+const sameStation = (principal: Principal, report: ReportRecord) =>
+  principal.stationId !== null && report.stationId === principal.stationId;
+
+/** The rules on records, each with the words the README shows. */
+export const REPORT_RULES = {
+  notADraftOfOthers: {
+    says: "all but the drafts of others",
+    holds: (principal, report) => report.status !== "draft" || report.createdBy === principal.id,
+  },
+  ownDraftOrOwnStationReturned: {
+    says: "own drafts and filed reports; returned ones of their own station or their own",
+    holds: (principal, report) =>
+      report.status === "draft" || report.status === "filed"
+        ? report.createdBy === principal.id
+        : report.status === "returned" && (report.createdBy === principal.id || sameStation(principal, report)),
+  },
+  filedOnly: {
+    says: "filed reports",
+    holds: (_principal, report) => report.status === "filed",
+  },
+  accepted: {
+    says: "accepted reports",
+    holds: (_principal, report) => report.status === "accepted",
+  },
+  acceptedOfOwnStation: {
+    says: "accepted reports of their own station",
+    holds: (principal, report) => report.status === "accepted" && sameStation(principal, report),
+  },
+} satisfies Record<string, Rule<ReportRecord>>;
+
+export const ACCOUNT_RULES = {
+  notAnAdministrator: {
+    says: "people who are not administrators",
+    holds: (_principal, account) => !account.roles.includes("admin"),
+  },
+} satisfies Record<string, Rule<AccountRecord>>;
+
+type Grant<R> = { roles: readonly Role[]; rule?: Rule<R> };
+
+type CapabilityDefinition<R = never> = {
+  /** What it lets a person do, in the README's words. */
+  does: string;
+  grants: readonly Grant<R>[];
+  /**
+   * A record that fails this capability is answered as if it did not exist (404), so that neither
+   * its existence nor its version can be probed.
+   */
+  hiddenUnless?: "report.read";
+};
+
+const report = <C extends CapabilityDefinition<ReportRecord>>(definition: C) => definition;
+const account = <C extends CapabilityDefinition<AccountRecord>>(definition: C) => definition;
+const plain = <C extends CapabilityDefinition>(definition: C) => definition;
+
+/** The access table. The order is the order of the README's table. */
+export const CAPABILITIES = {
+  "report.create": plain({ does: "start and file a usage report", grants: [{ roles: ["officer"] }] }),
+  "report.read": report({
+    does: "read usage reports, their lists and the events CSV",
+    grants: [{ roles: ["officer", "environmental", "chief", "records"], rule: REPORT_RULES.notADraftOfOthers }],
+    hiddenUnless: "report.read",
+  }),
+  "report.edit": report({
+    does: "change a draft, filed or returned report and file it",
+    grants: [
+      { roles: ["officer"], rule: REPORT_RULES.ownDraftOrOwnStationReturned },
+      { roles: ["environmental", "chief"], rule: REPORT_RULES.filedOnly },
+    ],
+    hiddenUnless: "report.read",
+  }),
+  "report.revise": report({
+    does: "file a revision of an accepted report, with its reason",
+    grants: [
+      { roles: ["officer"], rule: REPORT_RULES.acceptedOfOwnStation },
+      { roles: ["environmental", "chief"], rule: REPORT_RULES.accepted },
+    ],
+    hiddenUnless: "report.read",
+  }),
+  "report.review": report({
+    does: "accept a filed report or return it with a comment",
+    grants: [{ roles: ["environmental", "chief"] }],
+    hiddenUnless: "report.read",
+  }),
+  "usage.map": plain({ does: "see usage on the map and its totals", grants: [{ roles: ["environmental", "chief"] }] }),
+  "geography.read": plain({
+    does: "look up drainage basins, waterways, inlets and addresses",
+    grants: [{ roles: ["officer", "environmental", "chief"] }],
+  }),
+  "geography.edit": plain({ does: "replace the drainage and waterway layers", grants: [{ roles: ["environmental"] }] }),
+  "exports.quarterly": plain({
+    does: "read and download the quarterly runoff and PFAS summaries and submitted files",
+    grants: [{ roles: ["environmental", "chief"] }],
+  }),
+  "exports.submit": plain({
+    does: "mark a quarter submitted and send it to the report recipients",
+    grants: [{ roles: ["environmental"] }],
+  }),
+  "catalogue.read": plain({ does: "read the foam-product catalogue", grants: [{ roles: ["environmental", "chief"] }] }),
+  "catalogue.edit": plain({
+    does: "add and change foam products and their safety sheets",
+    grants: [{ roles: ["environmental"] }],
+  }),
+  "apparatus.edit": plain({
+    does: "add and change apparatus, their foam systems and stations",
+    grants: [{ roles: ["chief", "admin"] }],
+  }),
+  "users.manage": account({
+    does: "add people, change their names and roles, deactivate them",
+    grants: [{ roles: ["admin"] }, { roles: ["chief"], rule: ACCOUNT_RULES.notAnAdministrator }],
+  }),
+  "users.grant-admin": plain({ does: "give or take away the administrator role", grants: [{ roles: ["admin"] }] }),
+  "settings.read": plain({ does: "read the agency settings", grants: [{ roles: ["chief", "admin"] }] }),
+  "settings.edit": plain({ does: "change the agency settings", grants: [{ roles: ["admin"] }] }),
+  "outbox.view": plain({ does: "read the mail outbox and retry failed mail", grants: [{ roles: ["admin"] }] }),
+  "records.manage": plain({
+    does: "log and answer public-records requests (planned)",
+    grants: [{ roles: ["records"] }],
+  }),
+} as const satisfies Record<string, CapabilityDefinition<ReportRecord> | CapabilityDefinition<AccountRecord>>;
+
+export type Capability = keyof typeof CAPABILITIES;
+export const CAPABILITY_NAMES = Object.keys(CAPABILITIES) as Capability[];
+
+/** The record a capability's rules look at (none for capabilities without rules). */
+export type RecordFor<C extends Capability> = C extends `report.${string}`
+  ? ReportRecord
+  : C extends "users.manage"
+    ? AccountRecord
+    : never;
+
+function grantsOf(capability: Capability): readonly Grant<unknown>[] {
+  return CAPABILITIES[capability].grants as readonly Grant<unknown>[];
+}
+
+/** The roles any grant of the capability names (with or without a rule on the record). */
+export function rolesFor(capability: Capability): Role[] {
+  return ROLES.filter((role) => grantsOf(capability).some((grant) => grant.roles.includes(role)));
+}
+
+/**
+ * Whether the principal may use the capability: on a given record when one is given, or on some
+ * record at all (the page may open; the record decides later) when none is.
+ */
+export function can<C extends Capability>(principal: Principal, capability: C, record?: RecordFor<C>): boolean {
+  const target: unknown = record;
+  return grantsOf(capability).some(
+    (grant) =>
+      grant.roles.some((role) => principal.roles.includes(role)) &&
+      (target === undefined || !grant.rule || grant.rule.holds(principal, target)),
+  );
+}
+
+/** Whether holding these roles alone opens the capability (navigation and home tasks). */
+export function rolesCan(roles: readonly Role[], capability: Capability): boolean {
+  return rolesFor(capability).some((role) => roles.includes(role));
+}
+
+export type AccessDecision = "allow" | "sign-in" | "forbidden" | "hidden";
+
+/** The full decision for one request: not signed in, no such record for you, not allowed, or allowed. */
+export function decide<C extends Capability>(
+  principal: Principal | null,
+  capability: C | "signed-in",
+  record?: RecordFor<C>,
+): AccessDecision {
+  if (!principal) return "sign-in";
+  if (capability === "signed-in") return "allow";
+  const hiddenUnless = (CAPABILITIES[capability] as CapabilityDefinition<unknown>).hiddenUnless;
+  const check = can as (principal: Principal, capability: Capability, record?: unknown) => boolean;
+  if (record !== undefined && hiddenUnless && !check(principal, hiddenUnless, record)) return "hidden";
+  return check(principal, capability, record) ? "allow" : "forbidden";
+}
+
+/** Changing a report is editing it, or revising it once it is accepted. */
+export function changeCapabilityFor(status: ReportStatus): "report.edit" | "report.revise" {
+  return status === "accepted" ? "report.revise" : "report.edit";
+}
+
+// ---------------------------------------------------------------------------------------------
+// Routes: every entry of `app/routes.ts` names what its loader (GET) and action (POST) need.
+
+export type RouteRequirement = Capability | "signed-in" | "public";
+export type RouteAccess = { GET?: RouteRequirement; POST?: RouteRequirement };
+
+export const ROUTE_ACCESS: Record<string, RouteAccess> = {
+  "": { GET: "signed-in" },
+  "sign-in": { GET: "public", POST: "public" },
+  "sign-out": { GET: "public", POST: "public" },
+  profile: { GET: "signed-in", POST: "signed-in" },
+  "admin/users": { GET: "users.manage", POST: "users.manage" },
+  "admin/settings": { GET: "settings.read", POST: "settings.edit" },
+  "api/me": { GET: "signed-in" },
+  events: { GET: "report.read" },
+  "events.csv": { GET: "report.read" },
+  "events/new": { GET: "report.create", POST: "report.create" },
+  "events/:id": { GET: "report.read", POST: "report.review" },
+  // The record's status decides between report.edit and report.revise (`changeCapabilityFor`).
+  "events/:id/edit": { GET: "report.edit", POST: "report.edit" },
+  "api/totals": { GET: "signed-in", POST: "signed-in" },
+  "api/events": { GET: "report.read" },
+  "api/events/:id": { GET: "report.read" },
+  map: { GET: "usage.map" },
+  geography: { GET: "geography.edit", POST: "geography.edit" },
+  "tiles/:z/:x/:file": { GET: "signed-in" },
+  "api/geo/check": { GET: "geography.read" },
+  "api/geo/addresses": { GET: "geography.read" },
+  "api/geo/layers/:kind": { GET: "geography.read" },
+  "api/map/events.geojson": { GET: "usage.map" },
+  "api/summary": { GET: "usage.map" },
+  products: { GET: "catalogue.read" },
+  "products/:productId": { GET: "catalogue.read", POST: "catalogue.edit" },
+  "products/:productId/safety-sheet": { GET: "signed-in" },
+  apparatus: { GET: "apparatus.edit" },
+  "apparatus/:apparatusId": { GET: "apparatus.edit", POST: "apparatus.edit" },
+  "stations/:stationId": { GET: "apparatus.edit", POST: "apparatus.edit" },
+  environmental: { GET: "exports.quarterly", POST: "exports.submit" },
+  "environmental/submissions/:id": { GET: "exports.quarterly" },
+  "reports/environmental.xlsx": { GET: "exports.quarterly" },
+  "reports/environmental.csv": { GET: "exports.quarterly" },
+  "admin/outbox": { GET: "outbox.view", POST: "outbox.view" },
+  "*": { GET: "public" },
+};
+
+/** API tokens sign in on these paths only; pages, downloads and form actions need a session. */
+export function acceptsApiToken(pathname: string): boolean {
+  return pathname.startsWith("/api/");
+}
+
+// ---------------------------------------------------------------------------------------------
+// The README's role table, generated from the table above (`npm run access:table`).
+
+export function accessTableMarkdown(): string {
+  const header = ["| capability | what it allows | " + ROLES.map((role) => ROLE_LABELS[role]).join(" | ") + " |"];
+  header.push("| --- | --- | " + ROLES.map(() => "---").join(" | ") + " |");
+  const rows = CAPABILITY_NAMES.map((capability) => {
+    const cells = ROLES.map((role) => {
+      const grant = grantsOf(capability).find((candidate) => candidate.roles.includes(role));
+      if (!grant) return "";
+      return grant.rule ? grant.rule.says : "yes";
+    });
+    return `| \`${capability}\` | ${CAPABILITIES[capability].does} | ${cells.join(" | ")} |`;
+  });
+  return [...header, ...rows].join("\n");
+}
+
+export const ACCESS_TABLE_START = "<!-- access-table:start (generated by npm run access:table) -->";
+export const ACCESS_TABLE_END = "<!-- access-table:end -->";
+
+/** The README with its generated table replaced by the current one. */
+export function withAccessTable(readme: string): string {
+  const start = readme.indexOf(ACCESS_TABLE_START);
+  const end = readme.indexOf(ACCESS_TABLE_END);
+  if (start < 0 || end < start) throw new Error("README has no access-table markers");
+  return `${readme.slice(0, start + ACCESS_TABLE_START.length)}\n\n${accessTableMarkdown()}\n\n${readme.slice(end)}`;
+}
