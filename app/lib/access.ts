@@ -189,7 +189,10 @@ export function rolesCan(roles: readonly Role[], capability: Capability): boolea
 
 export type AccessDecision = "allow" | "sign-in" | "forbidden" | "hidden";
 
-/** The full decision for one request: not signed in, no such record for you, not allowed, or allowed. */
+/**
+ * The full decision for one request: not signed in; not for your roles; no such record for you
+ * (a record the capability's `hiddenUnless` does not let you see); not this record; or allowed.
+ */
 export function decide<C extends Capability>(
   principal: Principal | null,
   capability: C | "signed-in",
@@ -199,6 +202,8 @@ export function decide<C extends Capability>(
   if (capability === "signed-in") return "allow";
   const hiddenUnless = (CAPABILITIES[capability] as CapabilityDefinition<unknown>).hiddenUnless;
   const check = can as (principal: Principal, capability: Capability, record?: unknown) => boolean;
+  // A role that never has the capability is refused whatever the record, which stays unprobed.
+  if (!check(principal, capability)) return "forbidden";
   if (record !== undefined && hiddenUnless && !check(principal, hiddenUnless, record)) return "hidden";
   return check(principal, capability, record) ? "allow" : "forbidden";
 }
@@ -250,7 +255,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "reports/environmental.xlsx": { GET: "exports.quarterly" },
   "reports/environmental.csv": { GET: "exports.quarterly" },
   "admin/outbox": { GET: "outbox.view", POST: "outbox.view" },
-  "*": { GET: "public" },
+  "*": { GET: "public", POST: "public" },
 };
 
 /** API tokens sign in on these paths only; pages, downloads and form actions need a session. */
