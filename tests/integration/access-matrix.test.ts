@@ -112,7 +112,9 @@ beforeAll(async () => {
 });
 
 /** The URL and params each route is requested with, and the record its rule looks at. */
-function targetsOf(key: string): Array<{ label: string; url: string; params: Record<string, string>; record?: ReportRecord }> {
+function targetsOf(
+  key: string,
+): Array<{ label: string; url: string; params: Record<string, string>; record?: ReportRecord }> {
   if (key === "events/:id" || key === "events/:id/edit" || key === "api/events/:id") {
     return reports.map((report) => ({
       label: report.label,
@@ -219,8 +221,8 @@ describe("every route × principal × record", () => {
               requirement === "public"
                 ? true
                 : want === "allow"
-                ? got === "other" || (got === "hidden" && !target.record && key !== "events/:id")
-                : got === want;
+                  ? got === "other" || (got === "hidden" && !target.record && key !== "events/:id")
+                  : got === want;
             if (!ok || status >= 500) {
               mismatches.push(
                 `${method} ${target.url}${target.label ? ` (${target.label})` : ""} as ${caller.name}: expected ${want}, got ${got} (${status})`,
