@@ -15,6 +15,9 @@ export const ROLE_LABELS: Record<Role, string> = {
   admin: "Administrator",
 };
 
+/** The role that only its own holders may give or take away (`users.grant-admin`). */
+export const ADMINISTRATOR: Role = "admin";
+
 export function isRole(value: unknown): value is Role {
   return typeof value === "string" && (ROLES as readonly string[]).includes(value);
 }
@@ -63,7 +66,7 @@ export const REPORT_RULES = {
 export const ACCOUNT_RULES = {
   notAnAdministrator: {
     says: "people who are not administrators",
-    holds: (_principal, account) => !account.roles.includes("admin"),
+    holds: (_principal, account) => !account.roles.includes(ADMINISTRATOR),
   },
 } satisfies Record<string, Rule<AccountRecord>>;
 
@@ -144,6 +147,10 @@ export const CAPABILITIES = {
   "settings.read": plain({ does: "read the agency settings", grants: [{ roles: ["chief", "admin"] }] }),
   "settings.edit": plain({ does: "change the agency settings", grants: [{ roles: ["admin"] }] }),
   "outbox.view": plain({ does: "read the mail outbox and retry failed mail", grants: [{ roles: ["admin"] }] }),
+  "alerts.release": plain({
+    does: "receive release alerts by e-mail when a filed report may have released foam",
+    grants: [{ roles: ["environmental"] }],
+  }),
   "records.manage": plain({
     does: "log and answer public-records requests (planned)",
     grants: [{ roles: ["records"] }],

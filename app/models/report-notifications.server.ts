@@ -1,4 +1,5 @@
 import type { Knex } from "knex";
+import { rolesFor } from "~/lib/access";
 import { recordAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { gramsToPoundsMass, isPfasContentUnit, pfasGrams } from "~/lib/foam/pfas";
@@ -27,7 +28,8 @@ export function eventLink(eventId: number): string {
 async function environmentalOfficerEmails(trx: Knex.Transaction): Promise<string[]> {
   return trx("users")
     .join("user_roles", "user_roles.user_id", "users.id")
-    .where({ "user_roles.role": "environmental", "users.active": true })
+    .whereIn("user_roles.role", rolesFor("alerts.release"))
+    .where({ "users.active": true })
     .pluck("users.email");
 }
 

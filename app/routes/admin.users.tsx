@@ -3,7 +3,7 @@ import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/admin.users";
 import { ErrorList, FormErrors, TextField } from "~/components/form-fields";
-import { can, ROLE_LABELS, ROLES, type Role } from "~/lib/access";
+import { ADMINISTRATOR, can, ROLE_LABELS, ROLES, type Role } from "~/lib/access";
 import { authorize, requireCapability } from "~/lib/access.server";
 import { clientAddress } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
@@ -84,7 +84,7 @@ export async function action({ request }: Route.ActionArgs) {
     return data({ intent: "update", result: submission.reply({ formErrors: ["No such person."] }) }, { status: 404 });
   }
   authorize(request, actor, "users.manage", target);
-  const adminChanged = target.roles.includes("admin") !== roles.includes("admin");
+  const adminChanged = target.roles.includes(ADMINISTRATOR) !== roles.includes(ADMINISTRATOR);
   if (adminChanged && !can(actor, "users.grant-admin")) {
     return data({ intent: "update", result: submission.reply({ formErrors: [GRANT_ADMIN_REFUSED] }) }, { status: 403 });
   }
@@ -116,7 +116,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
   });
   const updateErrors = actionData?.intent === "update" ? actionData.result.error?.[""] : undefined;
   const { stations, canGrantAdmin } = loaderData;
-  const grantable = ROLES.filter((role) => role !== "admin" || canGrantAdmin);
+  const grantable = ROLES.filter((role) => role !== ADMINISTRATOR || canGrantAdmin);
   return (
     <div className="space-y-6">
       <h1 className="text-2xl font-bold">People and roles</h1>
