@@ -9,7 +9,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Home · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  const author = can(user, "report.create") || can(user, "report.edit");
+  const author = can(user, "report.create");
   const [returned, drafts, awaiting] = await Promise.all([
     author ? returnedReportsFor(user) : [],
     author ? draftsOf(user) : [],
