@@ -1,0 +1,25 @@
+import { describe, expect, it } from "vitest";
+import { navFor } from "./navigation";
+import { tasksFor } from "./role-home";
+
+describe("the menu and the home page follow the access table", () => {
+  it("gives the administrator accounts and settings but no reports", () => {
+    const menu = navFor(["admin"]).map((item) => item.to);
+    expect(menu).toEqual(["/", "/admin/users", "/admin/settings", "/apparatus"]);
+    expect(tasksFor("admin").some((task) => task.to?.startsWith("/events"))).toBe(false);
+  });
+
+  it("gives a person with two roles the menu items of both, once each", () => {
+    const menu = navFor(["admin", "records"]).map((item) => item.to);
+    expect(menu).toContain("/events");
+    expect(menu).toContain("/admin/users");
+    expect(new Set(menu).size).toBe(menu.length);
+  });
+
+  it("offers the review queue to reviewers only, and filing to officers only", () => {
+    expect(tasksFor("environmental").map((task) => task.to)).toContain("/events?status=filed");
+    expect(tasksFor("officer").map((task) => task.to)).not.toContain("/events?status=filed");
+    expect(tasksFor("officer").map((task) => task.to)).toContain("/events/new");
+    expect(tasksFor("chief").map((task) => task.to)).not.toContain("/events/new");
+  });
+});
