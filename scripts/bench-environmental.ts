@@ -8,8 +8,8 @@ import os from "node:os";
 import path from "node:path";
 
 if (existsSync(".env")) process.loadEnvFile(".env");
-const BENCH_DB = process.env.BENCH_DB_NAME || "foamtally_bench_env";
-if (!/^foamtally_bench\w*$/.test(BENCH_DB)) throw new Error(`Refusing to use ${BENCH_DB} as a throwaway database`);
+const { benchDatabaseName, dropBenchDatabase, freshBenchDatabase } = await import("./bench-database");
+const BENCH_DB = benchDatabaseName("foamtally_bench_env");
 
 const SIZES = [
   { discharges: 50_000, year: 2030, quarter: 1 },
@@ -18,21 +18,11 @@ const SIZES = [
 const DISCHARGES_PER_EVENT = 4;
 
 async function fill() {
-  const { default: knexFactory } = await import("knex");
-  const { default: config } = await import("../knexfile");
-  const connection = { ...(config.connection as Record<string, unknown>) };
-  const server = knexFactory({ ...config, connection: { ...connection, database: undefined } });
-  await server.raw(`DROP DATABASE IF EXISTS \`${BENCH_DB}\``);
-  await server.raw(`CREATE DATABASE \`${BENCH_DB}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
-  await server.destroy();
-  const knex = knexFactory({ ...config, connection: { ...connection, database: BENCH_DB } });
-  await knex.migrate.latest();
-  await knex("agency_settings").insert({
-    id: 1,
+  const { EVENT_KINDS, DISPOSITIONS } = await import("../app/lib/foam/vocabulary");
+  const { insertReportLinesInBatches, statedResults, totalsColumns } = await import("../app/models/report-rows.server");
+  const knex = await freshBenchDatabase(BENCH_DB, {
     name: "Benchmark district (synthetic)",
     time_zone: "America/Chicago",
-    report_recipients: "",
-    release_alert_recipients: "",
   });
   const [userId] = await knex("users").insert({
     email: "bench@bench.example",
@@ -62,92 +52,77 @@ async function fill() {
     });
     products.push({ id, percent, pfas });
   }
-  const kinds = ["incident", "incident", "training", "test", "flush"] as const;
-  const dispositions = [
-    "contained",
-    "soil",
-    "storm_drain",
-    "surface_water",
-    "sanitary_sewer",
-    "evaporated_unknown",
-  ] as const;
+  const kinds = ["incident", ...EVENT_KINDS];
   let eventNumber = 0;
   for (const size of SIZES) {
     const start = Date.UTC(size.year, (size.quarter - 1) * 3, 2);
     const span = 85 * 86_400_000;
     const events = size.discharges / DISCHARGES_PER_EVENT;
     for (let batch = 0; batch < events; batch += 500) {
-      const eventRows = [];
+      const reports = [];
       for (let i = batch; i < Math.min(events, batch + 500); i++) {
         eventNumber++;
-        eventRows.push({
-          number: `BENCH-${String(eventNumber).padStart(7, "0")}`,
-          kind: kinds[i % kinds.length],
-          status: i % 10 === 9 ? "filed" : "accepted",
-          started_at: new Date(start + Math.floor((i / events) * span)),
-          address: `${i} Bench Road`,
-          latitude: 38.7,
-          longitude: -98.2,
-          station_id: stationId,
-          created_by: userId,
-          drainage_basin: `Basin ${i % 7}`,
-          nearest_waterway: `Creek ${i % 5}`,
-          nearest_waterway_m: 100 + (i % 900),
+        const index = i - batch;
+        const discharges = [];
+        for (let position = 1; position <= DISCHARGES_PER_EVENT; position++) {
+          const product = products[(index + position) % products.length];
+          const minutes = 5 + ((index * 7 + position) % 20);
+          const water = 95 * minutes;
+          discharges.push({
+            line: {
+              apparatusId: apparatus[position % apparatus.length],
+              outlet: `Line ${position}`,
+              productId: product.id,
+              percent: product.percent,
+              flow: 95,
+              minutes,
+            },
+            stated: { water, concentrate: (water * product.percent) / 100, effectivePercent: product.percent },
+            pfas: product.pfas,
+          });
+        }
+        const computed = statedResults(
+          discharges.map((discharge) => discharge.stated),
+          discharges.some((discharge) => discharge.pfas),
+        );
+        reports.push({
+          row: {
+            number: `BENCH-${String(eventNumber).padStart(7, "0")}`,
+            kind: kinds[i % kinds.length],
+            status: i % 10 === 9 ? "filed" : "accepted",
+            started_at: new Date(start + Math.floor((i / events) * span)),
+            address: `${i} Bench Road`,
+            latitude: 38.7,
+            longitude: -98.2,
+            station_id: stationId,
+            created_by: userId,
+            drainage_basin: `Basin ${i % 7}`,
+            nearest_waterway: `Creek ${i % 5}`,
+            nearest_waterway_m: 100 + (i % 900),
+            ...totalsColumns(computed),
+          },
+          lines: {
+            discharges: discharges.map((discharge) => discharge.line),
+            dispositions: [
+              { disposition: DISPOSITIONS[index % DISPOSITIONS.length], sharePercent: 70 },
+              { disposition: "contained" as const, sharePercent: 30, disposalReference: "synthetic" },
+            ],
+          },
+          computed,
         });
       }
-      await knex("events").insert(eventRows);
+      await knex("events").insert(reports.map((report) => report.row));
       const ids: number[] = await knex("events")
         .whereIn(
           "number",
-          eventRows.map((row) => row.number),
+          reports.map((report) => report.row.number),
         )
         .orderBy("id")
         .pluck("id");
-      const dischargeRows = [];
-      const dispositionRows = [];
-      const totals = new Map<number, { water: number; concentrate: number; solution: number; pfas: boolean }>();
-      for (const [index, eventId] of ids.entries()) {
-        const total = { water: 0, concentrate: 0, solution: 0, pfas: false };
-        for (let position = 1; position <= DISCHARGES_PER_EVENT; position++) {
-          const product = products[(index + position) % products.length];
-          const water = 95 * (5 + ((index * 7 + position) % 20));
-          const concentrate = (water * product.percent) / 100;
-          total.water += water;
-          total.concentrate += concentrate;
-          total.solution += water + concentrate;
-          total.pfas ||= product.pfas;
-          dischargeRows.push({
-            event_id: eventId,
-            position,
-            apparatus_id: apparatus[position % apparatus.length],
-            outlet: `Line ${position}`,
-            product_id: product.id,
-            percent: product.percent,
-            flow: 95,
-            minutes: 5 + ((index * 7 + position) % 20),
-            water_gal: water,
-            concentrate_gal: concentrate,
-            solution_gal: water + concentrate,
-            effective_percent: product.percent,
-            warnings: "[]",
-          });
-        }
-        totals.set(eventId, total);
-        dispositionRows.push(
-          { event_id: eventId, disposition: dispositions[index % dispositions.length], share_percent: 70 },
-          { event_id: eventId, disposition: "contained", share_percent: 30, disposal_reference: "synthetic" },
-        );
-      }
-      await knex("discharges").insert(dischargeRows);
-      await knex("runoff_dispositions").insert(dispositionRows);
-      for (const [eventId, total] of totals) {
-        await knex("events").where({ id: eventId }).update({
-          water_gal: total.water,
-          concentrate_gal: total.concentrate,
-          solution_gal: total.solution,
-          pfas_containing: total.pfas,
-        });
-      }
+      await insertReportLinesInBatches(
+        knex,
+        reports.map((report, index) => ({ eventId: ids[index], lines: report.lines, computed: report.computed })),
+      );
     }
   }
   await knex.destroy();
@@ -217,11 +192,5 @@ if (process.argv[2] === "--measure") {
       );
     }
   }
-  if (process.env.BENCH_KEEP_DB !== "true") {
-    const { default: knexFactory } = await import("knex");
-    const { default: config } = await import("../knexfile");
-    const server = knexFactory({ ...config, connection: { ...(config.connection as object), database: undefined } });
-    await server.raw(`DROP DATABASE IF EXISTS \`${BENCH_DB}\``);
-    await server.destroy();
-  }
+  if (process.env.BENCH_KEEP_DB !== "true") await dropBenchDatabase(BENCH_DB);
 }

@@ -9,29 +9,17 @@ import { performance } from "node:perf_hooks";
 import { gzipSync } from "node:zlib";
 
 if (existsSync(".env")) process.loadEnvFile(".env");
-const BENCH_DB = process.env.BENCH_DB_NAME || "foamtally_bench_map";
-if (!/^foamtally_bench\w*$/.test(BENCH_DB)) throw new Error(`Refusing to use ${BENCH_DB} as a throwaway database`);
+const { benchDatabaseName, freshBenchDatabase } = await import("./bench-database");
+const BENCH_DB = benchDatabaseName("foamtally_bench_map");
 process.env.DB_NAME = BENCH_DB;
 const EVENTS = Number(process.env.BENCH_MAP_EVENTS ?? 20_000);
 const RUNS = 5;
 
 async function fill(): Promise<string> {
-  const { default: knexFactory } = await import("knex");
-  const { default: config } = await import("../knexfile");
-  const connection = { ...(config.connection as Record<string, unknown>) };
-  const server = knexFactory({ ...config, connection: { ...connection, database: undefined } });
-  await server.raw(`DROP DATABASE IF EXISTS \`${BENCH_DB}\``);
-  await server.raw(`CREATE DATABASE \`${BENCH_DB}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
-  await server.destroy();
-  const knex = knexFactory({ ...config, connection: { ...connection, database: BENCH_DB } });
+  const { EVENT_KINDS } = await import("../app/lib/foam/vocabulary");
+  const { insertReportLinesInBatches, statedResults, totalsColumns } = await import("../app/models/report-rows.server");
+  const knex = await freshBenchDatabase(BENCH_DB, { name: "Benchmark district (synthetic)" });
   try {
-    await knex.migrate.latest();
-    await knex("agency_settings").insert({
-      id: 1,
-      name: "Benchmark district (synthetic)",
-      report_recipients: "",
-      release_alert_recipients: "",
-    });
     const [userId] = await knex("users").insert({ email: "bench@bench.example", name: "Bench", password_hash: "x" });
     await knex("user_roles").insert({ user_id: userId, role: "chief" });
     const token = randomBytes(24).toString("hex");
@@ -64,49 +52,45 @@ async function fill(): Promise<string> {
     let seed = 20_261_201;
     const random = () => (seed = (seed * 1_103_515_245 + 12_345) % 2 ** 31) / 2 ** 31;
     const start = Date.UTC(2030, 0, 2); // well inside the local year
-    const kinds = ["incident", "training", "test", "flush"];
     const BATCH = 1000;
     for (let first = 0; first < EVENTS; first += BATCH) {
-      const rows = [];
-      const chosen: { product: number; concentrate: number; water: number }[] = [];
+      const reports = [];
       for (let i = first; i < Math.min(EVENTS, first + BATCH); i++) {
         const product = products[Math.floor(random() * (random() < 0.9 ? 1 : 3))];
         const concentrate = Math.round(random() * 3000) / 100;
         const water = Math.round(random() * 300_000) / 100;
-        chosen.push({ product: product.id, concentrate, water });
-        rows.push({
-          number: `BENCH-${i}`,
-          kind: kinds[i % 4],
-          status: "accepted",
-          started_at: new Date(start + random() * 360 * 86_400_000),
-          address: `${i} Bench Road`,
-          latitude: (38.6 + random() * 0.2).toFixed(6),
-          longitude: (-98.32 + random() * 0.24).toFixed(6),
-          station_id: stations[i % 3],
-          created_by: userId,
-          water_gal: water,
-          concentrate_gal: concentrate,
-          solution_gal: water + concentrate,
-          pfas_containing: product.pfas,
+        const computed = statedResults([{ water, concentrate }], product.pfas);
+        reports.push({
+          row: {
+            number: `BENCH-${i}`,
+            kind: EVENT_KINDS[i % EVENT_KINDS.length],
+            status: "accepted",
+            started_at: new Date(start + random() * 360 * 86_400_000),
+            address: `${i} Bench Road`,
+            latitude: (38.6 + random() * 0.2).toFixed(6),
+            longitude: (-98.32 + random() * 0.24).toFixed(6),
+            station_id: stations[i % 3],
+            created_by: userId,
+            ...totalsColumns(computed),
+          },
+          // One ten-minute line whose stated volumes are the event's.
+          lines: {
+            discharges: [{ apparatusId: null, productId: product.id, percent: null, flow: water / 10, minutes: 10 }],
+          },
+          computed,
         });
       }
-      await knex("events").insert(rows);
+      await knex("events").insert(reports.map((report) => report.row));
       const ids: number[] = await knex("events")
         .whereIn(
           "number",
-          rows.map((row) => row.number),
+          reports.map((report) => report.row.number),
         )
         .orderBy("id")
         .pluck("id");
-      await knex("discharges").insert(
-        ids.map((id, index) => ({
-          event_id: id,
-          position: 1,
-          product_id: chosen[index].product,
-          water_gal: chosen[index].water,
-          concentrate_gal: chosen[index].concentrate,
-          solution_gal: chosen[index].water + chosen[index].concentrate,
-        })),
+      await insertReportLinesInBatches(
+        knex,
+        reports.map((report, index) => ({ eventId: ids[index], lines: report.lines, computed: report.computed })),
       );
     }
     return token;

@@ -3,16 +3,14 @@
 // row builders and arithmetic as the demo seed. Refuses the main database `foamtally` unless --force.
 import knexFactory, { type Knex } from "knex";
 import knexConfig from "../knexfile";
+import type { EventStatus } from "../app/lib/foam/vocabulary";
+import { insertReportLinesInBatches } from "../app/models/report-rows.server";
 import {
-  dischargeRows,
-  dispositionRows,
   eventRow,
   loadCatalogueFacts,
   seededRandom,
-  tankReadingRows,
   usageOf,
   type EventSpec,
-  type EventStatus,
 } from "../app/models/usage-builders.server";
 import { demoIds, routineEvent } from "../seeds/03_events";
 
@@ -82,7 +80,7 @@ try {
         // A refill reading near the computed drawdown, as a crew would log it.
         const computed = usageOf(spec, facts).byProduct.find((group) => group.productId === line.productId);
         const refillGal = Math.round((computed?.totals.concentrate.gal ?? 0) * random.between(0.9, 1.1) * 10) / 10;
-        spec.tankReadings = [{ apparatusId: line.apparatusId, productId: line.productId, kind: "refill", refillGal }];
+        spec.tankReadings = [{ apparatusId: line.apparatusId, productId: line.productId, refillGal }];
       }
       specs.push(spec);
     }
@@ -99,15 +97,14 @@ try {
             .select("id", "number")
         ).map((row) => [row.number, row.id]),
       );
-      const lines = specs.flatMap((spec, index) => dischargeRows(idOf.get(spec.number)!, spec, usages[index]));
-      const runoff = specs.flatMap((spec) => dispositionRows(idOf.get(spec.number)!, spec));
-      const tanks = specs.flatMap((spec) => tankReadingRows(idOf.get(spec.number)!, spec));
-      if (lines.length) await trx.batchInsert("discharges", lines, BATCH).transacting(trx);
-      if (runoff.length) await trx.batchInsert("runoff_dispositions", runoff, BATCH).transacting(trx);
-      if (tanks.length) await trx.batchInsert("tank_readings", tanks, BATCH).transacting(trx);
-      discharges += lines.length;
-      dispositions += runoff.length;
-      readings += tanks.length;
+      const written = await insertReportLinesInBatches(
+        trx,
+        specs.map((spec, index) => ({ eventId: idOf.get(spec.number)!, lines: spec, computed: usages[index] })),
+        BATCH,
+      );
+      discharges += written.discharges;
+      dispositions += written.dispositions;
+      readings += written.tankReadings;
     });
     if (process.stdout.isTTY) process.stdout.write(`\r${Math.min(eventCount, offset + BATCH)} / ${eventCount} events`);
   }

@@ -1,15 +1,12 @@
 import type { Knex } from "knex";
+import type { EventKind, EventStatus } from "../app/lib/foam/vocabulary";
+import type { ReportDischarge, ReportRunoff, ReportTankReading } from "../app/models/report-rows.server";
 import {
   insertEvent,
   loadCatalogueFacts,
   seededRandom,
-  type DischargeSpec,
-  type DispositionSpec,
-  type EventKind,
   type EventSpec,
-  type EventStatus,
   type SeededRandom,
-  type TankReadingSpec,
 } from "../app/models/usage-builders.server";
 
 // Demo data only: about a year (December 2025 – November 2026) of invented events in the invented
@@ -92,7 +89,7 @@ function reviewOf(status: EventStatus, author: number, cleared: Date, reviewer: 
   return { status, filedBy: author, filedAt, reviewedBy: reviewer, reviewedAt };
 }
 
-function sharesOf(random: SeededRandom, kinds: DispositionSpec["disposition"][]): DispositionSpec[] {
+function sharesOf(random: SeededRandom, kinds: ReportRunoff["disposition"][]): ReportRunoff[] {
   if (kinds.length === 1) return [{ disposition: kinds[0], sharePercent: 100 }];
   let left = 100;
   return kinds.map((disposition, index) => {
@@ -118,9 +115,9 @@ export function routineEvent(
   const author = random.pick(ids.officers);
   const where = place(random);
   const station = nearestStation(where.latitude, where.longitude);
-  const discharges: DischargeSpec[] = [];
+  const discharges: ReportDischarge[] = [];
   let narrative: string;
-  let dispositions: DispositionSpec[];
+  let dispositions: ReportRunoff[];
   let minutesOnScene = random.int(35, 150);
   const engine = station === "S2" ? "E2" : station === "S3" ? "E3" : "E1";
   const cafsEngine = station === "S2" ? "E2" : "E1";
@@ -302,7 +299,6 @@ function notableEvents(ids: DemoIds, random: SeededRandom): EventSpec[] {
         {
           apparatusId: ids.apparatus.FT1,
           productId: ids.products.legacy,
-          kind: "levels",
           levelBeforeGal: 250,
           levelAfterGal: 150,
         },
@@ -343,7 +339,7 @@ function notableEvents(ids: DemoIds, random: SeededRandom): EventSpec[] {
           disposalReference: "Waste manifest DEMO-2026-0412 (invented), Prairie Demo Environmental",
         },
       ],
-      tankReadings: [{ apparatusId: ids.apparatus.E3, productId: ids.products.f3, kind: "refill", refillGal: 37 }],
+      tankReadings: [{ apparatusId: ids.apparatus.E3, productId: ids.products.f3, refillGal: 37 }],
     },
     {
       number: "",
@@ -379,7 +375,7 @@ function notableEvents(ids: DemoIds, random: SeededRandom): EventSpec[] {
           sewerNotice: "Alder Bend Water Reclamation (demo) told by phone 2026-04-14 08:40, ref WR-118",
         },
       ],
-      tankReadings: [{ apparatusId: ids.apparatus.E2, productId: ids.products.classA, kind: "refill", refillGal: 3.5 }],
+      tankReadings: [{ apparatusId: ids.apparatus.E2, productId: ids.products.classA, refillGal: 3.5 }],
     },
     {
       number: "",
@@ -462,7 +458,6 @@ function notableEvents(ids: DemoIds, random: SeededRandom): EventSpec[] {
         {
           apparatusId: ids.apparatus.E3,
           productId: ids.products.f3,
-          kind: "levels",
           levelBeforeGal: 50,
           levelAfterGal: 35,
         },
@@ -510,7 +505,7 @@ function notableEvents(ids: DemoIds, random: SeededRandom): EventSpec[] {
         { disposition: "soil", sharePercent: 70 },
         { disposition: "evaporated_unknown", sharePercent: 30 },
       ],
-      tankReadings: [{ apparatusId: ids.apparatus.E2, productId: ids.products.classA, kind: "refill", refillGal: 9 }],
+      tankReadings: [{ apparatusId: ids.apparatus.E2, productId: ids.products.classA, refillGal: 9 }],
     },
     {
       number: "",
@@ -554,7 +549,7 @@ function notableEvents(ids: DemoIds, random: SeededRandom): EventSpec[] {
         { disposition: "surface_water", sharePercent: 5, receivingWater: "Millrace Creek (demo)" },
         { disposition: "evaporated_unknown", sharePercent: 10 },
       ],
-      tankReadings: [{ apparatusId: ids.apparatus.E2, productId: ids.products.classA, kind: "refill", refillGal: 14 }],
+      tankReadings: [{ apparatusId: ids.apparatus.E2, productId: ids.products.classA, refillGal: 14 }],
     },
   ];
 }
@@ -592,10 +587,9 @@ export function buildDemoEvents(ids: DemoIds): EventSpec[] {
         return sum + gpm * item.minutes;
       }, 0);
     const off = refills === 3 ? 2.2 : random.between(0.92, 1.08);
-    const reading: TankReadingSpec = {
+    const reading: ReportTankReading = {
       apparatusId: first.apparatusId,
       productId: first.productId,
-      kind: "refill",
       refillGal: Math.max(0.5, roundTo(computed * off, 1)),
     };
     event.tankReadings = [reading];

@@ -1,12 +1,6 @@
 import { Link } from "react-router";
+import { EVENT_KIND_LABELS, eventFoamClassesLabel } from "~/lib/foam/vocabulary";
 import type { EventsInView } from "~/lib/geo/events-in-view";
-
-const KIND_LABELS: Record<string, string> = {
-  incident: "Incident",
-  training: "Training",
-  test: "Test",
-  flush: "Flush",
-};
 
 const gal = (value: number) => value.toLocaleString("en-US", { minimumFractionDigits: 1, maximumFractionDigits: 1 });
 
@@ -71,10 +65,8 @@ export function EventsInViewTable({
                     </Link>
                   </th>
                   <td className="whitespace-nowrap">{date(event.startedAt)}</td>
-                  <td>{KIND_LABELS[event.kind] ?? event.kind}</td>
-                  <td className="whitespace-nowrap">
-                    {event.foamClass === "none" ? "No foam" : `Class ${event.foamClass}`}
-                  </td>
+                  <td>{EVENT_KIND_LABELS[event.kind]}</td>
+                  <td className="whitespace-nowrap">{eventFoamClassesLabel(event.foamClass)}</td>
                   <td className={event.pfasContaining ? "font-semibold text-danger-700" : undefined}>
                     {event.pfasContaining ? "PFAS-containing" : "No"}
                   </td>

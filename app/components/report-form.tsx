@@ -3,21 +3,21 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { useEffect, useMemo, useRef } from "react";
 import { Form, useFetcher, useNavigation } from "react-router";
 import type { z } from "zod";
+import { DraftPayloadSchema, FiledReportSchema, MAX_DISCHARGE_MINUTES, minutesBetween } from "~/lib/foam/report-schema";
+import type { UsageWarning } from "~/lib/foam/totals";
 import {
   APPLICATION_METHOD_LABELS,
   APPLICATION_METHODS,
   DISPOSITION_LABELS,
   DISPOSITIONS,
-  DraftPayloadSchema,
   EVENT_KIND_LABELS,
   EVENT_KINDS,
-  FiledReportSchema,
   FLOW_BASIS_LABELS,
-  MAX_DISCHARGE_MINUTES,
-  minutesBetween,
+  FOAM_CLASS_LABELS,
   type EventStatus,
-} from "~/lib/foam/report-schema";
-import type { UsageWarning } from "~/lib/foam/totals";
+  type FlowBasis,
+  type FoamClass,
+} from "~/lib/foam/vocabulary";
 import { EventLocationMap } from "./event-location-map";
 import { ErrorList, FormErrors, SelectField, TextField } from "./form-fields";
 import { UsageCautions } from "./usage-cautions";
@@ -25,7 +25,7 @@ import { UsageCautions } from "./usage-cautions";
 export type ProductOption = {
   id: number;
   name: string;
-  foamClass: "A" | "B";
+  foamClass: FoamClass;
   nominalPercents: number[];
   pfasContaining: boolean;
 };
@@ -33,7 +33,7 @@ export type OutletOption = {
   name: string;
   foamCapable: boolean;
   defaultFlowGpm: number | null;
-  defaultFlowBasis: "water" | "solution";
+  defaultFlowBasis: FlowBasis;
   defaultMethod: string | null;
 };
 export type ApparatusOption = {
@@ -320,7 +320,7 @@ export function ReportForm(props: ReportFormProps) {
                     options={choices(
                       props.products.map((option) => [
                         String(option.id),
-                        `${option.name} (Class ${option.foamClass}${option.pfasContaining ? ", contains PFAS" : ""})`,
+                        `${option.name} (${FOAM_CLASS_LABELS[option.foamClass]}${option.pfasContaining ? ", contains PFAS" : ""})`,
                       ]),
                     )}
                     onChange={(event) => {

@@ -3,9 +3,11 @@ import {
   DISPOSITION_LABELS,
   EVENT_KIND_LABELS,
   FLOW_BASIS_LABELS,
+  foamClassLabel,
+  WATER_ONLY_LABEL,
   type Disposition,
   type EventKind,
-} from "~/lib/foam/report-schema";
+} from "~/lib/foam/vocabulary";
 import type { UsageWarning } from "~/lib/foam/totals";
 import { gallonsToLitres } from "~/lib/foam/units";
 import { UsageCautions } from "./usage-cautions";
@@ -201,7 +203,7 @@ export function ReportSummary({ report }: { report: SummaryReport }) {
                   ) : null}
                 </td>
                 <td>
-                  {line.product ? `${line.product} (Class ${line.foamClass})` : "Water only"}
+                  {line.product ? `${line.product} (${foamClassLabel(line.foamClass)})` : WATER_ONLY_LABEL}
                   {line.pfasContaining ? (
                     <span className="ml-1 rounded bg-danger-50 px-1 text-xs font-bold text-danger-700">PFAS</span>
                   ) : null}

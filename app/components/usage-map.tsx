@@ -1,5 +1,6 @@
 import type { ExpressionSpecification, GeoJSONSource, Map as MapLibreMap, MapLayerMouseEvent } from "maplibre-gl";
 import { useEffect, useRef, useState, type RefObject } from "react";
+import { EVENT_KIND_LABELS, eventFoamClassesLabel, type EventFoamClasses, type EventKind } from "~/lib/foam/vocabulary";
 import type { MappedEventFeature } from "~/lib/geo/events-in-view";
 import type { BoundingBox } from "~/lib/geo/map-filters";
 import { basemapStyle, DISTRICT_BOUNDS, MAP_COLOURS } from "~/lib/geo/map-style";
@@ -63,7 +64,13 @@ const gal = (value: unknown) => `${Number(value ?? 0).toLocaleString("en-US", { 
 function popupContent(properties: Record<string, unknown>, timeZone: string): HTMLElement {
   const box = document.createElement("div");
   box.className = "space-y-1 font-sans text-sm text-ink";
-  box.append(text("p", `${properties.number} · ${properties.kind}`, "font-semibold"));
+  box.append(
+    text(
+      "p",
+      `${properties.number} · ${EVENT_KIND_LABELS[properties.kind as EventKind] ?? properties.kind}`,
+      "font-semibold",
+    ),
+  );
   const when = properties.startedAt
     ? new Date(String(properties.startedAt)).toLocaleString("en-US", {
         timeZone,
@@ -76,7 +83,7 @@ function popupContent(properties: Record<string, unknown>, timeZone: string): HT
   const list = document.createElement("dl");
   list.className = "grid grid-cols-2 gap-x-3";
   const row = (label: string, value: string) => list.append(text("dt", label, "text-slate-ft"), text("dd", value));
-  row("Foam class", String(properties.foamClass === "none" ? "no foam" : properties.foamClass));
+  row("Foam class", eventFoamClassesLabel(properties.foamClass as EventFoamClasses));
   row("Concentrate", gal(properties.concentrateGal));
   row("Foam solution", gal(properties.solutionGal));
   row("Water", gal(properties.waterGal));

@@ -2,8 +2,9 @@ import { recordAudit } from "~/lib/audit.server";
 import type { SessionUser } from "~/lib/auth.server";
 import type { ApparatusFormValue, StationFormValue } from "~/lib/catalogue/apparatus-form";
 import { StaleRecordError } from "~/lib/catalogue/record-version";
+import { decimalOrNull } from "~/lib/decimal";
 import { db } from "~/lib/db.server";
-import { numberOrNull, type OutletDefaults } from "./catalogue.server";
+import type { OutletDefaults } from "./catalogue.server";
 
 export type StationRecord = {
   id: number;
@@ -22,8 +23,8 @@ function stationOf(row: Record<string, unknown>): StationRecord {
     code: row.code as string,
     name: row.name as string,
     address: (row.address as string) ?? "",
-    latitude: numberOrNull(row.latitude),
-    longitude: numberOrNull(row.longitude),
+    latitude: decimalOrNull(row.latitude),
+    longitude: decimalOrNull(row.longitude),
     active: Boolean(row.active),
     version: Number(row.version ?? 1),
   };
@@ -52,18 +53,18 @@ function apparatusOf(row: Record<string, unknown>, outlets: Array<Record<string,
     description: (row.description as string) ?? "",
     stationId: (row.station_id as number | null) ?? null,
     stationCode: (row.station_code as string | null) ?? null,
-    concentrateTankGal: numberOrNull(row.concentrate_tank_gal),
-    proportionerMaxConcentrateGpm: numberOrNull(row.proportioner_max_concentrate_gpm),
-    waterFlowMinGpm: numberOrNull(row.water_flow_min_gpm),
-    waterFlowMaxGpm: numberOrNull(row.water_flow_max_gpm),
-    compressedAirCfm: numberOrNull(row.compressed_air_cfm),
+    concentrateTankGal: decimalOrNull(row.concentrate_tank_gal),
+    proportionerMaxConcentrateGpm: decimalOrNull(row.proportioner_max_concentrate_gpm),
+    waterFlowMinGpm: decimalOrNull(row.water_flow_min_gpm),
+    waterFlowMaxGpm: decimalOrNull(row.water_flow_max_gpm),
+    compressedAirCfm: decimalOrNull(row.compressed_air_cfm),
     active: Boolean(row.active),
     outlets: outlets
       .filter((outlet) => outlet.apparatus_id === row.id)
       .map((outlet) => ({
         name: outlet.name as string,
         foamCapable: Boolean(outlet.foam_capable),
-        defaultFlowGpm: numberOrNull(outlet.default_flow_gpm),
+        defaultFlowGpm: decimalOrNull(outlet.default_flow_gpm),
         defaultFlowBasis: outlet.default_flow_basis === "solution" ? "solution" : "water",
         defaultMethod: (outlet.default_method as OutletDefaults["defaultMethod"]) ?? null,
       })),

@@ -1,14 +1,8 @@
-import type { ApplicationMethod } from "~/lib/foam/vocabulary";
-import { parseNominalPercents, type FoamType } from "~/lib/catalogue/product-form";
+import { parseNominalPercents } from "~/lib/catalogue/product-form";
+import { decimalOrNull } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
-import type { ApparatusFacts, FlowBasis, FoamClass, ProductFacts } from "~/lib/foam/totals";
-
-/** DECIMAL columns arrive as strings; null stays null. */
-export function numberOrNull(value: unknown): number | null {
-  if (value === null || value === undefined || value === "") return null;
-  const number = Number(value);
-  return Number.isFinite(number) ? number : null;
-}
+import type { ApparatusFacts, ProductFacts } from "~/lib/foam/totals";
+import type { ApplicationMethod, FlowBasis, FoamClass, FoamType } from "~/lib/foam/vocabulary";
 
 export function nominalPercentsOf(stored: string | null | undefined): number[] {
   return parseNominalPercents(stored ?? "") ?? [];
@@ -64,7 +58,7 @@ function outletOf(row: Record<string, unknown>): OutletDefaults {
   return {
     name: String(row.name),
     foamCapable: Boolean(row.foam_capable),
-    defaultFlowGpm: numberOrNull(row.default_flow_gpm),
+    defaultFlowGpm: decimalOrNull(row.default_flow_gpm),
     defaultFlowBasis: row.default_flow_basis === "solution" ? "solution" : "water",
     defaultMethod: (row.default_method as ApplicationMethod | null) ?? null,
   };
@@ -86,11 +80,11 @@ export async function listActiveApparatus(connection: Db = db): Promise<ActiveAp
     unitId: row.unit_id,
     description: row.description,
     stationId: row.station_id ?? null,
-    proportionerMaxConcentrateGpm: numberOrNull(row.proportioner_max_concentrate_gpm),
-    waterFlowMinGpm: numberOrNull(row.water_flow_min_gpm),
-    waterFlowMaxGpm: numberOrNull(row.water_flow_max_gpm),
-    compressedAirCfm: numberOrNull(row.compressed_air_cfm),
-    concentrateTankGal: numberOrNull(row.concentrate_tank_gal),
+    proportionerMaxConcentrateGpm: decimalOrNull(row.proportioner_max_concentrate_gpm),
+    waterFlowMinGpm: decimalOrNull(row.water_flow_min_gpm),
+    waterFlowMaxGpm: decimalOrNull(row.water_flow_max_gpm),
+    compressedAirCfm: decimalOrNull(row.compressed_air_cfm),
+    concentrateTankGal: decimalOrNull(row.concentrate_tank_gal),
     outlets: outlets.filter((outlet) => outlet.apparatus_id === row.id).map(outletOf),
   }));
 }
@@ -130,9 +124,9 @@ export async function apparatusFactsMap(
     map.set(row.id, {
       id: row.id,
       unitId: row.unit_id,
-      proportionerMaxConcentrateGpm: numberOrNull(row.proportioner_max_concentrate_gpm),
-      waterFlowMinGpm: numberOrNull(row.water_flow_min_gpm),
-      waterFlowMaxGpm: numberOrNull(row.water_flow_max_gpm),
+      proportionerMaxConcentrateGpm: decimalOrNull(row.proportioner_max_concentrate_gpm),
+      waterFlowMinGpm: decimalOrNull(row.water_flow_min_gpm),
+      waterFlowMaxGpm: decimalOrNull(row.water_flow_max_gpm),
     });
   }
   return map;

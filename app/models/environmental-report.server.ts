@@ -1,66 +1,37 @@
 import type { Knex } from "knex";
+import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
-import { isPfasContentUnit, pfasGrams, gramsToPoundsMass, rollingWindowTotals } from "~/lib/foam/pfas";
+import { pfasGrams, gramsToPoundsMass, rollingWindowTotals } from "~/lib/foam/pfas";
+import { releasedGallonsSql, shareNotContained } from "~/lib/foam/released-volume";
+import {
+  DISPOSITION_LABELS,
+  DISPOSITIONS,
+  EVENT_KIND_LABELS,
+  EVENT_KINDS,
+  EVENT_STATUS_LABELS,
+  FLOW_BASIS_EXPORT_LABELS,
+  FOAM_TYPE_LABELS,
+  foamClassLabel,
+  isPfasContentUnit,
+  WATER_ONLY_LABEL,
+  type Disposition,
+  type EventKind,
+  type EventStatus,
+  type FlowBasis,
+  type FoamType,
+} from "~/lib/foam/vocabulary";
 import { wallClockIn, type ReportPeriod } from "~/lib/reporting/period";
+import { agencyNameForDocuments, readAgencySettings } from "./agency-settings.server";
 
-/** Labels used in the exports; the Summary formulas match on these exact strings. */
-export const KIND_LABELS = {
-  incident: "Incident",
-  training: "Training",
-  test: "Test",
-  flush: "Flush",
-} as const;
-export type EventKind = keyof typeof KIND_LABELS;
-export const EVENT_KINDS = Object.keys(KIND_LABELS) as EventKind[];
-
-export const DISPOSITION_LABELS = {
-  contained: "Contained and collected",
-  soil: "To soil",
-  storm_drain: "To storm drain",
-  surface_water: "To surface water",
-  sanitary_sewer: "To sanitary sewer",
-  evaporated_unknown: "Evaporated or unknown",
-} as const;
-export type Disposition = keyof typeof DISPOSITION_LABELS;
-export const DISPOSITIONS = Object.keys(DISPOSITION_LABELS) as Disposition[];
-
-export const WATER_ONLY = "Water only";
 export const NOT_PLACED = "(not placed)";
 export const NONE_STATED = "(none stated)";
-
-export type AgencyFacts = {
-  name: string;
-  timeZone: string;
-  pfasReportableLb: number;
-  reportRecipients: string[];
-  releaseAlertRecipients: string[];
-};
-
-export function splitAddresses(list: string | null | undefined): string[] {
-  return (list ?? "")
-    .split(/[,;\s]+/)
-    .map((address) => address.trim())
-    .filter((address) => address.includes("@"));
-}
-
-export async function agencyFacts(connection: Db = db): Promise<AgencyFacts> {
-  const row = await connection("agency_settings").where({ id: 1 }).first();
-  return {
-    name: row?.name ?? "(agency name not set)",
-    timeZone: row?.time_zone ?? "America/Chicago",
-    // 1 lb in 24 h: CERCLA reportable quantity for PFOA/PFOS, 40 CFR 302.4 (89 FR 39124).
-    pfasReportableLb: row ? Number(row.pfas_reportable_lb) : 1,
-    reportRecipients: splitAddresses(row?.report_recipients),
-    releaseAlertRecipients: splitAddresses(row?.release_alert_recipients),
-  };
-}
 
 // Rows straight from MariaDB: column names as selected, DECIMAL as strings, counts as numbers or strings.
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 type SqlRow = Record<string, any>;
 
-const num = (value: unknown): number => (value === null || value === undefined ? 0 : Number(value));
-const numOrNull = (value: unknown): number | null => (value === null || value === undefined ? null : Number(value));
+const num = decimalOrZero;
+const numOrNull = decimalOrNull;
 
 /** Accepted reports whose event started in the period: the rows every total counts. */
 export function countedEvents(period: ReportPeriod, connection: Db = db): Knex.QueryBuilder {
@@ -70,8 +41,7 @@ export function countedEvents(period: ReportPeriod, connection: Db = db): Knex.Q
     .where("e.started_at", "<", period.endUtc);
 }
 
-// The released volume of a disposition: its stated volume, else its share of the event's foam solution.
-const RELEASED_GAL = "COALESCE(r.volume_gal, r.share_percent / 100 * e.solution_gal)";
+const RELEASED_GAL = releasedGallonsSql("r", "e");
 
 export type VolumeTotals = { water: number; concentrate: number; solution: number };
 export type ClassTotals = VolumeTotals & { foamClass: string; incident: boolean };
@@ -126,7 +96,7 @@ export async function periodAggregates(period: ReportPeriod, connection: Db = db
     .sum({ water: "d.water_gal", concentrate: "d.concentrate_gal", solution: "d.solution_gal" })
     .groupByRaw("COALESCE(p.foam_class, ''), e.kind = 'incident'");
   const byClass: ClassTotals[] = classRows.map((row) => ({
-    foamClass: row.foam_class ? `Class ${row.foam_class}` : WATER_ONLY,
+    foamClass: foamClassLabel(row.foam_class),
     incident: Boolean(Number(row.incident)),
     water: num(row.water),
     concentrate: num(row.concentrate),
@@ -143,8 +113,8 @@ export async function periodAggregates(period: ReportPeriod, connection: Db = db
     .groupByRaw("p.id, p.name, p.foam_class, p.pfas_containing, e.kind = 'incident'")
     .orderBy("p.name");
   const byProduct: ProductTotals[] = productRows.map((row) => ({
-    product: row.name ?? WATER_ONLY,
-    foamClass: row.foam_class ? `Class ${row.foam_class}` : WATER_ONLY,
+    product: row.name ?? WATER_ONLY_LABEL,
+    foamClass: foamClassLabel(row.foam_class),
     pfasContaining: Boolean(row.pfas_containing),
     incident: Boolean(Number(row.incident)),
     water: num(row.water),
@@ -248,8 +218,8 @@ export async function* streamEventRows(period: ReportPeriod, connection: Db = db
   for await (const row of query.stream()) {
     yield {
       number: row.number,
-      kind: KIND_LABELS[row.kind as EventKind],
-      status: row.status,
+      kind: EVENT_KIND_LABELS[row.kind as EventKind],
+      status: EVENT_STATUS_LABELS[row.status as EventStatus],
       revision: Number(row.revision),
       startedAt: row.started_at,
       clearedAt: row.cleared_at,
@@ -336,19 +306,19 @@ export async function* streamDischargeRows(
   for await (const row of query.stream()) {
     yield {
       eventNumber: row.number,
-      kind: KIND_LABELS[row.kind as EventKind],
+      kind: EVENT_KIND_LABELS[row.kind as EventKind],
       position: Number(row.position),
       apparatus: row.unit_id ?? "",
       outlet: row.outlet ?? "",
-      product: row.product ?? WATER_ONLY,
-      foamClass: row.foam_class ? `Class ${row.foam_class}` : WATER_ONLY,
-      foamType: row.foam_type ?? "",
+      product: row.product ?? WATER_ONLY_LABEL,
+      foamClass: foamClassLabel(row.foam_class),
+      foamType: row.foam_type ? FOAM_TYPE_LABELS[row.foam_type as FoamType] : "",
       pfasContaining: row.product ? yesNo(row.pfas_containing) : "No",
       percent: numOrNull(row.percent),
       effectivePercent: numOrNull(row.effective_percent),
       flow: numOrNull(row.flow),
       flowUnit: row.flow_unit,
-      flowBasis: row.flow_basis === "solution" ? "Foam solution" : "Water",
+      flowBasis: FLOW_BASIS_EXPORT_LABELS[row.flow_basis as FlowBasis],
       minutes: numOrNull(row.minutes),
       water: num(row.water_gal),
       concentrate: num(row.concentrate_gal),
@@ -396,7 +366,7 @@ export async function* streamReleaseRows(period: ReportPeriod, connection: Db = 
   for await (const row of query.stream()) {
     yield {
       eventNumber: row.number,
-      kind: KIND_LABELS[row.kind as EventKind],
+      kind: EVENT_KIND_LABELS[row.kind as EventKind],
       startedAt: row.started_at,
       disposition: DISPOSITION_LABELS[row.disposition as Disposition],
       sharePercent: numOrNull(row.share_percent),
@@ -453,10 +423,10 @@ export async function* streamNonIncidentRows(
   for await (const row of query.stream()) {
     yield {
       eventNumber: row.number,
-      kind: KIND_LABELS[row.kind as EventKind],
+      kind: EVENT_KIND_LABELS[row.kind as EventKind],
       startedAt: row.started_at,
       station: row.station_code ? `${row.station_code} ${row.station_name}` : "",
-      products: row.products ?? WATER_ONLY,
+      products: row.products ?? WATER_ONLY_LABEL,
       water: num(row.water_gal),
       concentrate: num(row.concentrate_gal),
       solution: num(row.solution_gal),
@@ -523,16 +493,16 @@ export async function pfasRows(period: ReportPeriod, thresholdLb: number, connec
   const result: PfasRow[] = rows.map((row) => {
     const solution = num(row.event_solution_gal);
     const contained = num(row.contained_gal);
-    const shareNotContained = solution > 0 ? Math.min(1, Math.max(0, 1 - contained / solution)) : 1;
+    const notContained = shareNotContained(contained, solution);
     const content = numOrNull(row.pfas_content);
     const unit = row.pfas_content_unit;
     const known = content !== null && isPfasContentUnit(unit);
     const gramsInConcentrate = known ? pfasGrams(num(row.concentrate), content, unit) : null;
-    const gramsReleased = gramsInConcentrate === null ? null : gramsInConcentrate * shareNotContained;
+    const gramsReleased = gramsInConcentrate === null ? null : gramsInConcentrate * notContained;
     return {
       eventId: row.id,
       eventNumber: row.number,
-      kind: KIND_LABELS[row.kind as EventKind],
+      kind: EVENT_KIND_LABELS[row.kind as EventKind],
       startedAt: row.started_at,
       product: row.name,
       content,
@@ -540,7 +510,7 @@ export async function pfasRows(period: ReportPeriod, thresholdLb: number, connec
       contentBasis: row.pfas_content_basis ?? "",
       contentSource: row.pfas_content_source ?? "",
       concentrateGallons: num(row.concentrate),
-      shareNotContained,
+      shareNotContained: notContained,
       dispositionsRecorded: num(row.disposition_count) > 0,
       gramsInConcentrate,
       gramsReleased,
@@ -604,7 +574,8 @@ export async function eventsChangedSince(
 
 /** What every export of a period starts from: the agency, its clock, the period's totals and PFAS rows. */
 export async function periodFacts(period: ReportPeriod, connection: Db = db) {
-  const agency = await agencyFacts(connection);
+  const settings = await readAgencySettings(connection);
+  const agency = { ...settings, name: agencyNameForDocuments(settings) };
   const [aggregates, pfas] = await Promise.all([
     periodAggregates(period, connection),
     pfasRows(period, agency.pfasReportableLb, connection),

@@ -1,19 +1,22 @@
 import type { Knex } from "knex";
 import type { ReportRecord } from "~/lib/access";
 import type { SessionUser } from "~/lib/auth.server";
+import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
+import { releasedGallons } from "~/lib/foam/released-volume";
+import type { UsageWarning } from "~/lib/foam/totals";
+import { roundForDisplay, volumeFromGallons, type Volume } from "~/lib/foam/units";
 import {
   EVENT_KINDS,
   EVENT_STATUSES,
+  FOAM_CLASSES,
   type Disposition,
   type EventKind,
   type EventStatus,
-} from "~/lib/foam/report-schema";
-import type { FoamClass, UsageWarning } from "~/lib/foam/totals";
-import { roundForDisplay, volumeFromGallons, type Volume } from "~/lib/foam/units";
-import { numberOrNull } from "./catalogue.server";
+  type FoamClass,
+} from "~/lib/foam/vocabulary";
 import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
-import { agencyTimeZone } from "./agency.server";
+import { readAgencySettings } from "./agency-settings.server";
 
 export function apiVolume(gallons: number): Volume {
   const volume = volumeFromGallons(gallons);
@@ -49,7 +52,7 @@ export function reportRecordOf(row: {
 
 /** One report with its discharges, runoff, tank readings, stored totals and geography checks. */
 export async function getReport(eventId: number) {
-  const timeZone = await agencyTimeZone();
+  const { timeZone } = await readAgencySettings();
   const wallClock = (instant: Date | null) => instantToWallClock(instant, timeZone);
   const event = await db("events")
     .leftJoin("stations", "stations.id", "events.station_id")
@@ -85,7 +88,7 @@ export async function getReport(eventId: number) {
       .orderBy("tank_readings.id")
       .select("tank_readings.*", "apparatus.unit_id as apparatus_unit_id", "foam_products.name as product_name"),
   ]);
-  const solutionGal = Number(event.solution_gal);
+  const solutionGal = decimalOrZero(event.solution_gal);
   return {
     id: event.id as number,
     number: event.number as string,
@@ -97,8 +100,8 @@ export async function getReport(eventId: number) {
     clearedAt: wallClock(event.cleared_at),
     timeZone,
     address: event.address as string,
-    latitude: numberOrNull(event.latitude),
-    longitude: numberOrNull(event.longitude),
+    latitude: decimalOrNull(event.latitude),
+    longitude: decimalOrNull(event.longitude),
     stationId: (event.station_id as number | null) ?? null,
     station: event.station_code ? `${event.station_code} ${event.station_name}` : null,
     narrative: (event.narrative as string | null) ?? "",
@@ -113,16 +116,16 @@ export async function getReport(eventId: number) {
     eventWarnings: warningsOf(event.event_warnings),
     draft: event.draft_json ? (JSON.parse(event.draft_json) as Record<string, unknown>) : null,
     totals: {
-      water: Number(event.water_gal),
-      concentrate: Number(event.concentrate_gal),
+      water: decimalOrZero(event.water_gal),
+      concentrate: decimalOrZero(event.concentrate_gal),
       solution: solutionGal,
     },
     geography: {
       drainageBasin: (event.drainage_basin as string | null) ?? null,
       nearestWaterway: (event.nearest_waterway as string | null) ?? null,
-      nearestWaterwayM: numberOrNull(event.nearest_waterway_m),
+      nearestWaterwayM: decimalOrNull(event.nearest_waterway_m),
       nearestInlet: (event.nearest_inlet as string | null) ?? null,
-      nearestInletM: numberOrNull(event.nearest_inlet_m),
+      nearestInletM: decimalOrNull(event.nearest_inlet_m),
       withinWaterwayBuffer: event.within_waterway_buffer == null ? null : Boolean(event.within_waterway_buffer),
       outsideJurisdiction: event.outside_jurisdiction == null ? null : Boolean(event.outside_jurisdiction),
     },
@@ -135,29 +138,29 @@ export async function getReport(eventId: number) {
       product: (row.product_name as string | null) ?? null,
       foamClass: (row.foam_class as FoamClass | null) ?? null,
       pfasContaining: Boolean(row.product_pfas),
-      percent: numberOrNull(row.percent),
-      effectivePercent: numberOrNull(row.effective_percent),
-      flow: Number(row.flow),
+      percent: decimalOrNull(row.percent),
+      effectivePercent: decimalOrNull(row.effective_percent),
+      flow: decimalOrZero(row.flow),
       flowUnit: row.flow_unit as "gpm" | "lpm",
       basis: row.flow_basis as "water" | "solution",
       startedAt: wallClock(row.started_at),
       endedAt: wallClock(row.ended_at),
-      minutes: Number(row.minutes),
+      minutes: decimalOrZero(row.minutes),
       method: (row.method as string | null) ?? null,
-      airFlowCfm: numberOrNull(row.air_flow_cfm),
-      water: Number(row.water_gal),
-      concentrate: Number(row.concentrate_gal),
-      solution: Number(row.solution_gal),
+      airFlowCfm: decimalOrNull(row.air_flow_cfm),
+      water: decimalOrZero(row.water_gal),
+      concentrate: decimalOrZero(row.concentrate_gal),
+      solution: decimalOrZero(row.solution_gal),
       warnings: warningsOf(row.warnings),
     })),
     dispositions: dispositions.map((row) => {
-      const share = numberOrNull(row.share_percent);
-      const volume = numberOrNull(row.volume_gal);
+      const share = decimalOrNull(row.share_percent);
+      const volume = decimalOrNull(row.volume_gal);
       return {
         disposition: row.disposition as Disposition,
         sharePercent: share,
         volumeGal: volume,
-        releasedGal: volume ?? (share != null ? (share / 100) * solutionGal : 0),
+        releasedGal: releasedGallons({ volumeGal: volume, sharePercent: share }, solutionGal),
         receivingWater: row.receiving_water as string,
         disposalReference: row.disposal_reference as string,
         sewerNotice: row.sewer_notice as string,
@@ -168,9 +171,9 @@ export async function getReport(eventId: number) {
       apparatus: (row.apparatus_unit_id as string | null) ?? null,
       productId: (row.product_id as number | null) ?? null,
       product: (row.product_name as string | null) ?? null,
-      refillGal: numberOrNull(row.refill_gal),
-      levelBeforeGal: numberOrNull(row.level_before_gal),
-      levelAfterGal: numberOrNull(row.level_after_gal),
+      refillGal: decimalOrNull(row.refill_gal),
+      levelBeforeGal: decimalOrNull(row.level_before_gal),
+      levelAfterGal: decimalOrNull(row.level_after_gal),
     })),
   };
 }
@@ -263,7 +266,7 @@ export function parseEventFilters(search: URLSearchParams): { filters: EventFilt
     kind: oneOf("kind", EVENT_KINDS),
     status: oneOf("status", EVENT_STATUSES),
     stationId: positiveInteger("station"),
-    foamClass: oneOf("class", ["A", "B"] as const),
+    foamClass: oneOf("class", FOAM_CLASSES),
     mine: search.get("mine") === "1",
     sort: oneOf("sort", Object.keys(SORTABLE) as SortKey[]) ?? "startedAt",
     direction: oneOf("dir", ["asc", "desc"] as const) ?? "desc",
@@ -326,9 +329,9 @@ function listItem(row: Record<string, unknown>, timeZone: string): EventListItem
     startedAt: instantToWallClock(row.started_at as Date | null, timeZone),
     address: row.address as string,
     station: (row.station_code as string | null) ?? null,
-    water: Number(row.water_gal),
-    concentrate: Number(row.concentrate_gal),
-    solution: Number(row.solution_gal),
+    water: decimalOrZero(row.water_gal),
+    concentrate: decimalOrZero(row.concentrate_gal),
+    solution: decimalOrZero(row.solution_gal),
     pfasContaining: Boolean(row.pfas_containing),
     hasWarnings: Boolean(row.has_warnings),
     foamClasses: String(row.foam_classes ?? "")
@@ -367,7 +370,7 @@ export type EventPage = {
 };
 
 export async function listEvents(user: SessionUser, filters: EventFilters): Promise<EventPage> {
-  const timeZone = await agencyTimeZone();
+  const { timeZone } = await readAgencySettings();
   const [rows, aggregate] = await Promise.all([
     filteredEvents(user, filters, timeZone)
       .select(...LIST_COLUMNS, classesSubquery())
@@ -390,9 +393,9 @@ export async function listEvents(user: SessionUser, filters: EventFilters): Prom
     items: rows.map((row: Record<string, unknown>) => listItem(row, timeZone)),
     count: Number(aggregate?.count ?? 0),
     totals: {
-      water: Number(aggregate?.water ?? 0),
-      concentrate: Number(aggregate?.concentrate ?? 0),
-      solution: Number(aggregate?.solution ?? 0),
+      water: decimalOrZero(aggregate?.water),
+      concentrate: decimalOrZero(aggregate?.concentrate),
+      solution: decimalOrZero(aggregate?.solution),
     },
   };
 }
@@ -400,7 +403,7 @@ export async function listEvents(user: SessionUser, filters: EventFilters): Prom
 /** Every event the filters select, streamed in the list's order (for CSV downloads). */
 export async function* eachEvent(user: SessionUser, filters: EventFilters): AsyncGenerator<EventListItem> {
   const batch = 1000;
-  const timeZone = await agencyTimeZone();
+  const { timeZone } = await readAgencySettings();
   for (let offset = 0; ; offset += batch) {
     const rows = await filteredEvents(user, filters, timeZone)
       .select(...LIST_COLUMNS, classesSubquery())

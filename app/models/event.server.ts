@@ -1,42 +1,64 @@
 import type { Knex } from "knex";
 import { recordAudit } from "~/lib/audit.server";
 import type { SessionUser } from "~/lib/auth.server";
+import { decimalOrNull } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
 import {
   DischargeLineSchema,
   DispositionLineSchema,
-  EVENT_KINDS,
   lineMinutes,
   TankReadingLineSchema,
   type DischargeLine,
-  type EventKind,
-  type EventStatus,
   type FiledReport,
 } from "~/lib/foam/report-schema";
 import { computeUsage, type DischargeInput, type TankReading, type UsageResult } from "~/lib/foam/totals";
 import { changeCapabilityFor, decide } from "~/lib/access";
+import { EVENT_KINDS, type EventKind, type EventStatus } from "~/lib/foam/vocabulary";
 import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
-import { agencyTimeZone } from "./agency.server";
+import { readAgencySettings } from "./agency-settings.server";
+import { apparatusFactsMap, productFactsMap } from "./catalogue.server";
 import { reportRecordOf } from "./event-read.server";
-import { apparatusFactsMap, numberOrNull, productFactsMap } from "./catalogue.server";
+import {
+  dischargeInputs,
+  tankReadingInputs,
+  totalsColumns,
+  writeReportLines,
+  type ReportDischarge,
+  type ReportLines,
+  type ReportTankReading,
+} from "./report-rows.server";
 
-function dischargeInputs(lines: DischargeLine[], timeZone: string): DischargeInput[] {
+type TankReadingLine = NonNullable<FiledReport["tankReadings"]>[number];
+
+/** The discharges as typed (wall-clock times, minutes or a start and end) as they are stored. */
+function storedDischarges(lines: DischargeLine[], timeZone: string): ReportDischarge[] {
   return lines.map((line) => ({
+    apparatusId: line.apparatusId ?? null,
+    outlet: line.outlet,
+    productId: line.productId ?? null,
+    percent: line.productId ? (line.percent ?? null) : null,
     flow: line.flow,
     flowUnit: line.flowUnit,
     basis: line.basis,
-    percent: line.productId ? (line.percent ?? null) : null,
     minutes: lineMinutes(line),
-    productId: line.productId ?? null,
-    apparatusId: line.apparatusId ?? null,
     startedAt: wallClockToInstant(line.startedAt, timeZone),
     endedAt: wallClockToInstant(line.endedAt, timeZone),
+    method: line.method ?? null,
+    airFlowCfm: line.airFlowCfm ?? null,
   }));
 }
 
-async function drawdownTolerance(connection: Db): Promise<number> {
-  const settings = await connection("agency_settings").where({ id: 1 }).first();
-  return settings ? Number(settings.drawdown_tolerance_share) : 0.15;
+/** The report's lines as the row writer takes them. */
+function storedLines(lines: Lines, timeZone: string): ReportLines {
+  return {
+    discharges: storedDischarges(lines.discharges, timeZone),
+    dispositions: lines.dispositions,
+    tankReadings: storedTankReadings(lines.tankReadings),
+  };
+}
+
+function storedTankReadings(lines: TankReadingLine[] = []): ReportTankReading[] {
+  return lines.map((line) => ({ ...line, apparatusId: line.apparatusId ?? null, productId: line.productId ?? null }));
 }
 
 /** The server's computation for a set of discharge inputs, with the catalogue facts they name. */
@@ -45,7 +67,7 @@ export async function computeForInputs(
   options: { tankReadings?: TankReading[]; eventWindow?: { start: Date | null; end: Date | null } } = {},
   connection: Db = db,
 ): Promise<UsageResult> {
-  const [products, apparatus, tolerance] = await Promise.all([
+  const [products, apparatus, settings] = await Promise.all([
     productFactsMap(
       inputs.flatMap((input) => (input.productId ? [input.productId] : [])),
       connection,
@@ -57,38 +79,26 @@ export async function computeForInputs(
       ],
       connection,
     ),
-    drawdownTolerance(connection),
+    readAgencySettings(connection),
   ]);
   return computeUsage(inputs, {
     products,
     apparatus,
     eventWindow: options.eventWindow,
     tankReadings: options.tankReadings,
-    drawdownTolerance: tolerance,
+    drawdownTolerance: settings.drawdownToleranceShare,
   });
-}
-
-type TankReadingLine = NonNullable<FiledReport["tankReadings"]>[number];
-
-function tankReadingInputs(lines: TankReadingLine[] = []): TankReading[] {
-  return lines.map((line) => ({
-    apparatusId: line.apparatusId ?? null,
-    productId: line.productId ?? null,
-    refillGal: line.refillGal ?? null,
-    levelBeforeGal: line.levelBeforeGal ?? null,
-    levelAfterGal: line.levelAfterGal ?? null,
-  }));
 }
 
 export async function computeReport(
   report: Pick<FiledReport, "discharges" | "tankReadings" | "startedAt" | "clearedAt">,
   connection: Db = db,
 ): Promise<UsageResult> {
-  const timeZone = await agencyTimeZone(connection);
+  const { timeZone } = await readAgencySettings(connection);
   return computeForInputs(
-    dischargeInputs(report.discharges, timeZone),
+    dischargeInputs(storedDischarges(report.discharges, timeZone)),
     {
-      tankReadings: tankReadingInputs(report.tankReadings),
+      tankReadings: tankReadingInputs(storedTankReadings(report.tankReadings)),
       eventWindow: {
         start: wallClockToInstant(report.startedAt, timeZone),
         end: wallClockToInstant(report.clearedAt, timeZone),
@@ -129,7 +139,7 @@ export class SaveRefused extends Error {
 
 const text = (value: unknown, max: number) => (typeof value === "string" ? value.trim().slice(0, max) : "");
 const numeric = (value: unknown) =>
-  typeof value === "string" && value.trim() !== "" ? numberOrNull(value.trim()) : numberOrNull(value);
+  typeof value === "string" && value.trim() !== "" ? decimalOrNull(value.trim()) : decimalOrNull(value);
 
 /** What can be read from a draft as typed; everything else stays in `draft_json`. */
 export function draftColumns(payload: Record<string, unknown>, timeZone: string) {
@@ -203,7 +213,7 @@ async function nextEventNumber(connection: Db, kind: EventKind, year: number): P
 
 /** A suggestion for a new report's number (the officer may type the dispatch number instead). */
 export async function suggestEventNumber(kind: EventKind = "incident", now = new Date()): Promise<string> {
-  const year = Number(instantToWallClock(now, await agencyTimeZone()).slice(0, 4));
+  const year = Number(instantToWallClock(now, (await readAgencySettings()).timeZone).slice(0, 4));
   return nextEventNumber(db, kind, year);
 }
 
@@ -218,66 +228,6 @@ async function snapshotEvent(eventId: number, connection: Db) {
 }
 
 type Lines = ReturnType<typeof draftLines>;
-
-async function writeLines(trx: Knex.Transaction, eventId: number, lines: Lines, usage: UsageResult, timeZone: string) {
-  await trx("discharges").where({ event_id: eventId }).delete();
-  await trx("runoff_dispositions").where({ event_id: eventId }).delete();
-  await trx("tank_readings").where({ event_id: eventId }).delete();
-  if (lines.discharges.length) {
-    await trx("discharges").insert(
-      lines.discharges.map((line, index) => {
-        const result = usage.discharges[index];
-        return {
-          event_id: eventId,
-          position: index + 1,
-          apparatus_id: line.apparatusId ?? null,
-          outlet: line.outlet ?? "",
-          product_id: line.productId ?? null,
-          percent: line.productId ? (line.percent ?? null) : null,
-          flow: line.flow,
-          flow_unit: line.flowUnit,
-          flow_basis: line.basis,
-          started_at: wallClockToInstant(line.startedAt, timeZone),
-          ended_at: wallClockToInstant(line.endedAt, timeZone),
-          minutes: lineMinutes(line),
-          method: line.method ?? null,
-          air_flow_cfm: line.airFlowCfm ?? null,
-          water_gal: result.water.gal,
-          concentrate_gal: result.concentrate.gal,
-          solution_gal: result.solution.gal,
-          effective_percent: result.effectivePercent,
-          warnings: JSON.stringify(result.warnings),
-        };
-      }),
-    );
-  }
-  if (lines.dispositions.length) {
-    await trx("runoff_dispositions").insert(
-      lines.dispositions.map((line) => ({
-        event_id: eventId,
-        disposition: line.disposition,
-        share_percent: line.sharePercent ?? null,
-        volume_gal: line.volumeGal ?? null,
-        receiving_water: line.receivingWater ?? "",
-        disposal_reference: line.disposalReference ?? "",
-        sewer_notice: line.sewerNotice ?? "",
-      })),
-    );
-  }
-  if (lines.tankReadings.length) {
-    await trx("tank_readings").insert(
-      lines.tankReadings.map((line) => ({
-        event_id: eventId,
-        apparatus_id: line.apparatusId ?? null,
-        product_id: line.productId ?? null,
-        kind: line.refillGal != null ? "refill" : "levels",
-        refill_gal: line.refillGal ?? null,
-        level_before_gal: line.levelBeforeGal ?? null,
-        level_after_gal: line.levelAfterGal ?? null,
-      })),
-    );
-  }
-}
 
 export type SaveHooks = {
   /** Runs inside the transaction after a report is filed (alerts are queued with the report or not at all). */
@@ -304,7 +254,7 @@ export async function saveReport(request: SaveRequest, hooks: SaveHooks = {}): P
       if (previous?.event_id) return { kind: "repeat", eventId: previous.event_id } as const;
 
       const report = request.report;
-      const timeZone = await agencyTimeZone(trx);
+      const { timeZone } = await readAgencySettings(trx);
       const columns = filing
         ? {
             number: report!.number,
@@ -325,10 +275,11 @@ export async function saveReport(request: SaveRequest, hooks: SaveHooks = {}): P
             tankReadings: report!.tankReadings ?? [],
           }
         : draftLines(request.payload);
+      const stored = storedLines(lines, timeZone);
       const usage = await computeForInputs(
-        dischargeInputs(lines.discharges, timeZone),
+        dischargeInputs(stored.discharges),
         {
-          tankReadings: tankReadingInputs(lines.tankReadings),
+          tankReadings: tankReadingInputs(stored.tankReadings),
           eventWindow: { start: columns.started_at, end: columns.cleared_at },
         },
         trx,
@@ -422,12 +373,7 @@ export async function saveReport(request: SaveRequest, hooks: SaveHooks = {}): P
             revision,
             draft_json: filing ? null : JSON.stringify(request.payload),
             ...(filing ? { filed_by: request.user.id, filed_at: trx.fn.now() } : {}),
-            water_gal: usage.totals.water.gal,
-            concentrate_gal: usage.totals.concentrate.gal,
-            solution_gal: usage.totals.solution.gal,
-            pfas_containing: usage.pfasContaining,
-            has_warnings: usage.eventWarnings.length > 0 || usage.discharges.some((line) => line.warnings.length > 0),
-            event_warnings: JSON.stringify(usage.eventWarnings),
+            ...totalsColumns(usage),
             updated_at: trx.fn.now(),
           });
       } else {
@@ -443,16 +389,11 @@ export async function saveReport(request: SaveRequest, hooks: SaveHooks = {}): P
           created_by: request.user.id,
           draft_json: filing ? null : JSON.stringify(request.payload),
           ...(filing ? { filed_by: request.user.id, filed_at: trx.fn.now() } : {}),
-          water_gal: usage.totals.water.gal,
-          concentrate_gal: usage.totals.concentrate.gal,
-          solution_gal: usage.totals.solution.gal,
-          pfas_containing: usage.pfasContaining,
-          has_warnings: usage.eventWarnings.length > 0 || usage.discharges.some((line) => line.warnings.length > 0),
-          event_warnings: JSON.stringify(usage.eventWarnings),
+          ...totalsColumns(usage),
         });
       }
 
-      await writeLines(trx, eventId!, lines, usage, timeZone);
+      await writeReportLines(trx, eventId!, stored, usage, { replace: true });
       await trx("form_submissions").insert({
         submission_key: request.submissionKey,
         user_id: request.user.id,

@@ -13,6 +13,7 @@ import {
   type GeographyLayers,
 } from "~/lib/geo/checks";
 import { LAYER_KINDS, LAYER_RULES, validateLayer, type LayerKind } from "~/lib/geo/layers";
+import { readAgencySettings } from "./agency-settings.server";
 
 type Actor = { id: number; email: string } | null;
 
@@ -57,9 +58,8 @@ export async function loadGeographyLayers(connection: Db = db): Promise<Geograph
 
 /** The agency's waterway buffer in metres (300 ft by default; local rules govern). */
 export async function waterwayBufferMetres(connection: Db = db): Promise<number> {
-  const row = await connection("agency_settings").where({ id: 1 }).first("waterway_buffer_m");
-  const value = Number(row?.waterway_buffer_m);
-  return Number.isFinite(value) && value > 0 ? value : DEFAULT_WATERWAY_BUFFER_M;
+  const { waterwayBufferM } = await readAgencySettings(connection);
+  return waterwayBufferM > 0 ? waterwayBufferM : DEFAULT_WATERWAY_BUFFER_M;
 }
 
 export type LocationCheck = GeographyChecks & { waterwayBufferM: number; layersMissing: LayerKind[] };

@@ -1,12 +1,13 @@
 import { randomUUID } from "node:crypto";
 import { recordAudit } from "~/lib/audit.server";
 import type { SessionUser } from "~/lib/auth.server";
-import type { FoamType, PfasContentUnit, ProductFormValue } from "~/lib/catalogue/product-form";
+import type { ProductFormValue } from "~/lib/catalogue/product-form";
 import { StaleRecordError } from "~/lib/catalogue/record-version";
+import { decimalOrNull } from "~/lib/decimal";
 import { db } from "~/lib/db.server";
-import type { FoamClass } from "~/lib/foam/totals";
+import type { FoamClass, FoamType, PfasContentUnit } from "~/lib/foam/vocabulary";
 import { deleteObjectQuietly, putObject } from "~/lib/storage.server";
-import { nominalPercentsOf, numberOrNull } from "./catalogue.server";
+import { nominalPercentsOf } from "./catalogue.server";
 
 export type ProductRecord = {
   id: number;
@@ -38,11 +39,11 @@ function recordOf(row: Record<string, unknown>): ProductRecord {
     foamType: row.foam_type as FoamType,
     nominalPercents: nominalPercentsOf(row.nominal_percents as string),
     pfasContaining: Boolean(row.pfas_containing),
-    pfasContent: numberOrNull(row.pfas_content),
+    pfasContent: decimalOrNull(row.pfas_content),
     pfasContentUnit: (row.pfas_content_unit as PfasContentUnit | null) ?? null,
     pfasContentBasis: (row.pfas_content_basis as string | null) ?? null,
     pfasContentSource: (row.pfas_content_source as string | null) ?? null,
-    unitCostPerGal: numberOrNull(row.unit_cost_per_gal),
+    unitCostPerGal: decimalOrNull(row.unit_cost_per_gal),
     safetySheetName: (row.safety_sheet_name as string | null) ?? null,
     hasSafetySheet: Boolean(row.safety_sheet_key),
     active: Boolean(row.active),

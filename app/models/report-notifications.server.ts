@@ -2,20 +2,22 @@ import type { Knex } from "knex";
 import { rolesFor } from "~/lib/access";
 import { recordAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
-import { gramsToPoundsMass, isPfasContentUnit, pfasGrams } from "~/lib/foam/pfas";
+import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
+import { gramsToPoundsMass, pfasGrams } from "~/lib/foam/pfas";
+import { containedGallons, releasedGallons, shareNotContained, type RunoffLine } from "~/lib/foam/released-volume";
 import { gallonsToLitres } from "~/lib/foam/units";
-import { XLSX_TYPE } from "~/lib/reporting/files";
-import { localDateTime } from "~/lib/reporting/period";
 import {
-  agencyFacts,
   DISPOSITION_LABELS,
-  KIND_LABELS,
+  DISPOSITIONS_TO_WATER,
+  EVENT_KIND_LABELS,
+  isPfasContentUnit,
   type Disposition,
   type EventKind,
-} from "./environmental-report.server";
+} from "~/lib/foam/vocabulary";
+import { XLSX_TYPE } from "~/lib/reporting/files";
+import { localDateTime } from "~/lib/reporting/period";
+import { agencyNameForDocuments, readAgencySettings } from "./agency-settings.server";
 import { queueMail } from "./mail-outbox.server";
-
-const RELEASE_TO_WATER: Disposition[] = ["storm_drain", "surface_water"];
 
 const gal = (value: number) => `${value.toLocaleString("en-US", { maximumFractionDigits: 2 })} US gal`;
 const galAndLitres = (value: number) =>
@@ -56,22 +58,26 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
     .groupBy("p.id")
     .select("p.name", "p.pfas_content", "p.pfas_content_unit", "p.pfas_content_source")
     .sum({ concentrate: "d.concentrate_gal" });
-  const dispositions = await trx("runoff_dispositions").where({ event_id: eventId }).orderBy("id");
-  const solution = Number(event.solution_gal);
-  const releasedOf = (row: { volume_gal: string | null; share_percent: string | null }) =>
-    row.volume_gal !== null ? Number(row.volume_gal) : (Number(row.share_percent ?? 0) / 100) * solution;
-  const toWater = dispositions.filter((row) => RELEASE_TO_WATER.includes(row.disposition));
+  const dispositions: (RunoffLine & { receivingWater: string; disposalReference: string; sewerNotice: string })[] = (
+    await trx("runoff_dispositions").where({ event_id: eventId }).orderBy("id")
+  ).map((row) => ({
+    disposition: row.disposition as Disposition,
+    sharePercent: decimalOrNull(row.share_percent),
+    volumeGal: decimalOrNull(row.volume_gal),
+    receivingWater: row.receiving_water ?? "",
+    disposalReference: row.disposal_reference ?? "",
+    sewerNotice: row.sewer_notice ?? "",
+  }));
+  const solution = decimalOrZero(event.solution_gal);
+  const toWater = dispositions.filter((row) => DISPOSITIONS_TO_WATER.includes(row.disposition));
   if (pfasLines.length === 0 && toWater.length === 0) return;
 
-  const agency = await agencyFacts(trx);
+  const agency = await readAgencySettings(trx);
   const recipients = [...agency.releaseAlertRecipients, ...(await environmentalOfficerEmails(trx))];
-  const contained = dispositions
-    .filter((row) => row.disposition === "contained")
-    .reduce((total, row) => total + releasedOf(row), 0);
-  const shareNotContained = solution > 0 ? Math.min(1, Math.max(0, 1 - contained / solution)) : 1;
+  const notContained = shareNotContained(containedGallons(dispositions, solution), solution);
 
   const lines: string[] = [
-    `Report ${event.number} (${KIND_LABELS[event.kind as EventKind]}) was filed and needs your attention.`,
+    `Report ${event.number} (${EVENT_KIND_LABELS[event.kind as EventKind]}) was filed and needs your attention.`,
     "",
     `Open it: ${eventLink(eventId)}`,
     "",
@@ -83,8 +89,8 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
         : "not placed"
     }`,
     "",
-    `Water: ${galAndLitres(Number(event.water_gal))}`,
-    `Concentrate: ${galAndLitres(Number(event.concentrate_gal))}`,
+    `Water: ${galAndLitres(decimalOrZero(event.water_gal))}`,
+    `Concentrate: ${galAndLitres(decimalOrZero(event.concentrate_gal))}`,
     `Foam solution: ${galAndLitres(solution)}`,
   ];
   if (pfasLines.length > 0) {
@@ -92,14 +98,14 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
     let pounds = 0;
     let unknown = false;
     for (const line of pfasLines) {
-      const concentrate = Number(line.concentrate);
-      const content = line.pfas_content === null ? null : Number(line.pfas_content);
+      const concentrate = decimalOrZero(line.concentrate);
+      const content = decimalOrNull(line.pfas_content);
       if (content === null || !isPfasContentUnit(line.pfas_content_unit)) {
         unknown = true;
         lines.push(`- ${line.name}: ${galAndLitres(concentrate)} of concentrate; PFAS content not recorded`);
         continue;
       }
-      const grams = pfasGrams(concentrate, content, line.pfas_content_unit) * shareNotContained;
+      const grams = pfasGrams(concentrate, content, line.pfas_content_unit) * notContained;
       pounds += gramsToPoundsMass(grams);
       lines.push(
         `- ${line.name}: ${galAndLitres(concentrate)} of concentrate; estimated PFAS released ${grams.toLocaleString(
@@ -113,7 +119,7 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
       );
     }
     lines.push(
-      `Share of the foam solution not contained: ${(shareNotContained * 100).toFixed(1)} %${dispositions.length === 0 ? " (no runoff recorded: all counted as released)" : ""}`,
+      `Share of the foam solution not contained: ${(notContained * 100).toFixed(1)} %${dispositions.length === 0 ? " (no runoff recorded: all counted as released)" : ""}`,
       `Estimated PFAS released by this report: ${pounds.toLocaleString("en-US", { maximumFractionDigits: 3 })} lb` +
         `${unknown ? " plus products with no content recorded" : ""}; the agency's threshold is ${agency.pfasReportableLb} lb in any 24 hours ` +
         `(default 1 lb: CERCLA reportable quantity for PFOA/PFOS, 40 CFR 302.4). ${
@@ -127,9 +133,9 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
     lines.push("", "Where the runoff went:");
     for (const row of dispositions) {
       lines.push(
-        `- ${DISPOSITION_LABELS[row.disposition as Disposition]}: ${galAndLitres(releasedOf(row))}` +
-          `${row.receiving_water ? ` to ${row.receiving_water}` : ""}${row.disposal_reference ? `; disposal ${row.disposal_reference}` : ""}` +
-          `${row.sewer_notice ? `; notice ${row.sewer_notice}` : ""}`,
+        `- ${DISPOSITION_LABELS[row.disposition]}: ${galAndLitres(releasedGallons(row, solution))}` +
+          `${row.receivingWater ? ` to ${row.receivingWater}` : ""}${row.disposalReference ? `; disposal ${row.disposalReference}` : ""}` +
+          `${row.sewerNotice ? `; notice ${row.sewerNotice}` : ""}`,
       );
     }
   }
@@ -173,7 +179,7 @@ export async function queueReturnedReportNotice(
       to: [event.email],
       subject: `Report ${event.number} was returned for changes`,
       text: [
-        `${event.name}, your usage report ${event.number} (${KIND_LABELS[event.kind as EventKind]}) was returned with this comment:`,
+        `${event.name}, your usage report ${event.number} (${EVENT_KIND_LABELS[event.kind as EventKind]}) was returned with this comment:`,
         "",
         comment,
         "",
@@ -203,7 +209,8 @@ export async function queueQuarterlyWorkbookMail(
   },
   trx: Knex.Transaction,
 ): Promise<number> {
-  const agency = await agencyFacts(trx);
+  const settings = await readAgencySettings(trx);
+  const agency = { ...settings, name: agencyNameForDocuments(settings) };
   if (agency.reportRecipients.length === 0) {
     throw new NoRecipientsError("No report recipients are set in the agency settings.");
   }

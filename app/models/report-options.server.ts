@@ -1,14 +1,14 @@
-import { agencyTimeZone } from "./agency.server";
+import { readAgencySettings } from "./agency-settings.server";
 import { listActiveApparatus, listActiveProducts, listStationOptions } from "./catalogue.server";
 import type { ReportDetail } from "./event-read.server";
 
 /** The choices the usage-report form offers. */
 export async function reportFormOptions() {
-  const [stations, apparatus, products, timeZone] = await Promise.all([
+  const [stations, apparatus, products, { timeZone }] = await Promise.all([
     listStationOptions(),
     listActiveApparatus(),
     listActiveProducts(),
-    agencyTimeZone(),
+    readAgencySettings(),
   ]);
   return {
     timeZone,

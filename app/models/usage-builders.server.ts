@@ -1,19 +1,27 @@
 // Row builders shared by the demo seed, the large synthetic seed and the test factories. They take
 // the connection as an argument (never the app's pool) and compute every stored volume with the same
-// module the server uses, so seeded numbers equal what a save would store.
+// module the server uses, so seeded numbers equal what a save would store. A report's own rows are
+// written by `report-rows.server.ts`, as a save writes them.
 import type { Knex } from "knex";
-import type { ApplicationMethod } from "../lib/foam/vocabulary";
-import type { FoamType, PfasContentUnit } from "../lib/catalogue/product-form";
+import { decimalOrNull } from "../lib/decimal";
+import { computeUsage, type ApparatusFacts, type ProductFacts, type UsageResult } from "../lib/foam/totals";
+import type {
+  ApplicationMethod,
+  EventKind,
+  EventStatus,
+  FlowBasis,
+  FoamClass,
+  FoamType,
+  PfasContentUnit,
+} from "../lib/foam/vocabulary";
+import { readAgencySettings } from "./agency-settings.server";
 import {
-  computeUsage,
-  type ApparatusFacts,
-  type DischargeInput,
-  type FlowBasis,
-  type FoamClass,
-  type ProductFacts,
-  type UsageResult,
-} from "../lib/foam/totals";
-import type { FlowUnit } from "../lib/foam/units";
+  dischargeInputs,
+  tankReadingInputs,
+  totalsColumns,
+  writeReportLines,
+  type ReportLines,
+} from "./report-rows.server";
 
 /** A small, fast, deterministic random source (mulberry32), so seeds are the same on every run. */
 export function seededRandom(seed: number) {
@@ -159,47 +167,7 @@ export function apparatusFactsOf(id: number, spec: ApparatusSpec): ApparatusFact
   };
 }
 
-export type DischargeSpec = {
-  apparatusId: number | null;
-  outlet?: string;
-  productId: number | null;
-  percent: number | null;
-  flow: number;
-  flowUnit?: FlowUnit;
-  basis?: FlowBasis;
-  minutes: number;
-  startedAt?: Date | null;
-  endedAt?: Date | null;
-  method?: ApplicationMethod | null;
-  airFlowCfm?: number | null;
-};
-
-export type Disposition =
-  "contained" | "soil" | "storm_drain" | "surface_water" | "sanitary_sewer" | "evaporated_unknown";
-
-export type DispositionSpec = {
-  disposition: Disposition;
-  sharePercent?: number | null;
-  volumeGal?: number | null;
-  receivingWater?: string;
-  disposalReference?: string;
-  sewerNotice?: string;
-  notes?: string | null;
-};
-
-export type TankReadingSpec = {
-  apparatusId: number | null;
-  productId: number | null;
-  kind: "refill" | "levels";
-  refillGal?: number | null;
-  levelBeforeGal?: number | null;
-  levelAfterGal?: number | null;
-};
-
-export type EventStatus = "draft" | "filed" | "returned" | "accepted";
-export type EventKind = "incident" | "training" | "test" | "flush";
-
-export type EventSpec = {
+export type EventSpec = ReportLines & {
   number: string;
   kind: EventKind;
   status: EventStatus;
@@ -217,51 +185,27 @@ export type EventSpec = {
   reviewedAt?: Date | null;
   reviewComment?: string | null;
   version?: number;
-  discharges: DischargeSpec[];
-  dispositions?: DispositionSpec[];
-  tankReadings?: TankReadingSpec[];
 };
 
 export type CatalogueFacts = {
   products: ReadonlyMap<number, ProductFacts>;
   apparatus: ReadonlyMap<number, ApparatusFacts>;
-  /** agency_settings.drawdown_tolerance_share */
+  /** The agency's drawdown tolerance (a share, 0.15 for 15 %). */
   drawdownTolerance?: number;
 };
 
-export function dischargeInputOf(spec: DischargeSpec): DischargeInput {
-  return {
-    flow: spec.flow,
-    flowUnit: spec.flowUnit ?? "gpm",
-    basis: spec.basis ?? "water",
-    percent: spec.productId == null ? null : spec.percent,
-    minutes: spec.minutes,
-    productId: spec.productId,
-    apparatusId: spec.apparatusId,
-    startedAt: spec.startedAt ?? null,
-    endedAt: spec.endedAt ?? null,
-  };
-}
-
 /** The computation of one event, exactly as a save would run it. */
 export function usageOf(spec: EventSpec, facts: CatalogueFacts): UsageResult {
-  return computeUsage(spec.discharges.map(dischargeInputOf), {
+  return computeUsage(dischargeInputs(spec.discharges), {
     products: facts.products,
     apparatus: facts.apparatus,
     eventWindow: { start: spec.startedAt, end: spec.clearedAt },
-    tankReadings: (spec.tankReadings ?? []).map((reading) => ({
-      apparatusId: reading.apparatusId,
-      productId: reading.productId,
-      refillGal: reading.refillGal ?? null,
-      levelBeforeGal: reading.levelBeforeGal ?? null,
-      levelAfterGal: reading.levelAfterGal ?? null,
-    })),
+    tankReadings: tankReadingInputs(spec.tankReadings),
     drawdownTolerance: facts.drawdownTolerance,
   });
 }
 
 export function eventRow(spec: EventSpec, usage: UsageResult) {
-  const hasWarnings = usage.eventWarnings.length > 0 || usage.discharges.some((result) => result.warnings.length > 0);
   return {
     number: spec.number,
     kind: spec.kind,
@@ -281,65 +225,8 @@ export function eventRow(spec: EventSpec, usage: UsageResult) {
     reviewed_by: spec.reviewedBy ?? null,
     reviewed_at: spec.reviewedAt ?? null,
     review_comment: spec.reviewComment ?? null,
-    water_gal: usage.totals.water.gal,
-    concentrate_gal: usage.totals.concentrate.gal,
-    solution_gal: usage.totals.solution.gal,
-    pfas_containing: usage.pfasContaining,
-    has_warnings: hasWarnings,
-    event_warnings: JSON.stringify(usage.eventWarnings),
+    ...totalsColumns(usage),
   };
-}
-
-export function dischargeRows(eventId: number, spec: EventSpec, usage: UsageResult) {
-  return spec.discharges.map((discharge, index) => {
-    const result = usage.discharges[index];
-    return {
-      event_id: eventId,
-      position: index + 1,
-      apparatus_id: discharge.apparatusId,
-      outlet: discharge.outlet ?? "",
-      product_id: discharge.productId,
-      percent: discharge.productId == null ? null : discharge.percent,
-      flow: discharge.flow,
-      flow_unit: discharge.flowUnit ?? "gpm",
-      flow_basis: discharge.basis ?? "water",
-      started_at: discharge.startedAt ?? null,
-      ended_at: discharge.endedAt ?? null,
-      minutes: discharge.minutes,
-      method: discharge.method ?? null,
-      air_flow_cfm: discharge.airFlowCfm ?? null,
-      water_gal: result.water.gal,
-      concentrate_gal: result.concentrate.gal,
-      solution_gal: result.solution.gal,
-      effective_percent: result.effectivePercent,
-      warnings: JSON.stringify(result.warnings),
-    };
-  });
-}
-
-export function dispositionRows(eventId: number, spec: EventSpec) {
-  return (spec.dispositions ?? []).map((item) => ({
-    event_id: eventId,
-    disposition: item.disposition,
-    share_percent: item.sharePercent ?? null,
-    volume_gal: item.volumeGal ?? null,
-    receiving_water: item.receivingWater ?? "",
-    disposal_reference: item.disposalReference ?? "",
-    sewer_notice: item.sewerNotice ?? "",
-    notes: item.notes ?? null,
-  }));
-}
-
-export function tankReadingRows(eventId: number, spec: EventSpec) {
-  return (spec.tankReadings ?? []).map((reading) => ({
-    event_id: eventId,
-    apparatus_id: reading.apparatusId,
-    product_id: reading.productId,
-    kind: reading.kind,
-    refill_gal: reading.refillGal ?? null,
-    level_before_gal: reading.levelBeforeGal ?? null,
-    level_after_gal: reading.levelAfterGal ?? null,
-  }));
 }
 
 /** Inserts one event with its discharges, dispositions and tank readings; returns its id and usage. */
@@ -350,12 +237,7 @@ export async function insertEvent(
 ): Promise<{ id: number; usage: UsageResult }> {
   const usage = usageOf(spec, facts);
   const [id] = await connection("events").insert(eventRow(spec, usage));
-  const discharges = dischargeRows(id, spec, usage);
-  if (discharges.length) await connection("discharges").insert(discharges);
-  const dispositions = dispositionRows(id, spec);
-  if (dispositions.length) await connection("runoff_dispositions").insert(dispositions);
-  const readings = tankReadingRows(id, spec);
-  if (readings.length) await connection("tank_readings").insert(readings);
+  await writeReportLines(connection, id, spec, usage);
   return { id, usage };
 }
 
@@ -370,9 +252,9 @@ export async function loadCatalogueFacts(connection: Knex | Knex.Transaction): P
       "water_flow_min_gpm",
       "water_flow_max_gpm",
     ),
-    connection("agency_settings").where({ id: 1 }).first(),
+    readAgencySettings(connection),
   ]);
-  const number = (value: unknown) => (value == null ? null : Number(value));
+  const number = decimalOrNull;
   return {
     products: new Map(
       products.map((row) => [
@@ -401,6 +283,6 @@ export async function loadCatalogueFacts(connection: Knex | Knex.Transaction): P
         },
       ]),
     ),
-    drawdownTolerance: settings ? Number(settings.drawdown_tolerance_share) : undefined,
+    drawdownTolerance: settings.drawdownToleranceShare,
   };
 }

@@ -1,14 +1,18 @@
 import type { Knex } from "knex";
+import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db } from "~/lib/db.server";
+import { releasedGallonsSql } from "~/lib/foam/released-volume";
+import {
+  FOAM_CLASSES,
+  type Disposition,
+  type EventFoamClasses,
+  type EventKind,
+  type FoamClass,
+} from "~/lib/foam/vocabulary";
 import type { MapFilters } from "~/lib/geo/map-filters";
 
 /** Reports still in draft are the officer's work in progress and stay off the map and totals. */
 const MAPPED_STATUSES = ["filed", "returned", "accepted"];
-
-export async function agencyTimeZone(): Promise<string> {
-  const row = await db("agency_settings").where({ id: 1 }).first("time_zone");
-  return row?.time_zone || "America/Chicago";
-}
 
 function filteredEvents(filters: MapFilters): Knex.QueryBuilder {
   const query = db("events as e")
@@ -35,17 +39,17 @@ function filteredEvents(filters: MapFilters): Knex.QueryBuilder {
   return query;
 }
 
-const gallons = (value: unknown) => Math.round(Number(value ?? 0) * 1000) / 1000;
+const gallons = (value: unknown) => Math.round(decimalOrZero(value) * 1000) / 1000;
 
 export type MapEventProperties = {
   id: number;
   number: string;
-  kind: string;
+  kind: EventKind;
   status: string;
   startedAt: string | null;
   address: string;
   station: string | null;
-  foamClass: "A" | "B" | "A+B" | "none";
+  foamClass: EventFoamClasses;
   pfasContaining: boolean;
   waterGal: number;
   concentrateGal: number;
@@ -72,7 +76,7 @@ export type MapEventCollection = {
 type MapEventRow = {
   id: number;
   number: string;
-  kind: string;
+  kind: EventKind;
   status: string;
   started_at: Date | string | null;
   address: string;
@@ -144,7 +148,7 @@ export async function mapEvents(filters: MapFilters): Promise<MapEventCollection
       return {
         type: "Feature",
         id: row.id,
-        geometry: { type: "Point", coordinates: [Number(row.longitude), Number(row.latitude)] },
+        geometry: { type: "Point", coordinates: [decimalOrZero(row.longitude), decimalOrZero(row.latitude)] },
         properties: {
           id: row.id,
           number: row.number,
@@ -162,7 +166,7 @@ export async function mapEvents(filters: MapFilters): Promise<MapEventCollection
           classBConcentrateGal: gallons(row.class_b_gal),
           drainageBasin: row.drainage_basin ?? null,
           nearestWaterway: row.nearest_waterway ?? null,
-          nearestWaterwayM: row.nearest_waterway_m == null ? null : Number(row.nearest_waterway_m),
+          nearestWaterwayM: decimalOrNull(row.nearest_waterway_m),
           withinWaterwayBuffer: row.within_waterway_buffer == null ? null : Boolean(row.within_waterway_buffer),
           url: `/events/${row.id}`,
         },
@@ -180,7 +184,7 @@ export type UsageSummary = {
   bbox: [number, number, number, number] | null;
   units: "US gallons";
   totals: Totals & { pfasEvents: number; pfasConcentrateGal: number };
-  byFoamClass: { foamClass: string; concentrateGal: number; solutionGal: number; events: number }[];
+  byFoamClass: { foamClass: FoamClass; concentrateGal: number; solutionGal: number; events: number }[];
   byProduct: {
     productId: number;
     name: string;
@@ -190,7 +194,7 @@ export type UsageSummary = {
     solutionGal: number;
     events: number;
   }[];
-  byDisposition: { disposition: string; solutionGal: number; events: number }[];
+  byDisposition: { disposition: Disposition; solutionGal: number; events: number }[];
   byDrainageBasin: ({ drainageBasin: string | null } & Totals)[];
   byStation: ({ station: string | null; name: string | null } & Totals)[];
   byMonth: { month: string; classAConcentrateGal: number; classBConcentrateGal: number }[];
@@ -217,9 +221,9 @@ function monthsBetween(from: string, to: string): string[] {
 
 const add = (target: Totals, row: { water_gal: unknown; concentrate_gal: unknown; solution_gal: unknown }) => {
   target.events += 1;
-  target.waterGal += Number(row.water_gal);
-  target.concentrateGal += Number(row.concentrate_gal);
-  target.solutionGal += Number(row.solution_gal);
+  target.waterGal += decimalOrZero(row.water_gal);
+  target.concentrateGal += decimalOrZero(row.concentrate_gal);
+  target.solutionGal += decimalOrZero(row.solution_gal);
 };
 const rounded = <T extends Totals>(totals: T): T => ({
   ...totals,
@@ -271,8 +275,7 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
       .orderBy("r.disposition")
       .select(
         "r.disposition",
-        // A share of the event's foam solution when no volume was given.
-        db.raw("SUM(COALESCE(r.volume_gal, re.solution_gal * r.share_percent / 100, 0)) AS solution_gal"),
+        db.raw(`SUM(${releasedGallonsSql("r", "re")}) AS solution_gal`),
         db.raw("COUNT(DISTINCT r.event_id) AS events"),
       ),
   ]);
@@ -285,7 +288,7 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
     add(totals, row);
     if (row.pfas_containing) {
       totals.pfasEvents += 1;
-      totals.pfasConcentrateGal += Number(row.concentrate_gal);
+      totals.pfasConcentrateGal += decimalOrZero(row.concentrate_gal);
     }
     const basin = basins.get(row.drainage_basin ?? null) ?? zero();
     add(basin, row);
@@ -302,16 +305,16 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
   for (const row of classByEvent) {
     const when = startedAt.get(row.event_id);
     const entry = classes.get(row.foam_class) ?? { concentrateGal: 0, events: new Set<number>() };
-    entry.concentrateGal += Number(row.concentrate_gal);
+    entry.concentrateGal += decimalOrZero(row.concentrate_gal);
     entry.events.add(row.event_id);
     classes.set(row.foam_class, entry);
     if (!when) continue;
     const month = months.get(toMonth(when));
-    if (month) month[row.foam_class === "A" ? "a" : "b"] += Number(row.concentrate_gal);
+    if (month) month[row.foam_class === "A" ? "a" : "b"] += decimalOrZero(row.concentrate_gal);
   }
   const solutionByClass = new Map<string, number>();
   for (const row of products) {
-    solutionByClass.set(row.foam_class, (solutionByClass.get(row.foam_class) ?? 0) + Number(row.solution_gal));
+    solutionByClass.set(row.foam_class, (solutionByClass.get(row.foam_class) ?? 0) + decimalOrZero(row.solution_gal));
   }
 
   return {
@@ -320,7 +323,7 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
     bbox: filters.bbox,
     units: "US gallons",
     totals: { ...rounded(totals), pfasConcentrateGal: gallons(totals.pfasConcentrateGal) },
-    byFoamClass: ["A", "B"].map((foamClass) => ({
+    byFoamClass: FOAM_CLASSES.map((foamClass) => ({
       foamClass,
       concentrateGal: gallons(classes.get(foamClass)?.concentrateGal ?? 0),
       solutionGal: gallons(solutionByClass.get(foamClass) ?? 0),
@@ -336,7 +339,7 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
       events: Number(row.events),
     })),
     byDisposition: dispositions.map((row) => ({
-      disposition: row.disposition,
+      disposition: row.disposition as Disposition,
       solutionGal: gallons(row.solution_gal),
       events: Number(row.events),
     })),

@@ -6,13 +6,8 @@ import { csvLine } from "~/lib/csv";
 import { db, type Db } from "~/lib/db.server";
 import { gallonsToLitres } from "~/lib/foam/units";
 import { localDateTime } from "~/lib/reporting/period";
-import {
-  DISPOSITION_LABELS,
-  DISPOSITIONS,
-  EVENT_KINDS,
-  KIND_LABELS,
-  periodFacts,
-} from "~/models/environmental-report.server";
+import { DISPOSITION_LABELS, DISPOSITIONS, EVENT_KIND_LABELS, EVENT_KINDS } from "~/lib/foam/vocabulary";
+import { periodFacts } from "~/models/environmental-report.server";
 import {
   dischargeTable,
   eventTable,
@@ -110,7 +105,7 @@ export async function writeEnvironmentalCsvZip(
         ]);
       }
       for (const kind of EVENT_KINDS)
-        summary.push(["Events", KIND_LABELS[kind], aggregates.eventsByKind[kind], "events"]);
+        summary.push(["Events", EVENT_KIND_LABELS[kind], aggregates.eventsByKind[kind], "events"]);
       summary.push([
         "PFAS",
         "heaviest 24-hour period",

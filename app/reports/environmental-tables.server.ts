@@ -1,5 +1,5 @@
 import type { Db } from "~/lib/db.server";
-import { PFAS_CONTENT_UNIT_LABELS, isPfasContentUnit } from "~/lib/foam/pfas";
+import { PFAS_CONTENT_UNIT_LABELS, isPfasContentUnit } from "~/lib/foam/vocabulary";
 import { LITRES_PER_US_GALLON } from "~/lib/foam/units";
 import type { ReportPeriod } from "~/lib/reporting/period";
 import {

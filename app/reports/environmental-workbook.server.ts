@@ -8,12 +8,16 @@ import { localDateTime, wallClockIn, type ReportPeriod } from "~/lib/reporting/p
 import {
   DISPOSITION_LABELS,
   DISPOSITIONS,
+  EVENT_KIND_LABELS,
   EVENT_KINDS,
+  FOAM_CLASS_LABELS,
+  FOAM_CLASSES,
+  WATER_ONLY_LABEL,
+} from "~/lib/foam/vocabulary";
+import type { AgencySettings } from "~/models/agency-settings.server";
+import {
   eventsChangedSince,
-  KIND_LABELS,
   periodFacts,
-  WATER_ONLY,
-  type AgencyFacts,
   type AmendedEvent,
   type PeriodAggregates,
   type PfasRow,
@@ -143,7 +147,7 @@ const exactly = (value: string) => excelString(`=${value.replace(/[~*?]/g, "~$&"
 function writeSummary(
   workbook: ExcelJS.stream.xlsx.WorkbookWriter,
   facts: {
-    agency: AgencyFacts;
+    agency: AgencySettings;
     request: WorkbookRequest;
     aggregates: PeriodAggregates;
     pfas: PfasRow[];
@@ -258,20 +262,20 @@ function writeSummary(
 
   heading("Water, concentrate and foam solution by foam class (from the Discharges sheet)");
   volumeHeads("Foam class", "Use");
-  const classes = ["Class A", "Class B", WATER_ONLY];
+  const classes = [...FOAM_CLASSES.map((foamClass) => FOAM_CLASS_LABELS[foamClass]), WATER_ONLY_LABEL];
   for (const foamClass of classes) {
     const classCriteria = `${dRange("class")},${exactly(foamClass)}`;
     const inClass = aggregates.byClass.filter((row) => row.foamClass === foamClass);
     volumeRow(
       foamClass,
       "Incidents",
-      `${classCriteria},${dRange("kind")},${exactly(KIND_LABELS.incident)}`,
+      `${classCriteria},${dRange("kind")},${exactly(EVENT_KIND_LABELS.incident)}`,
       totalsOf(inClass.filter((row) => row.incident)),
     );
     volumeRow(
       foamClass,
       "Training, tests, flushes",
-      `${classCriteria},${dRange("kind")},${excelString(`<>${KIND_LABELS.incident}`)}`,
+      `${classCriteria},${dRange("kind")},${excelString(`<>${EVENT_KIND_LABELS.incident}`)}`,
       totalsOf(inClass.filter((row) => !row.incident)),
     );
     volumeRow(foamClass, "All use", classCriteria, totalsOf(inClass));
@@ -367,10 +371,10 @@ function writeSummary(
   for (const kind of EVENT_KINDS) {
     add(
       [
-        KIND_LABELS[kind],
+        EVENT_KIND_LABELS[kind],
         "",
         {
-          formula: `COUNTIFS(${range("Events", letterOf(E, "kind"), ranges.events)},${exactly(KIND_LABELS[kind])})`,
+          formula: `COUNTIFS(${range("Events", letterOf(E, "kind"), ranges.events)},${exactly(EVENT_KIND_LABELS[kind])})`,
           result: aggregates.eventsByKind[kind],
         },
       ],
@@ -434,7 +438,7 @@ function writeSummary(
   sheet.commit();
 }
 
-export function methodLines(agency: AgencyFacts): [string, string][] {
+export function methodLines(agency: AgencySettings): [string, string][] {
   return [
     ["Method and cautions", ""],
     [
@@ -485,7 +489,7 @@ export function methodLines(agency: AgencyFacts): [string, string][] {
   ];
 }
 
-function writeMethod(workbook: ExcelJS.stream.xlsx.WorkbookWriter, agency: AgencyFacts) {
+function writeMethod(workbook: ExcelJS.stream.xlsx.WorkbookWriter, agency: AgencySettings) {
   const sheet = workbook.addWorksheet("Method and cautions", sheetOptions("B", false));
   sheet.columns = [{ width: 28 }, { width: 110 }];
   methodLines(agency).forEach(([topic, text], index) => {

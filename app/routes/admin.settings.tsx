@@ -7,7 +7,8 @@ import { AgencySettingsSchema } from "~/lib/agency-settings-form";
 import { requireCapability } from "~/lib/access.server";
 import { clientAddress, rethrowDatabaseDown } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
-import { readAgencySettings, saveAgencySettings } from "~/models/agency.server";
+import { saveAgencySettings } from "~/models/agency.server";
+import { readAgencySettings } from "~/models/agency-settings.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Agency settings · Foamtally" }];
 

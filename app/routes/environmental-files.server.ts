@@ -7,7 +7,7 @@ import type { SessionUser } from "~/lib/auth.server";
 import { httpError } from "~/lib/http.server";
 import { XLSX_TYPE, ZIP_TYPE } from "~/lib/reporting/files";
 import { parseReportPeriod, type ReportPeriod } from "~/lib/reporting/period";
-import { agencyFacts } from "~/models/environmental-report.server";
+import { readAgencySettings } from "~/models/agency-settings.server";
 import { latestSubmissionFor } from "~/models/quarterly-submission.server";
 import { writeEnvironmentalCsvZip } from "~/reports/environmental-csv.server";
 import {
@@ -18,7 +18,7 @@ import {
 } from "~/reports/environmental-workbook.server";
 
 export async function periodFrom(params: URLSearchParams): Promise<ReportPeriod> {
-  const agency = await agencyFacts();
+  const agency = await readAgencySettings();
   const result = parseReportPeriod(params, agency.timeZone);
   if (!result.ok) httpError(400, result.message);
   return result.period;

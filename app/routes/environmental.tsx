@@ -7,7 +7,8 @@ import { clientAddress } from "~/lib/http.server";
 import { localDateTime, parseReportPeriod, periodQuery, type ReportPeriod } from "~/lib/reporting/period";
 import { can } from "~/lib/access";
 import { flashHeaders } from "~/lib/session.server";
-import { agencyFacts, eventsChangedSince, periodAggregates, pfasRows } from "~/models/environmental-report.server";
+import { readAgencySettings } from "~/models/agency-settings.server";
+import { eventsChangedSince, periodAggregates, pfasRows } from "~/models/environmental-report.server";
 import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
 import {
   latestSubmissionFor,
@@ -39,7 +40,7 @@ function periodParams(source: URLSearchParams | FormData): URLSearchParams {
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "exports.quarterly");
-  const agency = await agencyFacts();
+  const agency = await readAgencySettings();
   const asked = periodParams(new URL(request.url).searchParams);
   const parsed = parseReportPeriod(
     asked.size > 0 ? asked : lastCompleteQuarter(new Date(), agency.timeZone),
@@ -107,7 +108,7 @@ export async function action({ request }: Route.ActionArgs) {
   const user = await requireCapability(request, "exports.submit");
   const formData = await request.formData();
   const intent = formData.get("intent");
-  const agency = await agencyFacts();
+  const agency = await readAgencySettings();
   const parsed = parseReportPeriod(periodParams(formData), agency.timeZone);
   if (!parsed.ok) return data({ error: parsed.message }, { status: 400 });
   const period = parsed.period;

@@ -1,7 +1,14 @@
 import { Form, Link, useSearchParams } from "react-router";
 import type { Route } from "./+types/events._index";
 import { requireCapability } from "~/lib/access.server";
-import { EVENT_KIND_LABELS, EVENT_KINDS, EVENT_STATUS_LABELS, EVENT_STATUSES } from "~/lib/foam/report-schema";
+import {
+  EVENT_KIND_LABELS,
+  EVENT_KINDS,
+  EVENT_STATUS_LABELS,
+  EVENT_STATUSES,
+  FOAM_CLASS_LABELS,
+  FOAM_CLASSES,
+} from "~/lib/foam/vocabulary";
 import { can } from "~/lib/access";
 import { listStationOptions } from "~/models/catalogue.server";
 import { listEvents, parseEventFilters, type SortKey } from "~/models/event-read.server";
@@ -82,10 +89,7 @@ export default function Events({ loaderData }: Route.ComponentProps) {
           label="Foam class"
           name="class"
           value={filters.foamClass}
-          options={[
-            ["A", "Class A"],
-            ["B", "Class B"],
-          ]}
+          options={FOAM_CLASSES.map((foamClass) => [foamClass, FOAM_CLASS_LABELS[foamClass]])}
         />
         <div className="flex items-end gap-2">
           <input type="hidden" name="sort" value={filters.sort} />

@@ -1,7 +1,7 @@
 import type { Route } from "./+types/events.csv";
 import { requireCapability } from "~/lib/access.server";
 import { csvLine } from "~/lib/csv";
-import { EVENT_KIND_LABELS, EVENT_STATUS_LABELS } from "~/lib/foam/report-schema";
+import { EVENT_KIND_LABELS, EVENT_STATUS_LABELS } from "~/lib/foam/vocabulary";
 import { httpError } from "~/lib/http.server";
 import { eachEvent, parseEventFilters } from "~/models/event-read.server";
 

@@ -13,10 +13,20 @@ import {
 } from "~/components/usage-map";
 import { requireCapability } from "~/lib/access.server";
 import { eventsInView, type MappedEventFeature } from "~/lib/geo/events-in-view";
-import { EVENT_KINDS, mapQuery, parseMapFilters, type BoundingBox } from "~/lib/geo/map-filters";
+import {
+  BOTH_CLASSES_LABEL,
+  DISPOSITION_LABELS,
+  EVENT_KIND_LABELS,
+  EVENT_KINDS,
+  FOAM_CLASS_LABELS,
+  FOAM_CLASSES,
+  WATER_ONLY_LABEL,
+} from "~/lib/foam/vocabulary";
+import { mapQuery, parseMapFilters, type BoundingBox } from "~/lib/geo/map-filters";
 import { httpError, rethrowDatabaseDown } from "~/lib/http.server";
 import { localDateTime } from "~/lib/reporting/period";
-import { agencyTimeZone, listStations, usageSummary, type UsageSummary } from "~/models/usage-map.server";
+import { readAgencySettings } from "~/models/agency-settings.server";
+import { listStations, usageSummary, type UsageSummary } from "~/models/usage-map.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Usage map · Foamtally" }];
 
@@ -30,7 +40,7 @@ function defaultRange(timeZone: string) {
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCapability(request, "usage.map");
-  const timeZone = await agencyTimeZone().catch((error) => rethrowDatabaseDown(request, error));
+  const timeZone = (await readAgencySettings().catch((error) => rethrowDatabaseDown(request, error))).timeZone;
   const params = new URL(request.url).searchParams;
   const range = defaultRange(timeZone);
   if (!params.get("from")) params.set("from", range.from);
@@ -60,14 +70,6 @@ export async function loader({ request }: Route.LoaderArgs) {
 const EVENTS_LISTED = 50;
 
 const gal = (value: number) => `${value.toLocaleString("en-US", { maximumFractionDigits: 1 })} gal`;
-const DISPOSITION_LABELS: Record<string, string> = {
-  contained: "Contained and collected",
-  soil: "To soil",
-  storm_drain: "To a storm drain",
-  surface_water: "To surface water",
-  sanitary_sewer: "To the sanitary sewer",
-  evaporated_unknown: "Evaporated or unknown",
-};
 
 export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
   const { filters, stations } = loaderData;
@@ -120,7 +122,7 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
             <option value="">All kinds</option>
             {EVENT_KINDS.map((kind) => (
               <option key={kind} value={kind}>
-                {kind === "test" ? "Test" : kind === "flush" ? "Flush" : kind[0].toUpperCase() + kind.slice(1)}
+                {EVENT_KIND_LABELS[kind]}
               </option>
             ))}
           </select>
@@ -129,8 +131,11 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
           <span className="field-label">Foam class</span>
           <select name="class" defaultValue={filters.foamClass} className="field-input">
             <option value="">A and B</option>
-            <option value="A">Class A</option>
-            <option value="B">Class B</option>
+            {FOAM_CLASSES.map((foamClass) => (
+              <option key={foamClass} value={foamClass}>
+                {FOAM_CLASS_LABELS[foamClass]}
+              </option>
+            ))}
           </select>
         </label>
         <label>
@@ -219,7 +224,11 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
           <SummaryTable
             title="By foam class"
             head={["Class", "Concentrate", "Events"]}
-            rows={summary.byFoamClass.map((row) => [`Class ${row.foamClass}`, gal(row.concentrateGal), row.events])}
+            rows={summary.byFoamClass.map((row) => [
+              FOAM_CLASS_LABELS[row.foamClass],
+              gal(row.concentrateGal),
+              row.events,
+            ])}
           />
           <SummaryTable
             title="By product"
@@ -234,7 +243,7 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
             title="Where the runoff went"
             head={["Disposition", "Solution", "Events"]}
             rows={summary.byDisposition.map((row) => [
-              DISPOSITION_LABELS[row.disposition] ?? row.disposition,
+              DISPOSITION_LABELS[row.disposition],
               gal(row.solutionGal),
               row.events,
             ])}
@@ -297,10 +306,10 @@ function MapKey() {
   );
   return (
     <div className="flex flex-wrap gap-x-4 gap-y-1 text-xs text-slate-ft" aria-label="Map key">
-      {swatch(FOAM_CLASS_COLOURS.A, "Class A")}
-      {swatch(FOAM_CLASS_COLOURS.B, "Class B")}
-      {swatch(FOAM_CLASS_COLOURS["A+B"], "Both classes")}
-      {swatch(FOAM_CLASS_COLOURS.none, "No foam recorded")}
+      {swatch(FOAM_CLASS_COLOURS.A, FOAM_CLASS_LABELS.A)}
+      {swatch(FOAM_CLASS_COLOURS.B, FOAM_CLASS_LABELS.B)}
+      {swatch(FOAM_CLASS_COLOURS["A+B"], BOTH_CLASSES_LABEL)}
+      {swatch(FOAM_CLASS_COLOURS.none, WATER_ONLY_LABEL)}
       <span className="flex items-center gap-1">
         <span
           aria-hidden="true"

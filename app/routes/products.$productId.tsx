@@ -4,16 +4,9 @@ import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/products.$productId";
 import { CheckboxField, ErrorList, FormErrors, SelectField, TextAreaField, TextField } from "~/components/form-fields";
 import { requireCapability } from "~/lib/access.server";
-import {
-  FOAM_TYPE_LABELS,
-  FOAM_TYPES,
-  looksLikePdf,
-  PFAS_CONTENT_UNIT_LABELS,
-  PFAS_CONTENT_UNITS,
-  ProductFormSchema,
-  SAFETY_SHEET_MAX_BYTES,
-} from "~/lib/catalogue/product-form";
+import { looksLikePdf, ProductFormSchema, SAFETY_SHEET_MAX_BYTES } from "~/lib/catalogue/product-form";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
+import { FOAM_TYPE_LABELS, FOAM_TYPES, PFAS_CONTENT_UNIT_LABELS, PFAS_CONTENT_UNITS } from "~/lib/foam/vocabulary";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { can } from "~/lib/access";
 import { flashHeaders } from "~/lib/session.server";

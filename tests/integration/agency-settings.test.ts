@@ -3,7 +3,7 @@ import { readFileSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/lib/db.server";
 import { recomputeAllEventGeography, recomputeEventGeography, replaceLayer } from "~/models/geography.server";
-import { readAgencySettings } from "~/models/agency.server";
+import { readAgencySettings } from "~/models/agency-settings.server";
 import { action, loader } from "~/routes/admin.settings";
 import { makeUser } from "../support/factories";
 import { formRequest, getRequest, routeArgs, settle } from "../support/requests";

@@ -91,7 +91,7 @@ describe("release alerts and notices by e-mail", () => {
     // 90 gal × 3.785411784 L/gal (NIST Handbook 44) × 10 g/L (the content set above) = 3,406.87 g = 7.511 lb
     // (1 lb = 453.59237 g, NIST Handbook 44), all of it released to the storm drain.
     expect(alert.text).toContain("estimated PFAS released 3,406.9 g (7.511 lb)");
-    expect(alert.text).toContain("To storm drain: 3,000 US gal (11,356.2 L) to Test Creek");
+    expect(alert.text).toContain("To a storm drain: 3,000 US gal (11,356.2 L) to Test Creek");
     expect(alert.text).toContain("This report alone reaches it.");
     const row = await db("mail_outbox").where({ event_id: event.id }).first();
     expect(row).toMatchObject({ kind: "release_alert", status: "sent", attempts: 1 });

@@ -202,23 +202,23 @@ describe("the quarterly environmental workbook", () => {
     expect(wet.value("D")).toBeCloseTo(3 + 1, 6);
 
     const releases = rowsOf(book, "Releases");
-    const storm = summaryRow(book, "To storm drain");
+    const storm = summaryRow(book, "To a storm drain");
     // 60 % of the storm event's 4,003 gal of foam solution.
     expect(storm.value("C")).toBeCloseTo(0.6 * 4003, 6);
     expect(storm.value("C")).toBeCloseTo(
-      sum(releases, "Released foam solution (US gal)", (row) => row["Where the runoff went"] === "To storm drain"),
+      sum(releases, "Released foam solution (US gal)", (row) => row["Where the runoff went"] === "To a storm drain"),
       6,
     );
     expect(summaryRow(book, "Contained and collected").value("C")).toBeCloseTo(0.4 * 4003 + 515, 6);
     expect(summaryRow(book, "Test Basin North", "Test Creek").value("C")).toBeCloseTo(0.6 * 4003, 6);
-    const stormRelease = releases.find((row) => row["Where the runoff went"] === "To storm drain");
+    const stormRelease = releases.find((row) => row["Where the runoff went"] === "To a storm drain");
     expect(stormRelease?.["Event number"]).toBe(stormEventNumber);
 
     expect(summaryRow(book, "Incident").value("C")).toBe(2);
     expect(summaryRow(book, "Incident").formula("C")).toMatch(/^COUNTIFS\(Events!/);
     expect(summaryRow(book, "All events").value("C")).toBe(rowsOf(book, "Events").length);
     expect(summaryRow(book, "Filed, awaiting review (not counted)").value("B")).toBe(1);
-    expect(rowsOf(book, "Non-incident use").map((row) => row.Kind)).toEqual(["Training", "Flush"]);
+    expect(rowsOf(book, "Non-incident use").map((row) => row.Kind)).toEqual(["Training", "Flush or maintenance"]);
   });
 
   it("estimates PFAS mass as worked out by hand and checks the 24-hour threshold", async () => {

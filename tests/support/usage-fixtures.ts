@@ -1,13 +1,15 @@
 // Direct inserts of stations, products, events, discharges and runoff dispositions for the export
-// and mail tests, with stored volumes given explicitly so each test knows its expected totals.
+// and mail tests, with stored volumes given explicitly so each test knows its expected totals. A
+// report's rows go through the same writer as a save.
 import { randomUUID } from "node:crypto";
 import type { Knex } from "knex";
 import { db } from "~/lib/db.server";
+import type { Disposition, EventKind, EventStatus, FlowBasis, FoamClass, PfasContentUnit } from "~/lib/foam/vocabulary";
+import { statedResults, totalsColumns, writeReportLines } from "~/models/report-rows.server";
 
 const unique = () => randomUUID().slice(0, 8);
 
 export async function ensureAgency(connection: Knex = db, overrides: Record<string, unknown> = {}) {
-  const existing = await connection("agency_settings").where({ id: 1 }).first();
   const values = {
     name: "Test Fire District (test)",
     time_zone: "America/Chicago",
@@ -15,8 +17,10 @@ export async function ensureAgency(connection: Knex = db, overrides: Record<stri
     release_alert_recipients: "release-desk@test.example",
     ...overrides,
   };
-  if (existing) await connection("agency_settings").where({ id: 1 }).update(values);
-  else await connection("agency_settings").insert({ id: 1, ...values });
+  await connection("agency_settings")
+    .insert({ id: 1, ...values })
+    .onConflict("id")
+    .merge(Object.keys(values));
 }
 
 export async function makeStation(connection: Knex = db) {
@@ -33,11 +37,11 @@ export async function makeApparatus(stationId: number | null, connection: Knex =
 
 export type ProductFixture = {
   name?: string;
-  foamClass: "A" | "B";
+  foamClass: FoamClass;
   foamType?: string;
   pfasContaining?: boolean;
   pfasContent?: number | null;
-  pfasContentUnit?: "g_per_l" | "mg_per_l" | "percent_w_w" | null;
+  pfasContentUnit?: PfasContentUnit | null;
   pfasContentBasis?: string | null;
   pfasContentSource?: string | null;
 };
@@ -63,7 +67,7 @@ export type DischargeFixture = {
   apparatusId?: number | null;
   percent?: number | null;
   flow?: number;
-  flowBasis?: "water" | "solution";
+  flowBasis?: FlowBasis;
   minutes?: number;
   water: number;
   concentrate: number;
@@ -71,7 +75,7 @@ export type DischargeFixture = {
 };
 
 export type DispositionFixture = {
-  disposition: "contained" | "soil" | "storm_drain" | "surface_water" | "sanitary_sewer" | "evaporated_unknown";
+  disposition: Disposition;
   sharePercent?: number | null;
   volumeGal?: number | null;
   receivingWater?: string;
@@ -81,8 +85,8 @@ export type DispositionFixture = {
 
 export type EventFixture = {
   createdBy: number;
-  kind?: "incident" | "training" | "test" | "flush";
-  status?: "draft" | "filed" | "returned" | "accepted";
+  kind?: EventKind;
+  status?: EventStatus;
   startedAt: Date;
   stationId?: number | null;
   drainageBasin?: string | null;
@@ -94,8 +98,11 @@ export type EventFixture = {
 
 /** One event with its discharges and dispositions; the event's stored totals are the discharges' sums. */
 export async function makeEvent(spec: EventFixture, connection: Knex = db) {
-  const discharges = (spec.discharges ?? []).map((d) => ({ ...d, solution: d.solution ?? d.water + d.concentrate }));
-  const sum = (pick: (d: (typeof discharges)[number]) => number) => discharges.reduce((total, d) => total + pick(d), 0);
+  const discharges = spec.discharges ?? [];
+  const results = statedResults(
+    discharges.map((d) => ({ ...d, effectivePercent: d.percent ?? null })),
+    spec.pfasContaining ?? false,
+  );
   const number = `T-${unique()}`;
   const [id] = await connection("events").insert({
     number,
@@ -107,40 +114,25 @@ export async function makeEvent(spec: EventFixture, connection: Knex = db) {
     station_id: spec.stationId ?? null,
     created_by: spec.createdBy,
     filed_at: spec.status === "draft" ? null : spec.startedAt,
-    water_gal: sum((d) => d.water),
-    concentrate_gal: sum((d) => d.concentrate),
-    solution_gal: sum((d) => d.solution),
-    pfas_containing: spec.pfasContaining ?? false,
+    ...totalsColumns(results),
     drainage_basin: spec.drainageBasin ?? null,
     nearest_waterway: spec.nearestWaterway ?? null,
   });
-  for (const [index, d] of discharges.entries()) {
-    await connection("discharges").insert({
-      event_id: id,
-      position: index + 1,
-      apparatus_id: d.apparatusId ?? null,
-      product_id: d.productId ?? null,
-      percent: d.percent ?? null,
-      flow: d.flow ?? 100,
-      flow_basis: d.flowBasis ?? "water",
-      minutes: d.minutes ?? 10,
-      water_gal: d.water,
-      concentrate_gal: d.concentrate,
-      solution_gal: d.solution,
-      effective_percent: d.percent ?? null,
-      warnings: "[]",
-    });
-  }
-  for (const r of spec.dispositions ?? []) {
-    await connection("runoff_dispositions").insert({
-      event_id: id,
-      disposition: r.disposition,
-      share_percent: r.sharePercent ?? null,
-      volume_gal: r.volumeGal ?? null,
-      receiving_water: r.receivingWater ?? "",
-      disposal_reference: r.disposalReference ?? "",
-      sewer_notice: r.sewerNotice ?? "",
-    });
-  }
+  await writeReportLines(
+    connection,
+    id,
+    {
+      discharges: discharges.map((d) => ({
+        apparatusId: d.apparatusId ?? null,
+        productId: d.productId ?? null,
+        percent: d.percent ?? null,
+        flow: d.flow ?? 100,
+        basis: d.flowBasis,
+        minutes: d.minutes ?? 10,
+      })),
+      dispositions: spec.dispositions,
+    },
+    results,
+  );
   return { id, number };
 }

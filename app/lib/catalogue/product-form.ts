@@ -1,38 +1,5 @@
 import { z } from "zod";
-
-export const FOAM_TYPES = [
-  "class-a",
-  "afff",
-  "ar-afff",
-  "fffp",
-  "ar-fffp",
-  "f3",
-  "protein",
-  "fluoroprotein",
-  "other",
-] as const;
-export type FoamType = (typeof FOAM_TYPES)[number];
-
-export const FOAM_TYPE_LABELS: Record<FoamType, string> = {
-  "class-a": "Class A",
-  afff: "AFFF",
-  "ar-afff": "AR-AFFF (alcohol-resistant)",
-  fffp: "FFFP",
-  "ar-fffp": "AR-FFFP (alcohol-resistant)",
-  f3: "Fluorine-free (F3)",
-  protein: "Protein",
-  fluoroprotein: "Fluoroprotein",
-  other: "Other",
-};
-
-export const PFAS_CONTENT_UNITS = ["g_per_l", "mg_per_l", "percent_w_w"] as const;
-export type PfasContentUnit = (typeof PFAS_CONTENT_UNITS)[number];
-
-export const PFAS_CONTENT_UNIT_LABELS: Record<PfasContentUnit, string> = {
-  g_per_l: "g per litre of concentrate",
-  mg_per_l: "mg per litre of concentrate",
-  percent_w_w: "% by weight (w/w)",
-};
+import { FOAM_CLASSES, FOAM_TYPES, PFAS_CONTENT_UNITS } from "../foam/vocabulary";
 
 /** Largest safety sheet accepted, in bytes. */
 export const SAFETY_SHEET_MAX_BYTES = 10 * 1024 * 1024;
@@ -85,7 +52,7 @@ export const ProductFormSchema = z
       .min(1, "Enter the product's name.")
       .max(120, "A name has at most 120 characters."),
     maker: optionalText(120, "The maker"),
-    foamClass: z.enum(["A", "B"], { error: "Choose Class A or Class B." }),
+    foamClass: z.enum(FOAM_CLASSES, { error: "Choose Class A or Class B." }),
     foamType: z.enum(FOAM_TYPES, { error: "Choose the foam type." }),
     nominalPercents: z
       .string({ error: "Enter at least one nominal percentage, e.g. 3 or 3, 6." })

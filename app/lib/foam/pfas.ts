@@ -1,12 +1,5 @@
 import { GRAMS_PER_POUND, LITRES_PER_US_GALLON } from "./units";
-
-export type PfasContentUnit = "g_per_l" | "mg_per_l" | "percent_w_w";
-
-export const PFAS_CONTENT_UNIT_LABELS: Record<PfasContentUnit, string> = {
-  g_per_l: "g per L of concentrate",
-  mg_per_l: "mg per L of concentrate",
-  percent_w_w: "% w/w of concentrate",
-};
+import type { PfasContentUnit } from "./vocabulary";
 
 /**
  * Density assumed when a content is given as % w/w: 1 kg per litre of concentrate. The legacy
@@ -14,10 +7,6 @@ export const PFAS_CONTENT_UNIT_LABELS: Record<PfasContentUnit, string> = {
  * academic measurements from memory); a denser concentrate makes the estimate slightly low.
  */
 export const ASSUMED_CONCENTRATE_KG_PER_L = 1;
-
-export function isPfasContentUnit(value: unknown): value is PfasContentUnit {
-  return value === "g_per_l" || value === "mg_per_l" || value === "percent_w_w";
-}
 
 /** Grams of PFAS per litre of concentrate for a content stated in `unit`. */
 export function pfasGramsPerLitre(content: number, unit: PfasContentUnit): number {

@@ -1,44 +1,6 @@
 import { z } from "zod";
 import { FLOW_UNITS } from "./units";
-import { APPLICATION_METHODS, FLOW_BASES } from "./vocabulary";
-
-export const EVENT_KINDS = ["incident", "training", "test", "flush"] as const;
-export type EventKind = (typeof EVENT_KINDS)[number];
-export const EVENT_KIND_LABELS: Record<EventKind, string> = {
-  incident: "Incident",
-  training: "Training",
-  test: "Acceptance or annual test",
-  flush: "Flush or maintenance",
-};
-
-export const EVENT_STATUSES = ["draft", "filed", "returned", "accepted"] as const;
-export type EventStatus = (typeof EVENT_STATUSES)[number];
-export const EVENT_STATUS_LABELS: Record<EventStatus, string> = {
-  draft: "Draft",
-  filed: "Filed",
-  returned: "Returned",
-  accepted: "Accepted",
-};
-
-export { APPLICATION_METHOD_LABELS, APPLICATION_METHODS, FLOW_BASES, FLOW_BASIS_LABELS } from "./vocabulary";
-
-export const DISPOSITIONS = [
-  "contained",
-  "soil",
-  "storm_drain",
-  "surface_water",
-  "sanitary_sewer",
-  "evaporated_unknown",
-] as const;
-export type Disposition = (typeof DISPOSITIONS)[number];
-export const DISPOSITION_LABELS: Record<Disposition, string> = {
-  contained: "Contained and collected",
-  soil: "To soil",
-  storm_drain: "To a storm drain",
-  surface_water: "To surface water",
-  sanitary_sewer: "To the sanitary sewer",
-  evaporated_unknown: "Evaporated or unknown",
-};
+import { APPLICATION_METHODS, DISPOSITIONS, EVENT_KINDS, FLOW_BASES } from "./vocabulary";
 
 export const MAX_DISCHARGE_MINUTES = 24 * 60;
 export const MAX_LINES = 200;

@@ -1,7 +1,5 @@
 import { flowInGpm, volumeFromGallons, type FlowUnit, type Volume } from "./units";
-
-export type FlowBasis = "water" | "solution";
-export type FoamClass = "A" | "B";
+import type { FlowBasis, FoamClass } from "./vocabulary";
 
 export type DischargeInput = {
   flow: number;

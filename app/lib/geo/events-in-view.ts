@@ -1,12 +1,13 @@
+import type { EventFoamClasses, EventKind } from "~/lib/foam/vocabulary";
 import type { BoundingBox } from "./map-filters";
 
 /** The properties of one event on the usage map, as `/api/map/events.geojson` sends them. */
 export type MappedEvent = {
   id: number;
   number: string;
-  kind: string;
+  kind: EventKind;
   startedAt: string | null;
-  foamClass: "A" | "B" | "A+B" | "none";
+  foamClass: EventFoamClasses;
   pfasContaining: boolean;
   concentrateGal: number;
   drainageBasin: string | null;

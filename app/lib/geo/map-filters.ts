@@ -1,9 +1,5 @@
+import { EVENT_KINDS, FOAM_CLASSES, type EventKind, type FoamClass } from "~/lib/foam/vocabulary";
 import { parseReportPeriod } from "~/lib/reporting/period";
-
-export const EVENT_KINDS = ["incident", "training", "test", "flush"] as const;
-export const FOAM_CLASSES = ["A", "B"] as const;
-export type EventKindFilter = (typeof EVENT_KINDS)[number];
-export type FoamClassFilter = (typeof FOAM_CLASSES)[number];
 
 /** West, south, east, north in WGS 84 degrees. */
 export type BoundingBox = [number, number, number, number];
@@ -14,8 +10,8 @@ export type MapFilters = {
   startUtc: Date;
   endUtc: Date;
   bbox: BoundingBox | null;
-  foamClass: FoamClassFilter | null;
-  kind: EventKindFilter | null;
+  foamClass: FoamClass | null;
+  kind: EventKind | null;
   stationId: number | null;
 };
 
@@ -68,8 +64,8 @@ export function parseMapFilters(params: URLSearchParams, timeZone: string): MapF
       startUtc: period.period.startUtc,
       endUtc: period.period.endUtc,
       bbox,
-      foamClass: (foamClass || null) as FoamClassFilter | null,
-      kind: (kind || null) as EventKindFilter | null,
+      foamClass: (foamClass || null) as FoamClass | null,
+      kind: (kind || null) as EventKind | null,
       stationId: station ? Number(station) : null,
     },
   };

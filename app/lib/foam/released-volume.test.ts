@@ -1,0 +1,37 @@
+import { describe, expect, it } from "vitest";
+import { containedGallons, releasedGallons, shareNotContained } from "./released-volume";
+
+describe("released volume of a runoff line", () => {
+  it("is the stated volume when one was given", () => {
+    expect(releasedGallons({ volumeGal: 120, sharePercent: null }, 500)).toBe(120);
+  });
+
+  it("is the stated share of the event's foam solution otherwise", () => {
+    expect(releasedGallons({ volumeGal: null, sharePercent: 60 }, 500)).toBe(300);
+  });
+
+  it("is nothing for a line with neither", () => {
+    expect(releasedGallons({ volumeGal: null, sharePercent: null }, 500)).toBe(0);
+  });
+});
+
+describe("share not contained", () => {
+  it("is what the contained lines leave of the solution", () => {
+    const lines = [
+      { disposition: "contained" as const, sharePercent: 30, volumeGal: null },
+      { disposition: "storm_drain" as const, sharePercent: 70, volumeGal: null },
+    ];
+    const contained = containedGallons(lines, 1000);
+    expect(contained).toBe(300);
+    expect(shareNotContained(contained, 1000)).toBeCloseTo(0.7, 12);
+  });
+
+  it("counts everything as released when nothing was contained or no runoff was recorded", () => {
+    expect(shareNotContained(0, 400)).toBe(1);
+    expect(shareNotContained(0, 0)).toBe(1);
+  });
+
+  it("stays between none and all when the stated volumes exceed the solution", () => {
+    expect(shareNotContained(600, 400)).toBe(0);
+  });
+});

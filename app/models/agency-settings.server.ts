@@ -1,0 +1,65 @@
+import { createHash } from "node:crypto";
+import {
+  DEFAULT_CLASS_A_ACCURACY_SHARE,
+  DEFAULT_DRAWDOWN_TOLERANCE_SHARE,
+  DEFAULT_PFAS_REPORTABLE_LB,
+  DEFAULT_WATERWAY_BUFFER_M,
+  splitRecipientList,
+  type AgencySettings,
+} from "~/lib/agency-settings-form";
+import { decimalOrNull } from "~/lib/decimal";
+import { db, type Db } from "~/lib/db.server";
+
+export const DEFAULT_TIME_ZONE = "America/Chicago";
+/** The version of settings that were never saved: the first save inserts the row. */
+export const UNSAVED_SETTINGS_VERSION = "none";
+/** What a generated document names when the agency has not given its name yet. */
+const NAME_NOT_SET = "(agency name not set)";
+
+type SettingsRow = Record<string, unknown> | undefined;
+
+// The row as stored, so that any change by anyone (values or updated_at) gives a new version.
+function versionOf(row: SettingsRow): string {
+  if (!row) return UNSAVED_SETTINGS_VERSION;
+  const canonical = Object.keys(row)
+    .sort()
+    .map((key) => [key, row[key] instanceof Date ? (row[key] as Date).toISOString() : String(row[key])]);
+  return createHash("sha256").update(JSON.stringify(canonical)).digest("hex").slice(0, 24);
+}
+
+function settingsFrom(row: SettingsRow): AgencySettings {
+  const number = (value: unknown, fallback: number) => decimalOrNull(value) ?? fallback;
+  return {
+    name: typeof row?.name === "string" ? row.name : "",
+    timeZone: typeof row?.time_zone === "string" && row.time_zone ? row.time_zone : DEFAULT_TIME_ZONE,
+    displayUnits: row?.display_units === "metric" ? "metric" : "us",
+    waterwayBufferM: number(row?.waterway_buffer_m, DEFAULT_WATERWAY_BUFFER_M),
+    drawdownToleranceShare: number(row?.drawdown_tolerance_share, DEFAULT_DRAWDOWN_TOLERANCE_SHARE),
+    pfasReportableLb: number(row?.pfas_reportable_lb, DEFAULT_PFAS_REPORTABLE_LB),
+    classAAccuracyShare: number(row?.class_a_accuracy_share, DEFAULT_CLASS_A_ACCURACY_SHARE),
+    reportRecipients: splitRecipientList(row?.report_recipients as string | undefined),
+    releaseAlertRecipients: splitRecipientList(row?.release_alert_recipients as string | undefined),
+    updatedAt: row?.updated_at instanceof Date ? row.updated_at.toISOString() : null,
+    version: versionOf(row),
+  };
+}
+
+/**
+ * Every agency setting, with the version a save must name: the one reader of `agency_settings`.
+ * `forUpdate` locks the row until the caller's transaction ends (for the save).
+ */
+export async function readAgencySettings(
+  connection: Db = db,
+  options: { forUpdate?: boolean } = {},
+): Promise<AgencySettings> {
+  const query = connection("agency_settings").where({ id: 1 });
+  if (options.forUpdate) query.forUpdate();
+  return settingsFrom(await query.first());
+}
+
+/** The agency's name as workbooks and e-mails print it. */
+export function agencyNameForDocuments(settings: Pick<AgencySettings, "name">): string {
+  return settings.name || NAME_NOT_SET;
+}
+
+export type { AgencySettings };

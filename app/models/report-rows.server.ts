@@ -1,0 +1,224 @@
+// The one writer of a report's rows: its discharges, runoff dispositions and tank readings, and the
+// totals columns of its event, from the lines and what the computation made of them. Saving a report,
+// the demo and large seeds, the test fixtures and the benchmarks all write through it. Relative
+// imports and a connection passed in, so that the knex CLI can run it from a seed.
+import type { Knex } from "knex";
+import type { DischargeInput, TankReading, UsageWarning } from "../lib/foam/totals";
+import type { FlowUnit } from "../lib/foam/units";
+import type { ApplicationMethod, Disposition, FlowBasis } from "../lib/foam/vocabulary";
+
+/** One discharge as stored: instants, not wall-clock times; minutes worked out. */
+export type ReportDischarge = {
+  apparatusId: number | null;
+  outlet?: string;
+  productId: number | null;
+  percent: number | null;
+  flow: number;
+  flowUnit?: FlowUnit;
+  basis?: FlowBasis;
+  minutes: number;
+  startedAt?: Date | null;
+  endedAt?: Date | null;
+  method?: ApplicationMethod | null;
+  airFlowCfm?: number | null;
+};
+
+export type ReportRunoff = {
+  disposition: Disposition;
+  sharePercent?: number | null;
+  volumeGal?: number | null;
+  receivingWater?: string;
+  disposalReference?: string;
+  sewerNotice?: string;
+  notes?: string | null;
+};
+
+/** A refill amount, or the tank's levels before and after; which one it is follows from the figures. */
+export type ReportTankReading = {
+  apparatusId: number | null;
+  productId: number | null;
+  refillGal?: number | null;
+  levelBeforeGal?: number | null;
+  levelAfterGal?: number | null;
+};
+
+export type ReportLines = {
+  discharges: ReportDischarge[];
+  dispositions?: ReportRunoff[];
+  tankReadings?: ReportTankReading[];
+};
+
+type Gallons = { gal: number };
+
+/** What the computation gives for one discharge (a `DischargeResult` is one). */
+export type ComputedDischarge = {
+  water: Gallons;
+  concentrate: Gallons;
+  solution: Gallons;
+  effectivePercent: number | null;
+  warnings: UsageWarning[];
+};
+
+/** What the computation gives for a report (a `UsageResult` is one), one entry per discharge in order. */
+export type ComputedReport = {
+  discharges: ComputedDischarge[];
+  totals: { water: Gallons; concentrate: Gallons; solution: Gallons };
+  eventWarnings: UsageWarning[];
+  pfasContaining: boolean;
+};
+
+/** The discharges as the computation takes them. */
+export function dischargeInputs(discharges: readonly ReportDischarge[]): DischargeInput[] {
+  return discharges.map((line) => ({
+    flow: line.flow,
+    flowUnit: line.flowUnit ?? "gpm",
+    basis: line.basis ?? "water",
+    percent: line.productId == null ? null : line.percent,
+    minutes: line.minutes,
+    productId: line.productId,
+    apparatusId: line.apparatusId,
+    startedAt: line.startedAt ?? null,
+    endedAt: line.endedAt ?? null,
+  }));
+}
+
+/** The tank readings as the drawdown check takes them. */
+export function tankReadingInputs(readings: readonly ReportTankReading[] = []): TankReading[] {
+  return readings.map((reading) => ({
+    apparatusId: reading.apparatusId,
+    productId: reading.productId,
+    refillGal: reading.refillGal ?? null,
+    levelBeforeGal: reading.levelBeforeGal ?? null,
+    levelAfterGal: reading.levelAfterGal ?? null,
+  }));
+}
+
+/** The event's stored totals and flags. */
+export function totalsColumns(computed: ComputedReport) {
+  return {
+    water_gal: computed.totals.water.gal,
+    concentrate_gal: computed.totals.concentrate.gal,
+    solution_gal: computed.totals.solution.gal,
+    pfas_containing: computed.pfasContaining,
+    has_warnings: computed.eventWarnings.length > 0 || computed.discharges.some((line) => line.warnings.length > 0),
+    event_warnings: JSON.stringify(computed.eventWarnings),
+  };
+}
+
+export function dischargeRows(eventId: number, discharges: readonly ReportDischarge[], computed: ComputedReport) {
+  return discharges.map((line, index) => {
+    const result = computed.discharges[index];
+    return {
+      event_id: eventId,
+      position: index + 1,
+      apparatus_id: line.apparatusId,
+      outlet: line.outlet ?? "",
+      product_id: line.productId,
+      percent: line.productId == null ? null : line.percent,
+      flow: line.flow,
+      flow_unit: line.flowUnit ?? "gpm",
+      flow_basis: line.basis ?? "water",
+      started_at: line.startedAt ?? null,
+      ended_at: line.endedAt ?? null,
+      minutes: line.minutes,
+      method: line.method ?? null,
+      air_flow_cfm: line.airFlowCfm ?? null,
+      water_gal: result.water.gal,
+      concentrate_gal: result.concentrate.gal,
+      solution_gal: result.solution.gal,
+      effective_percent: result.effectivePercent,
+      warnings: JSON.stringify(result.warnings),
+    };
+  });
+}
+
+export function dispositionRows(eventId: number, dispositions: readonly ReportRunoff[] = []) {
+  return dispositions.map((line) => ({
+    event_id: eventId,
+    disposition: line.disposition,
+    share_percent: line.sharePercent ?? null,
+    volume_gal: line.volumeGal ?? null,
+    receiving_water: line.receivingWater ?? "",
+    disposal_reference: line.disposalReference ?? "",
+    sewer_notice: line.sewerNotice ?? "",
+    notes: line.notes ?? null,
+  }));
+}
+
+export function tankReadingRows(eventId: number, readings: readonly ReportTankReading[] = []) {
+  return readings.map((reading) => ({
+    event_id: eventId,
+    apparatus_id: reading.apparatusId,
+    product_id: reading.productId,
+    kind: reading.refillGal != null ? "refill" : "levels",
+    refill_gal: reading.refillGal ?? null,
+    level_before_gal: reading.levelBeforeGal ?? null,
+    level_after_gal: reading.levelAfterGal ?? null,
+  }));
+}
+
+/** Inserts the rows of many events at once (the large seed and the benchmarks), in batches. */
+export async function insertReportLinesInBatches(
+  connection: Knex | Knex.Transaction,
+  reports: readonly { eventId: number; lines: ReportLines; computed: ComputedReport }[],
+  batchSize = 1000,
+): Promise<{ discharges: number; dispositions: number; tankReadings: number }> {
+  const discharges = reports.flatMap(({ eventId, lines, computed }) =>
+    dischargeRows(eventId, lines.discharges, computed),
+  );
+  const dispositions = reports.flatMap(({ eventId, lines }) => dispositionRows(eventId, lines.dispositions));
+  const tankReadings = reports.flatMap(({ eventId, lines }) => tankReadingRows(eventId, lines.tankReadings));
+  const insert = async (table: string, rows: object[]) => {
+    for (let start = 0; start < rows.length; start += batchSize) {
+      await connection(table).insert(rows.slice(start, start + batchSize));
+    }
+  };
+  await insert("discharges", discharges);
+  await insert("runoff_dispositions", dispositions);
+  await insert("tank_readings", tankReadings);
+  return { discharges: discharges.length, dispositions: dispositions.length, tankReadings: tankReadings.length };
+}
+
+/** Writes one event's lines (replacing any it had); its totals go on the event row as `totalsColumns`. */
+export async function writeReportLines(
+  connection: Knex | Knex.Transaction,
+  eventId: number,
+  lines: ReportLines,
+  computed: ComputedReport,
+  options: { replace?: boolean } = {},
+): Promise<void> {
+  if (options.replace) {
+    await connection("discharges").where({ event_id: eventId }).delete();
+    await connection("runoff_dispositions").where({ event_id: eventId }).delete();
+    await connection("tank_readings").where({ event_id: eventId }).delete();
+  }
+  await insertReportLinesInBatches(connection, [{ eventId, lines, computed }]);
+}
+
+/**
+ * Results for discharges whose volumes are stated rather than computed (test fixtures and
+ * benchmarks that need known figures): solution defaults to water plus concentrate.
+ */
+export function statedResults(
+  lines: readonly { water: number; concentrate: number; solution?: number; effectivePercent?: number | null }[],
+  pfasContaining = false,
+): ComputedReport {
+  const discharges = lines.map((line) => ({
+    water: { gal: line.water },
+    concentrate: { gal: line.concentrate },
+    solution: { gal: line.solution ?? line.water + line.concentrate },
+    effectivePercent: line.effectivePercent ?? null,
+    warnings: [],
+  }));
+  const sum = (pick: (line: ComputedDischarge) => number) => discharges.reduce((total, line) => total + pick(line), 0);
+  return {
+    discharges,
+    totals: {
+      water: { gal: sum((line) => line.water.gal) },
+      concentrate: { gal: sum((line) => line.concentrate.gal) },
+      solution: { gal: sum((line) => line.solution.gal) },
+    },
+    eventWarnings: [],
+    pfasContaining,
+  };
+}
