@@ -19,7 +19,7 @@ const DISCHARGES_PER_EVENT = 4;
 
 async function fill() {
   const { EVENT_KINDS, DISPOSITIONS } = await import("../app/lib/foam/vocabulary");
-  const { insertReportLinesInBatches, statedResults, totalsColumns } = await import("../app/models/report-rows.server");
+  const { insertReportsInBatches, statedResults, totalsColumns } = await import("../app/models/report-rows.server");
   const knex = await freshBenchDatabase(BENCH_DB, {
     name: "Benchmark district (synthetic)",
     time_zone: "America/Chicago",
@@ -86,7 +86,7 @@ async function fill() {
           discharges.some((discharge) => discharge.pfas),
         );
         reports.push({
-          row: {
+          event: {
             number: `BENCH-${String(eventNumber).padStart(7, "0")}`,
             kind: kinds[i % kinds.length],
             status: i % 10 === 9 ? "filed" : "accepted",
@@ -111,18 +111,7 @@ async function fill() {
           computed,
         });
       }
-      await knex("events").insert(reports.map((report) => report.row));
-      const ids: number[] = await knex("events")
-        .whereIn(
-          "number",
-          reports.map((report) => report.row.number),
-        )
-        .orderBy("id")
-        .pluck("id");
-      await insertReportLinesInBatches(
-        knex,
-        reports.map((report, index) => ({ eventId: ids[index], lines: report.lines, computed: report.computed })),
-      );
+      await insertReportsInBatches(knex, reports);
     }
   }
   await knex.destroy();

@@ -17,7 +17,7 @@ const RUNS = 5;
 
 async function fill(): Promise<string> {
   const { EVENT_KINDS } = await import("../app/lib/foam/vocabulary");
-  const { insertReportLinesInBatches, statedResults, totalsColumns } = await import("../app/models/report-rows.server");
+  const { insertReportsInBatches, statedResults, totalsColumns } = await import("../app/models/report-rows.server");
   const knex = await freshBenchDatabase(BENCH_DB, { name: "Benchmark district (synthetic)" });
   try {
     const [userId] = await knex("users").insert({ email: "bench@bench.example", name: "Bench", password_hash: "x" });
@@ -61,7 +61,7 @@ async function fill(): Promise<string> {
         const water = Math.round(random() * 300_000) / 100;
         const computed = statedResults([{ water, concentrate }], product.pfas);
         reports.push({
-          row: {
+          event: {
             number: `BENCH-${i}`,
             kind: EVENT_KINDS[i % EVENT_KINDS.length],
             status: "accepted",
@@ -80,18 +80,7 @@ async function fill(): Promise<string> {
           computed,
         });
       }
-      await knex("events").insert(reports.map((report) => report.row));
-      const ids: number[] = await knex("events")
-        .whereIn(
-          "number",
-          reports.map((report) => report.row.number),
-        )
-        .orderBy("id")
-        .pluck("id");
-      await insertReportLinesInBatches(
-        knex,
-        reports.map((report, index) => ({ eventId: ids[index], lines: report.lines, computed: report.computed })),
-      );
+      await insertReportsInBatches(knex, reports);
     }
     return token;
   } finally {

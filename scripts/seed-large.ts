@@ -4,7 +4,7 @@
 import knexFactory, { type Knex } from "knex";
 import knexConfig from "../knexfile";
 import type { EventStatus } from "../app/lib/foam/vocabulary";
-import { insertReportLinesInBatches } from "../app/models/report-rows.server";
+import { insertReportsInBatches } from "../app/models/report-rows.server";
 import {
   eventRow,
   loadCatalogueFacts,
@@ -85,21 +85,12 @@ try {
       specs.push(spec);
     }
     await knex.transaction(async (trx) => {
-      const usages = specs.map((spec) => usageOf(spec, facts));
-      await trx("events").insert(specs.map((spec, index) => eventRow(spec, usages[index])));
-      const idOf = new Map<string, number>(
-        (
-          await trx("events")
-            .whereIn(
-              "number",
-              specs.map((spec) => spec.number),
-            )
-            .select("id", "number")
-        ).map((row) => [row.number, row.id]),
-      );
-      const written = await insertReportLinesInBatches(
+      const written = await insertReportsInBatches(
         trx,
-        specs.map((spec, index) => ({ eventId: idOf.get(spec.number)!, lines: spec, computed: usages[index] })),
+        specs.map((spec) => {
+          const computed = usageOf(spec, facts);
+          return { event: eventRow(spec, computed), lines: spec, computed };
+        }),
         BATCH,
       );
       discharges += written.discharges;

@@ -1,21 +1,12 @@
 import type { Map as MapLibreMap, Marker } from "maplibre-gl";
 import { useEffect, useId, useRef, useState } from "react";
 import type { AddressMatch } from "~/lib/geo/addresses";
+import type { GeographyChecks } from "~/lib/geo/checks";
 import { isValidLatLon } from "~/lib/geo/coordinates";
 import { basemapStyle, DISTRICT_CENTER } from "~/lib/geo/map-style";
 import { loadMapLibre } from "./maplibre-loader";
 
-export type LocationChecks = {
-  drainageBasin: string | null;
-  nearestWaterway: string | null;
-  nearestWaterwayM: number | null;
-  nearestInlet: string | null;
-  nearestInletM: number | null;
-  withinWaterwayBuffer: boolean | null;
-  outsideJurisdiction: boolean | null;
-  waterwayBufferM: number;
-  layersMissing: string[];
-};
+export type LocationChecks = GeographyChecks & { waterwayBufferM: number; layersMissing: string[] };
 
 export type DischargePoint = { key: string; label: string; latitude: number | null; longitude: number | null };
 

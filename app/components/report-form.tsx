@@ -14,6 +14,7 @@ import {
   EVENT_KINDS,
   FLOW_BASIS_LABELS,
   FOAM_CLASS_LABELS,
+  WATER_ONLY_LABEL,
   type EventStatus,
   type FlowBasis,
   type FoamClass,
@@ -316,7 +317,7 @@ export function ReportForm(props: ReportFormProps) {
                   <SelectField
                     label="Concentrate"
                     field={row.productId}
-                    placeholder="Water only"
+                    placeholder={WATER_ONLY_LABEL}
                     options={choices(
                       props.products.map((option) => [
                         String(option.id),

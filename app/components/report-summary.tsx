@@ -9,6 +9,7 @@ import {
   type EventKind,
 } from "~/lib/foam/vocabulary";
 import type { UsageWarning } from "~/lib/foam/totals";
+import type { GeographyChecks } from "~/lib/geo/checks";
 import { gallonsToLitres } from "~/lib/foam/units";
 import { UsageCautions } from "./usage-cautions";
 
@@ -46,15 +47,7 @@ export type SummaryReport = {
   pfasContaining: boolean;
   eventWarnings: UsageWarning[];
   totals: { water: number; concentrate: number; solution: number };
-  geography: {
-    drainageBasin: string | null;
-    nearestWaterway: string | null;
-    nearestWaterwayM: number | null;
-    nearestInlet: string | null;
-    nearestInletM: number | null;
-    withinWaterwayBuffer: boolean | null;
-    outsideJurisdiction: boolean | null;
-  };
+  geography: GeographyChecks;
   discharges: Line[];
   dispositions: Array<{
     disposition: Disposition;

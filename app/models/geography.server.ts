@@ -1,6 +1,7 @@
 import type { FeatureCollection } from "geojson";
 import type { Knex } from "knex";
 import { recordAudit } from "~/lib/audit.server";
+import { decimalOrNull } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
 import { searchAddresses, type AddressMatch } from "~/lib/geo/addresses";
 import {
@@ -105,9 +106,9 @@ function checkColumns(checks: GeographyChecks) {
 }
 
 function locationOf(row: { latitude: unknown; longitude: unknown }) {
-  if (row.latitude == null || row.longitude == null) return null;
-  const latitude = Number(row.latitude);
-  const longitude = Number(row.longitude);
+  const latitude = decimalOrNull(row.latitude);
+  const longitude = decimalOrNull(row.longitude);
+  if (latitude === null || longitude === null) return null;
   return isValidLatLon(latitude, longitude) ? { latitude, longitude } : null;
 }
 

@@ -85,7 +85,7 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
     `Where: ${event.address || "no address"}${event.station_code ? ` — station ${event.station_code} ${event.station_name}` : ""}`,
     `Drainage basin: ${event.drainage_basin || "not placed"}; nearest waterway: ${
       event.nearest_waterway
-        ? `${event.nearest_waterway}${event.nearest_waterway_m !== null ? ` at ${Math.round(Number(event.nearest_waterway_m))} m` : ""}`
+        ? `${event.nearest_waterway}${event.nearest_waterway_m !== null ? ` at ${Math.round(decimalOrZero(event.nearest_waterway_m))} m` : ""}`
         : "not placed"
     }`,
     "",

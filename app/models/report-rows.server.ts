@@ -179,6 +179,50 @@ export async function insertReportLinesInBatches(
   return { discharges: discharges.length, dispositions: dispositions.length, tankReadings: tankReadings.length };
 }
 
+/**
+ * Inserts many events (each row carrying a unique `number` and its `totalsColumns`) and then their
+ * lines, in batches: the large seed and the benchmarks.
+ */
+export async function insertReportsInBatches(
+  connection: Knex | Knex.Transaction,
+  reports: readonly {
+    event: { number: string } & Record<string, unknown>;
+    lines: ReportLines;
+    computed: ComputedReport;
+  }[],
+  batchSize = 1000,
+): Promise<{ events: number; discharges: number; dispositions: number; tankReadings: number }> {
+  const written = { events: 0, discharges: 0, dispositions: 0, tankReadings: 0 };
+  for (let start = 0; start < reports.length; start += batchSize) {
+    const batch = reports.slice(start, start + batchSize);
+    await connection("events").insert(batch.map((report) => report.event));
+    const ids = new Map<string, number>(
+      (
+        await connection("events")
+          .whereIn(
+            "number",
+            batch.map((report) => report.event.number),
+          )
+          .select("id", "number")
+      ).map((row: { id: number; number: string }) => [row.number, row.id]),
+    );
+    const lines = await insertReportLinesInBatches(
+      connection,
+      batch.map((report) => ({
+        eventId: ids.get(report.event.number)!,
+        lines: report.lines,
+        computed: report.computed,
+      })),
+      batchSize,
+    );
+    written.events += batch.length;
+    written.discharges += lines.discharges;
+    written.dispositions += lines.dispositions;
+    written.tankReadings += lines.tankReadings;
+  }
+  return written;
+}
+
 /** Writes one event's lines (replacing any it had); its totals go on the event row as `totalsColumns`. */
 export async function writeReportLines(
   connection: Knex | Knex.Transaction,

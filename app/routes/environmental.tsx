@@ -7,6 +7,7 @@ import { clientAddress } from "~/lib/http.server";
 import { localDateTime, parseReportPeriod, periodQuery, type ReportPeriod } from "~/lib/reporting/period";
 import { can } from "~/lib/access";
 import { flashHeaders } from "~/lib/session.server";
+import { FOAM_CLASS_LABELS } from "~/lib/foam/vocabulary";
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { eventsChangedSince, periodAggregates, pfasRows } from "~/models/environmental-report.server";
 import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
@@ -81,8 +82,8 @@ export async function loader({ request }: Route.LoaderArgs) {
         awaitingReview: aggregates.awaitingReview,
         returned: aggregates.returned,
         discharges: aggregates.dischargeCount,
-        classAConcentrate: concentrateBy("Class A"),
-        classBConcentrate: concentrateBy("Class B"),
+        classAConcentrate: concentrateBy(FOAM_CLASS_LABELS.A),
+        classBConcentrate: concentrateBy(FOAM_CLASS_LABELS.B),
         solution: aggregates.eventTotals.solution,
         stormDrain: aggregates.byDisposition.storm_drain,
         surfaceWater: aggregates.byDisposition.surface_water,

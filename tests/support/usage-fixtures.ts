@@ -4,8 +4,8 @@
 import { randomUUID } from "node:crypto";
 import type { Knex } from "knex";
 import { db } from "~/lib/db.server";
-import type { Disposition, EventKind, EventStatus, FlowBasis, FoamClass, PfasContentUnit } from "~/lib/foam/vocabulary";
-import { statedResults, totalsColumns, writeReportLines } from "~/models/report-rows.server";
+import type { EventKind, EventStatus, FlowBasis, FoamClass, PfasContentUnit } from "~/lib/foam/vocabulary";
+import { statedResults, totalsColumns, writeReportLines, type ReportRunoff } from "~/models/report-rows.server";
 
 const unique = () => randomUUID().slice(0, 8);
 
@@ -74,14 +74,7 @@ export type DischargeFixture = {
   solution?: number;
 };
 
-export type DispositionFixture = {
-  disposition: Disposition;
-  sharePercent?: number | null;
-  volumeGal?: number | null;
-  receivingWater?: string;
-  disposalReference?: string;
-  sewerNotice?: string;
-};
+export type DispositionFixture = ReportRunoff;
 
 export type EventFixture = {
   createdBy: number;

@@ -1,5 +1,5 @@
 import { flowInGpm, volumeFromGallons, type FlowUnit, type Volume } from "./units";
-import type { FlowBasis, FoamClass } from "./vocabulary";
+import { FOAM_CLASS_LABELS, type FlowBasis, type FoamClass } from "./vocabulary";
 
 export type DischargeInput = {
   flow: number;
@@ -124,7 +124,7 @@ export function computeDischarge(input: DischargeInput, context: UsageContext = 
       warnings.push({
         code: "percent_unusual_for_class",
         field: "percent",
-        message: `${formatNumber(input.percent)} % is outside the usual ${described} for ${product.name} (Class ${product.foamClass}).`,
+        message: `${formatNumber(input.percent)} % is outside the usual ${described} for ${product.name} (${FOAM_CLASS_LABELS[product.foamClass]}).`,
       });
     }
   }
