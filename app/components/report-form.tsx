@@ -5,6 +5,7 @@ import { Form, useFetcher, useNavigation } from "react-router";
 import type { z } from "zod";
 import { DraftPayloadSchema, FiledReportSchema, MAX_DISCHARGE_MINUTES, minutesBetween } from "~/lib/foam/report-schema";
 import type { UsageWarning } from "~/lib/foam/totals";
+import { FLOW_UNITS } from "~/lib/foam/units";
 import {
   APPLICATION_METHOD_LABELS,
   APPLICATION_METHODS,
@@ -13,7 +14,10 @@ import {
   EVENT_KIND_LABELS,
   EVENT_KINDS,
   FLOW_BASIS_LABELS,
+  FLOW_UNIT_LABELS,
   FOAM_CLASS_LABELS,
+  VOLUME_LABELS,
+  VOLUMES,
   WATER_ONLY_LABEL,
   type EventStatus,
   type FlowBasis,
@@ -345,10 +349,7 @@ export function ReportForm(props: ReportFormProps) {
                   <SelectField
                     label="Flow unit"
                     field={row.flowUnit}
-                    options={choices([
-                      ["gpm", "gpm"],
-                      ["lpm", "L/min"],
-                    ])}
+                    options={choices(FLOW_UNITS.map((unit) => [unit, FLOW_UNIT_LABELS[unit]]))}
                   />
                   <SelectField label="Flow is" field={row.basis} options={choices(Object.entries(FLOW_BASIS_LABELS))} />
                   <SelectField
@@ -376,11 +377,9 @@ export function ReportForm(props: ReportFormProps) {
           Totals <span className="text-sm font-normal text-slate-ft">(computed by the server as you type)</span>
         </h2>
         <dl className="mt-3 grid grid-cols-3 gap-4" data-testid="live-totals">
-          {(["water", "concentrate", "solution"] as const).map((key) => (
+          {VOLUMES.map((key) => (
             <div key={key} className="rounded-md bg-stone-100 p-3">
-              <dt className="text-sm font-semibold text-slate-ft">
-                {key === "solution" ? "Foam solution" : key === "water" ? "Water" : "Concentrate"}
-              </dt>
+              <dt className="text-sm font-semibold text-slate-ft">{VOLUME_LABELS[key]}</dt>
               <dd className="text-xl font-bold" data-testid={`total-${key}`}>
                 {formatGallons(computed?.totals?.[key].gal)} gal
               </dd>

@@ -3,7 +3,10 @@ import {
   DISPOSITION_LABELS,
   EVENT_KIND_LABELS,
   FLOW_BASIS_LABELS,
+  FLOW_UNIT_LABELS,
   foamClassLabel,
+  VOLUME_LABELS,
+  VOLUMES,
   WATER_ONLY_LABEL,
   type Disposition,
   type EventKind,
@@ -102,11 +105,9 @@ export function ReportSummary({ report }: { report: SummaryReport }) {
           Totals
         </h2>
         <dl className="mt-3 grid grid-cols-3 gap-4" data-testid="saved-totals">
-          {(["water", "concentrate", "solution"] as const).map((key) => (
+          {VOLUMES.map((key) => (
             <div key={key} className="rounded-md bg-stone-100 p-3">
-              <dt className="text-sm font-semibold text-slate-ft">
-                {key === "solution" ? "Foam solution" : key === "water" ? "Water" : "Concentrate"}
-              </dt>
+              <dt className="text-sm font-semibold text-slate-ft">{VOLUME_LABELS[key]}</dt>
               <dd className="text-xl font-bold">{gal(report.totals[key])} gal</dd>
               <dd className="text-sm text-slate-ft">{gal(gallonsToLitres(report.totals[key]))} L</dd>
             </div>
@@ -212,7 +213,7 @@ export function ReportSummary({ report }: { report: SummaryReport }) {
                   ) : null}
                 </td>
                 <td>
-                  {gal(line.flow)} {line.flowUnit === "lpm" ? "L/min" : "gpm"}
+                  {gal(line.flow)} {FLOW_UNIT_LABELS[line.flowUnit]}
                   <span className="block text-xs text-slate-ft">{FLOW_BASIS_LABELS[line.basis]}</span>
                 </td>
                 <td>{gal(line.minutes)}</td>

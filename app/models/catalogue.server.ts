@@ -89,23 +89,54 @@ export async function listActiveApparatus(connection: Db = db): Promise<ActiveAp
   }));
 }
 
+const PRODUCT_FACT_COLUMNS = ["id", "name", "foam_class", "nominal_percents", "pfas_containing"];
+const APPARATUS_FACT_COLUMNS = [
+  "id",
+  "unit_id",
+  "proportioner_max_concentrate_gpm",
+  "water_flow_min_gpm",
+  "water_flow_max_gpm",
+];
+
+function productFactsOf(row: Record<string, unknown>): ProductFacts {
+  return {
+    id: row.id as number,
+    name: row.name as string,
+    foamClass: row.foam_class as FoamClass,
+    nominalPercents: nominalPercentsOf(row.nominal_percents as string | null),
+    pfasContaining: Boolean(row.pfas_containing),
+  };
+}
+
+function apparatusFactsOf(row: Record<string, unknown>): ApparatusFacts {
+  return {
+    id: row.id as number,
+    unitId: row.unit_id as string,
+    proportionerMaxConcentrateGpm: decimalOrNull(row.proportioner_max_concentrate_gpm),
+    waterFlowMinGpm: decimalOrNull(row.water_flow_min_gpm),
+    waterFlowMaxGpm: decimalOrNull(row.water_flow_max_gpm),
+  };
+}
+
+/** Facts of every product and every apparatus, active or not (the seeds compute whole years at once). */
+export async function allCatalogueFacts(connection: Db = db) {
+  const [products, apparatus] = await Promise.all([
+    connection("foam_products").select(PRODUCT_FACT_COLUMNS),
+    connection("apparatus").select(APPARATUS_FACT_COLUMNS),
+  ]);
+  return {
+    products: new Map<number, ProductFacts>(products.map((row) => [row.id, productFactsOf(row)])),
+    apparatus: new Map<number, ApparatusFacts>(apparatus.map((row) => [row.id, apparatusFactsOf(row)])),
+  };
+}
+
 /** Facts of the given products (active or not: an old report keeps its product) for the usage checks. */
 export async function productFactsMap(ids: Iterable<number>, connection: Db = db): Promise<Map<number, ProductFacts>> {
   const wanted = [...new Set(ids)];
   const map = new Map<number, ProductFacts>();
   if (wanted.length === 0) return map;
-  const rows = await connection("foam_products")
-    .whereIn("id", wanted)
-    .select("id", "name", "foam_class", "nominal_percents", "pfas_containing");
-  for (const row of rows) {
-    map.set(row.id, {
-      id: row.id,
-      name: row.name,
-      foamClass: row.foam_class,
-      nominalPercents: nominalPercentsOf(row.nominal_percents),
-      pfasContaining: Boolean(row.pfas_containing),
-    });
-  }
+  const rows = await connection("foam_products").whereIn("id", wanted).select(PRODUCT_FACT_COLUMNS);
+  for (const row of rows) map.set(row.id, productFactsOf(row));
   return map;
 }
 
@@ -117,18 +148,8 @@ export async function apparatusFactsMap(
   const wanted = [...new Set(ids)];
   const map = new Map<number, ApparatusFacts>();
   if (wanted.length === 0) return map;
-  const rows = await connection("apparatus")
-    .whereIn("id", wanted)
-    .select("id", "unit_id", "proportioner_max_concentrate_gpm", "water_flow_min_gpm", "water_flow_max_gpm");
-  for (const row of rows) {
-    map.set(row.id, {
-      id: row.id,
-      unitId: row.unit_id,
-      proportionerMaxConcentrateGpm: decimalOrNull(row.proportioner_max_concentrate_gpm),
-      waterFlowMinGpm: decimalOrNull(row.water_flow_min_gpm),
-      waterFlowMaxGpm: decimalOrNull(row.water_flow_max_gpm),
-    });
-  }
+  const rows = await connection("apparatus").whereIn("id", wanted).select(APPARATUS_FACT_COLUMNS);
+  for (const row of rows) map.set(row.id, apparatusFactsOf(row));
   return map;
 }
 

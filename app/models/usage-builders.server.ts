@@ -3,7 +3,6 @@
 // module the server uses, so seeded numbers equal what a save would store. A report's own rows are
 // written by `report-rows.server.ts`, as a save writes them.
 import type { Knex } from "knex";
-import { decimalOrNull } from "../lib/decimal";
 import { computeUsage, type ApparatusFacts, type ProductFacts, type UsageResult } from "../lib/foam/totals";
 import type {
   ApplicationMethod,
@@ -15,6 +14,7 @@ import type {
   PfasContentUnit,
 } from "../lib/foam/vocabulary";
 import { readAgencySettings } from "./agency-settings.server";
+import { allCatalogueFacts } from "./catalogue.server";
 import {
   dischargeInputs,
   tankReadingInputs,
@@ -243,46 +243,6 @@ export async function insertEvent(
 
 /** Facts for the computation, read from the catalogue tables through the given connection. */
 export async function loadCatalogueFacts(connection: Knex | Knex.Transaction): Promise<CatalogueFacts> {
-  const [products, apparatus, settings] = await Promise.all([
-    connection("foam_products").select("id", "name", "foam_class", "nominal_percents", "pfas_containing"),
-    connection("apparatus").select(
-      "id",
-      "unit_id",
-      "proportioner_max_concentrate_gpm",
-      "water_flow_min_gpm",
-      "water_flow_max_gpm",
-    ),
-    readAgencySettings(connection),
-  ]);
-  const number = decimalOrNull;
-  return {
-    products: new Map(
-      products.map((row) => [
-        row.id,
-        {
-          id: row.id,
-          name: row.name,
-          foamClass: row.foam_class,
-          nominalPercents: String(row.nominal_percents || "")
-            .split(",")
-            .filter(Boolean)
-            .map(Number),
-          pfasContaining: Boolean(row.pfas_containing),
-        },
-      ]),
-    ),
-    apparatus: new Map(
-      apparatus.map((row) => [
-        row.id,
-        {
-          id: row.id,
-          unitId: row.unit_id,
-          proportionerMaxConcentrateGpm: number(row.proportioner_max_concentrate_gpm),
-          waterFlowMinGpm: number(row.water_flow_min_gpm),
-          waterFlowMaxGpm: number(row.water_flow_max_gpm),
-        },
-      ]),
-    ),
-    drawdownTolerance: settings.drawdownToleranceShare,
-  };
+  const [catalogue, settings] = await Promise.all([allCatalogueFacts(connection), readAgencySettings(connection)]);
+  return { ...catalogue, drawdownTolerance: settings.drawdownToleranceShare };
 }

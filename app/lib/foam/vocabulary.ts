@@ -3,6 +3,7 @@
  * that forms, lists, the map, the workbook and the CSV show. Where an export needs shorter text, a
  * named map stands beside the canonical one.
  */
+import type { FlowUnit } from "./units";
 
 export const EVENT_KINDS = ["incident", "training", "test", "flush"] as const;
 export type EventKind = (typeof EVENT_KINDS)[number];
@@ -101,6 +102,20 @@ export const PFAS_CONTENT_UNIT_LABELS: Record<PfasContentUnit, string> = {
 export function isPfasContentUnit(value: unknown): value is PfasContentUnit {
   return (PFAS_CONTENT_UNITS as readonly unknown[]).includes(value);
 }
+
+/** The three volumes every discharge and every report is totalled in. */
+export const VOLUMES = ["water", "concentrate", "solution"] as const;
+export type VolumeName = (typeof VOLUMES)[number];
+export const VOLUME_LABELS: Record<VolumeName, string> = {
+  water: "Water",
+  concentrate: "Concentrate",
+  solution: "Foam solution",
+};
+
+export const FLOW_UNIT_LABELS: Record<FlowUnit, string> = {
+  gpm: "gpm",
+  lpm: "L/min",
+};
 
 export const FLOW_BASES = ["water", "solution"] as const;
 export type FlowBasis = (typeof FLOW_BASES)[number];
