@@ -17,6 +17,7 @@ import {
 } from "~/lib/foam/vocabulary";
 import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
+import { checksOfRow } from "./geography.server";
 
 export function apiVolume(gallons: number): Volume {
   const volume = volumeFromGallons(gallons);
@@ -120,15 +121,7 @@ export async function getReport(eventId: number) {
       concentrate: decimalOrZero(event.concentrate_gal),
       solution: solutionGal,
     },
-    geography: {
-      drainageBasin: (event.drainage_basin as string | null) ?? null,
-      nearestWaterway: (event.nearest_waterway as string | null) ?? null,
-      nearestWaterwayM: decimalOrNull(event.nearest_waterway_m),
-      nearestInlet: (event.nearest_inlet as string | null) ?? null,
-      nearestInletM: decimalOrNull(event.nearest_inlet_m),
-      withinWaterwayBuffer: event.within_waterway_buffer == null ? null : Boolean(event.within_waterway_buffer),
-      outsideJurisdiction: event.outside_jurisdiction == null ? null : Boolean(event.outside_jurisdiction),
-    },
+    geography: checksOfRow(event),
     discharges: discharges.map((row) => ({
       position: row.position as number,
       apparatusId: (row.apparatus_id as number | null) ?? null,

@@ -105,6 +105,20 @@ function checkColumns(checks: GeographyChecks) {
   };
 }
 
+/** The stored checks of an event row, as the event page and the API show them. */
+export function checksOfRow(row: Record<string, unknown>): GeographyChecks {
+  const flag = (value: unknown) => (value == null ? null : Boolean(value));
+  return {
+    drainageBasin: (row.drainage_basin as string | null) ?? null,
+    nearestWaterway: (row.nearest_waterway as string | null) ?? null,
+    nearestWaterwayM: decimalOrNull(row.nearest_waterway_m),
+    nearestInlet: (row.nearest_inlet as string | null) ?? null,
+    nearestInletM: decimalOrNull(row.nearest_inlet_m),
+    withinWaterwayBuffer: flag(row.within_waterway_buffer),
+    outsideJurisdiction: flag(row.outside_jurisdiction),
+  };
+}
+
 function locationOf(row: { latitude: unknown; longitude: unknown }) {
   const latitude = decimalOrNull(row.latitude);
   const longitude = decimalOrNull(row.longitude);

@@ -1,3 +1,4 @@
+import { DEFAULT_DRAWDOWN_TOLERANCE_SHARE } from "../agency-settings-form";
 import { flowInGpm, volumeFromGallons, type FlowUnit, type Volume } from "./units";
 import { FOAM_CLASS_LABELS, type FlowBasis, type FoamClass } from "./vocabulary";
 
@@ -240,7 +241,7 @@ export function tankDrawdownGal(reading: TankReading): number | null {
 }
 
 function drawdownWarnings(inputs: DischargeInput[], results: DischargeResult[], context: UsageContext): UsageWarning[] {
-  const tolerance = context.drawdownTolerance ?? 0.15;
+  const tolerance = context.drawdownTolerance ?? DEFAULT_DRAWDOWN_TOLERANCE_SHARE;
   const warnings: UsageWarning[] = [];
   for (const reading of context.tankReadings ?? []) {
     const actual = tankDrawdownGal(reading);
