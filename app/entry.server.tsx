@@ -72,5 +72,6 @@ export function checkEnvironment() {
   env();
 }
 
+export { requestBodyLimit } from "./lib/request-limits";
 export { isForeignOrigin, securityHeaderRecord } from "./lib/security.server";
 export { startMailWorker } from "./models/mail-outbox.server";

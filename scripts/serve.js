@@ -1,5 +1,6 @@
 // Production server: the built React Router app behind Express, with static assets,
-// the client's address for sign-in throttling, foreign-origin refusal and a clean shutdown.
+// request-body limits, the client's address for sign-in throttling, foreign-origin refusal and a
+// clean shutdown.
 import { existsSync } from "node:fs";
 import path from "node:path";
 
@@ -32,6 +33,31 @@ const trustProxy = process.env.TRUST_PROXY === "true" || process.env.TRUST_PROXY
 const app = express();
 app.disable("x-powered-by");
 app.set("trust proxy", trustProxy);
+// Every body is bounded before the app reads it: a declared length above the route's limit is
+// refused at once, and a body without a declared length (chunked) is refused too, because only a
+// declared length lets Node stop reading at the limit. The app's readers count bytes again.
+app.use((req, res, next) => {
+  const hasBody = req.headers["transfer-encoding"] !== undefined || req.headers["content-length"] !== undefined;
+  if (!hasBody) return next();
+  const refuse = (status, message) => {
+    res.status(status).set(entry.securityHeaderRecord()).set("Connection", "close");
+    if (req.path.startsWith("/api/") || req.accepts(["json", "html"]) !== "html") res.json({ error: message });
+    else
+      res.type("html").send(`<!doctype html><title>Foamtally</title><p>${message}</p><p><a href="/">Foamtally</a></p>`);
+  };
+  const limit = entry.requestBodyLimit(req.path);
+  const declared = req.headers["content-length"];
+  if (declared === undefined) {
+    return refuse(411, "Send the request with a Content-Length header.");
+  }
+  if (Number(declared) > limit) {
+    return refuse(
+      413,
+      `The request is larger than ${Math.round((limit / 1024 / 1024) * 10) / 10} MB and was not read.`,
+    );
+  }
+  next();
+});
 app.use(compression());
 app.use(
   "/assets",

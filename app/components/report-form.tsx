@@ -3,7 +3,15 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { useEffect, useMemo, useRef } from "react";
 import { Form, useFetcher, useNavigation } from "react-router";
 import type { z } from "zod";
-import { DraftPayloadSchema, FiledReportSchema, MAX_DISCHARGE_MINUTES, minutesBetween } from "~/lib/foam/report-schema";
+import {
+  DraftPayloadSchema,
+  FiledReportSchema,
+  MAX_DISCHARGE_MINUTES,
+  MAX_LINES,
+  MAX_RUNOFF_LINES,
+  MAX_TANK_READINGS,
+  minutesBetween,
+} from "~/lib/foam/report-schema";
 import type { UsageWarning } from "~/lib/foam/totals";
 import { FLOW_UNITS } from "~/lib/foam/units";
 import {
@@ -231,6 +239,7 @@ export function ReportForm(props: ReportFormProps) {
           <button
             type="submit"
             className="btn-secondary"
+            disabled={discharges.length >= MAX_LINES}
             {...form.insert.getButtonProps({ name: fields.discharges.name, defaultValue: NEW_DISCHARGE as never })}
           >
             Add a discharge
@@ -262,6 +271,7 @@ export function ReportForm(props: ReportFormProps) {
                     <button
                       type="submit"
                       className="btn-quiet"
+                      disabled={discharges.length >= MAX_LINES}
                       {...form.insert.getButtonProps({
                         name: fields.discharges.name,
                         index: index + 1,
@@ -401,6 +411,7 @@ export function ReportForm(props: ReportFormProps) {
           <button
             type="submit"
             className="btn-secondary"
+            disabled={dispositions.length >= MAX_RUNOFF_LINES}
             {...form.insert.getButtonProps({ name: fields.dispositions.name, defaultValue: NEW_DISPOSITION as never })}
           >
             Add a runoff line
@@ -462,6 +473,7 @@ export function ReportForm(props: ReportFormProps) {
           <button
             type="submit"
             className="btn-secondary"
+            disabled={tankReadings.length >= MAX_TANK_READINGS}
             {...form.insert.getButtonProps({ name: fields.tankReadings.name })}
           >
             Add a tank reading

@@ -15,6 +15,7 @@ import {
   type EventStatus,
   type FoamClass,
 } from "~/lib/foam/vocabulary";
+import { readStoredDraft } from "~/lib/foam/report-draft.server";
 import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
 import { checksOfRow } from "./geography.server";
@@ -66,6 +67,7 @@ export async function getReport(eventId: number) {
       "stations.name as station_name",
       "author.name as author_name",
       "reviewer.name as reviewer_name",
+      db.raw("LENGTH(events.draft_json) as draft_bytes"),
     );
   if (!event) return null;
   const [discharges, dispositions, tankReadings] = await Promise.all([
@@ -115,7 +117,7 @@ export async function getReport(eventId: number) {
     pfasContaining: Boolean(event.pfas_containing),
     hasWarnings: Boolean(event.has_warnings),
     eventWarnings: warningsOf(event.event_warnings),
-    draft: event.draft_json ? (JSON.parse(event.draft_json) as Record<string, unknown>) : null,
+    draft: readStoredDraft(event.draft_json, event.draft_bytes),
     totals: {
       water: decimalOrZero(event.water_gal),
       concentrate: decimalOrZero(event.concentrate_gal),

@@ -11,6 +11,7 @@ import {
   type DischargeLine,
   type FiledReport,
 } from "~/lib/foam/report-schema";
+import { boundedDraft } from "~/lib/foam/report-draft.server";
 import { computeUsage, type DischargeInput, type TankReading, type UsageResult } from "~/lib/foam/totals";
 import { changeCapabilityFor, decide } from "~/lib/access";
 import { EVENT_KINDS, type EventKind, type EventStatus } from "~/lib/foam/vocabulary";
@@ -245,7 +246,8 @@ function isDuplicateKey(error: unknown, index: string): boolean {
  * Saves a draft or files a report in one transaction: never half a report. A repeated submission
  * key answers with the report it already made; a stale version is a conflict, never an overwrite.
  */
-export async function saveReport(request: SaveRequest, hooks: SaveHooks = {}): Promise<SaveOutcome> {
+export async function saveReport(saveRequest: SaveRequest, hooks: SaveHooks = {}): Promise<SaveOutcome> {
+  const request = { ...saveRequest, payload: boundedDraft(saveRequest.payload) };
   const filing = request.intent === "file";
   if (filing && !request.report) throw new Error("filing needs a validated report");
   try {

@@ -3,6 +3,7 @@ import type { Route } from "./+types/admin.outbox";
 import { requireCapability } from "~/lib/access.server";
 import { env } from "~/lib/env.server";
 import { fakeMailDirectory, readFakeMailbox, smtpPort } from "~/lib/fake-mailbox.server";
+import { readFormData } from "~/lib/form-data.server";
 import { httpError } from "~/lib/http.server";
 import { deliverPendingMail, listOutbox, retryMailNow } from "~/models/mail-outbox.server";
 
@@ -23,7 +24,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 export async function action({ request }: Route.ActionArgs) {
   await requireCapability(request, "outbox.view");
   requireDemoMode();
-  const formData = await request.formData();
+  const formData = await readFormData(request, [], { fields: ["intent", "id"] });
   if (formData.get("intent") === "retry") {
     const id = Number(formData.get("id"));
     if (!Number.isInteger(id) || !(await retryMailNow(id))) {

@@ -5,6 +5,7 @@ import { AgencySettingsForm } from "~/components/agency-settings-form";
 import { can } from "~/lib/access";
 import { AgencySettingsSchema } from "~/lib/agency-settings-form";
 import { requireCapability } from "~/lib/access.server";
+import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, rethrowDatabaseDown } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { saveAgencySettings } from "~/models/agency.server";
@@ -20,7 +21,9 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireCapability(request, "settings.edit");
-  const submission = parseWithZod(await request.formData(), { schema: AgencySettingsSchema });
+  const submission = parseWithZod(await readFormData(request, AgencySettingsSchema), {
+    schema: AgencySettingsSchema,
+  });
   if (submission.status !== "success") {
     return data({ result: submission.reply(), conflict: null }, { status: 400 });
   }

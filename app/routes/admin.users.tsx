@@ -5,6 +5,7 @@ import type { Route } from "./+types/admin.users";
 import { ErrorList, FormErrors, TextField } from "~/components/form-fields";
 import { ADMINISTRATOR, can, ROLE_LABELS, ROLES, type Role } from "~/lib/access";
 import { authorize, requireCapability } from "~/lib/access.server";
+import { readFormData } from "~/lib/form-data.server";
 import { clientAddress } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { CreateUserSchema, UpdateUserSchema } from "~/lib/user-forms";
@@ -36,7 +37,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requireCapability(request, "users.manage");
-  const formData = await request.formData();
+  const formData = await readFormData(request, [CreateUserSchema, UpdateUserSchema]);
   const stationIds = new Set((await listStationOptions()).map((station) => station.id));
   const intent = formData.get("intent");
   if (intent === "create") {

@@ -1,6 +1,7 @@
 import type { Route } from "./+types/api.totals";
 import { requireUser } from "~/lib/auth.server";
 import { fieldErrors, TotalsRequestSchema } from "~/lib/foam/report-schema";
+import { readJsonBody } from "~/lib/form-data.server";
 import { apiError } from "~/lib/http.server";
 import { apiVolume } from "~/models/event-read.server";
 import { computeForInputs } from "~/models/event.server";
@@ -13,7 +14,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 /** Computes water, concentrate and foam solution without saving anything. */
 export async function action({ request }: Route.ActionArgs) {
   await requireUser(request);
-  const body = await request.json().catch(() => apiError(400, "The request body is not valid JSON."));
+  const body = await readJsonBody(request, TotalsRequestSchema);
   const parsed = TotalsRequestSchema.safeParse(body);
   if (!parsed.success) {
     return Response.json({ error: "Some values cannot be used.", errors: fieldErrors(parsed.error) }, { status: 400 });

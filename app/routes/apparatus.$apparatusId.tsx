@@ -7,6 +7,7 @@ import { requireCapability } from "~/lib/access.server";
 import { ApparatusFormSchema } from "~/lib/catalogue/apparatus-form";
 import { APPLICATION_METHOD_LABELS, APPLICATION_METHODS, FLOW_BASES, FLOW_BASIS_LABELS } from "~/lib/foam/vocabulary";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
+import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import {
@@ -41,7 +42,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireCapability(request, "apparatus.edit");
   const id = apparatusIdOf(params);
-  const formData = await request.formData();
+  const formData = await readFormData(request, ApparatusFormSchema, { fields: ["version"] });
   const submission = parseWithZod(formData, { schema: ApparatusFormSchema });
   if (submission.status !== "success") return data({ result: submission.reply() }, { status: 400 });
   try {

@@ -3,6 +3,7 @@ import type { Route } from "./+types/environmental";
 import { requireCapability } from "~/lib/access.server";
 import { db } from "~/lib/db.server";
 import { roundForDisplay } from "~/lib/foam/units";
+import { readFormData } from "~/lib/form-data.server";
 import { clientAddress } from "~/lib/http.server";
 import { localDateTime, parseReportPeriod, periodQuery, type ReportPeriod } from "~/lib/reporting/period";
 import { can } from "~/lib/access";
@@ -30,9 +31,11 @@ function lastCompleteQuarter(now: Date, timeZone: string): URLSearchParams {
     : new URLSearchParams({ year: String(year), quarter: String(current - 1) });
 }
 
+const PERIOD_FIELDS = ["year", "quarter", "from", "to"];
+
 function periodParams(source: URLSearchParams | FormData): URLSearchParams {
   const params = new URLSearchParams();
-  for (const key of ["year", "quarter", "from", "to"]) {
+  for (const key of PERIOD_FIELDS) {
     const value = source.get(key);
     if (typeof value === "string" && value.trim() !== "") params.set(key, value.trim());
   }
@@ -107,7 +110,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireCapability(request, "exports.submit");
-  const formData = await request.formData();
+  const formData = await readFormData(request, [], { fields: ["intent", "note", ...PERIOD_FIELDS] });
   const intent = formData.get("intent");
   const agency = await readAgencySettings();
   const parsed = parseReportPeriod(periodParams(formData), agency.timeZone);

@@ -7,6 +7,7 @@ import { ErrorList, FormErrors } from "~/components/form-fields";
 import { ReportSummary } from "~/components/report-summary";
 import { can, changeCapabilityFor } from "~/lib/access";
 import { authorize, requireCapability } from "~/lib/access.server";
+import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, invariantResponse } from "~/lib/http.server";
 import { ReviewSchema } from "~/lib/foam/report-schema";
 import { EVENT_STATUS_LABELS } from "~/lib/foam/vocabulary";
@@ -37,7 +38,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const record = await reportAccessRecord(Number(params.id));
   invariantResponse(record, "No such report.");
   authorize(request, user, "report.review", record);
-  const submission = parseWithZod(await request.formData(), { schema: ReviewSchema });
+  const submission = parseWithZod(await readFormData(request, ReviewSchema), { schema: ReviewSchema });
   if (submission.status !== "success") return data({ result: submission.reply() }, { status: 400 });
   const outcome = await reviewReport(
     {

@@ -1,9 +1,12 @@
 import { data, Form, redirect, useNavigation } from "react-router";
+import { z } from "zod";
 import type { Route } from "./+types/geography";
 import { EventLocationMap } from "~/components/event-location-map";
 import { requireCapability } from "~/lib/access.server";
+import { BodyRefused, formShape, readBoundedForm } from "~/lib/form-data.server";
 import { isLayerKind, LAYER_RULES, MAX_LAYER_BYTES } from "~/lib/geo/layers";
 import { clientAddress, rethrowDatabaseDown } from "~/lib/http.server";
+import { UPLOAD_BODY_MAX_BYTES } from "~/lib/request-limits";
 import { flashHeaders } from "~/lib/session.server";
 import { listLayers, replaceLayer, waterwayBufferMetres } from "~/models/geography.server";
 
@@ -17,6 +20,8 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { layers, waterwayBufferM };
 }
 
+const LAYER_UPLOAD_SHAPE = formShape(z.object({ kind: z.string().max(40), file: z.file() }));
+
 type ActionResult = { kind: string; errors: string[] };
 
 export async function action({ request }: Route.ActionArgs) {
@@ -28,9 +33,10 @@ export async function action({ request }: Route.ActionArgs) {
   }
   let formData: FormData;
   try {
-    formData = await request.formData();
-  } catch {
-    return refuse("", ["The upload could not be read. Choose the file again. Nothing was changed."]);
+    formData = await readBoundedForm(request, LAYER_UPLOAD_SHAPE, UPLOAD_BODY_MAX_BYTES);
+  } catch (error) {
+    if (!(error instanceof BodyRefused)) throw error;
+    return refuse("", [error.message, "Nothing was changed."], error.status);
   }
   const kind = String(formData.get("kind") ?? "");
   if (!isLayerKind(kind)) return refuse(kind, ["Choose which layer the file is for."]);

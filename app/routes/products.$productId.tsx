@@ -7,8 +7,10 @@ import { requireCapability } from "~/lib/access.server";
 import { looksLikePdf, ProductFormSchema, SAFETY_SHEET_MAX_BYTES } from "~/lib/catalogue/product-form";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
 import { FOAM_TYPE_LABELS, FOAM_TYPES, PFAS_CONTENT_UNIT_LABELS, PFAS_CONTENT_UNITS } from "~/lib/foam/vocabulary";
+import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { can } from "~/lib/access";
+import { UPLOAD_BODY_MAX_BYTES } from "~/lib/request-limits";
 import { flashHeaders } from "~/lib/session.server";
 import { StorageUnavailableError } from "~/lib/storage.server";
 import { DuplicateProductNameError, getProduct, saveProduct, type SafetySheetUpload } from "~/models/product.server";
@@ -53,7 +55,10 @@ export async function action({ request, params }: Route.ActionArgs) {
       { status: 413 },
     );
   }
-  const formData = await request.formData();
+  const formData = await readFormData(request, ProductFormSchema, {
+    fields: ["version"],
+    maxBytes: UPLOAD_BODY_MAX_BYTES,
+  });
   const submission = parseWithZod(formData, { schema: ProductFormSchema });
   if (submission.status !== "success") {
     return data({ result: submission.reply() }, { status: 400 });

@@ -5,6 +5,7 @@ import type { Route } from "./+types/profile";
 import { FormErrors, TextField } from "~/components/form-fields";
 import { CreateApiTokenSchema, MAX_ACTIVE_TOKENS, RevokeApiTokenSchema } from "~/lib/api-token-form";
 import { requireUser } from "~/lib/auth.server";
+import { readFormData } from "~/lib/form-data.server";
 import { clientAddress } from "~/lib/http.server";
 import { ROLE_LABELS } from "~/lib/access";
 import { commitSession, flashHeaders, getSession } from "~/lib/session.server";
@@ -27,7 +28,9 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
-  const formData = await request.formData();
+  const formData = await readFormData(request, [CreateApiTokenSchema, RevokeApiTokenSchema, ChangePasswordSchema], {
+    fields: ["intent"],
+  });
   const intent = formData.get("intent");
   if (intent === "create-token") {
     const submission = parseWithZod(formData, { schema: CreateApiTokenSchema });

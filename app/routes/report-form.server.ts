@@ -3,7 +3,14 @@ import { data, redirect } from "react-router";
 import { changeCapabilityFor } from "~/lib/access";
 import { authorize } from "~/lib/access.server";
 import { requireUser, type SessionUser } from "~/lib/auth.server";
-import { DraftPayloadSchema, FiledReportSchema, ReportIntentSchema, type FiledReport } from "~/lib/foam/report-schema";
+import {
+  DraftPayloadSchema,
+  FiledReportSchema,
+  REPORT_FORM_SCHEMAS,
+  ReportIntentSchema,
+  type FiledReport,
+} from "~/lib/foam/report-schema";
+import { readFormData } from "~/lib/form-data.server";
 import {
   clientAddress,
   DATABASE_DOWN_MESSAGE,
@@ -49,7 +56,7 @@ export async function requireReportChange(request: Request, eventId: number): Pr
  * typed; filing validates every field. Failures come back with every value kept, so nothing typed is lost.
  */
 export async function handleReportSubmission(request: Request, guard: () => Promise<SessionUser>, eventId?: number) {
-  const formData = await request.formData();
+  const formData = await readFormData(request, REPORT_FORM_SCHEMAS);
   let user: SessionUser;
   try {
     user = await guard();

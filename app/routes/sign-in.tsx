@@ -5,6 +5,7 @@ import { data, Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/sign-in";
 import { FormErrors, TextField } from "~/components/form-fields";
 import { authenticator, getUser, safeRedirectTo, SignInError } from "~/lib/auth.server";
+import { readFormData, requestWithForm } from "~/lib/form-data.server";
 import { DATABASE_DOWN_MESSAGE, isDatabaseDown } from "~/lib/http.server";
 import { commitSession, getSession } from "~/lib/session.server";
 import { SignInFormSchema } from "~/lib/sign-in-form";
@@ -19,13 +20,13 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const formData = await request.clone().formData();
+  const formData = await readFormData(request, SignInFormSchema);
   const submission = parseWithZod(formData, { schema: SignInFormSchema });
   if (submission.status !== "success") {
     return data({ result: submission.reply({ hideFields: ["password"] }) }, { status: 400 });
   }
   try {
-    const user = await authenticator.authenticate("form", request);
+    const user = await authenticator.authenticate("form", requestWithForm(request, formData));
     const session = await getSession(request);
     session.set("userId", user.id);
     session.set("epoch", user.epoch);

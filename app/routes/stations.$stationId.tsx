@@ -6,6 +6,7 @@ import { CheckboxField, FormErrors, TextField } from "~/components/form-fields";
 import { requireCapability } from "~/lib/access.server";
 import { StationFormSchema } from "~/lib/catalogue/apparatus-form";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
+import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { DuplicateCodeError, getStation, saveStation } from "~/models/apparatus.server";
@@ -33,7 +34,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireCapability(request, "apparatus.edit");
   const id = stationIdOf(params);
-  const formData = await request.formData();
+  const formData = await readFormData(request, StationFormSchema, { fields: ["version"] });
   const submission = parseWithZod(formData, { schema: StationFormSchema });
   if (submission.status !== "success") return data({ result: submission.reply() }, { status: 400 });
   try {

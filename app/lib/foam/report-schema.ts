@@ -4,6 +4,8 @@ import { APPLICATION_METHODS, DISPOSITIONS, EVENT_KINDS, FLOW_BASES } from "./vo
 
 export const MAX_DISCHARGE_MINUTES = 24 * 60;
 export const MAX_LINES = 200;
+export const MAX_RUNOFF_LINES = 12;
+export const MAX_TANK_READINGS = 20;
 
 const positiveNumber = (label: string, max: number) =>
   z
@@ -199,8 +201,11 @@ export const FiledReportSchema = z
     dispositions: z
       .array(DispositionLineSchema, { error: "Say where the runoff went." })
       .min(1, "Say where the runoff went.")
-      .max(12, "At most 12 runoff lines."),
-    tankReadings: z.array(TankReadingLineSchema).max(20, "At most 20 tank readings.").optional(),
+      .max(MAX_RUNOFF_LINES, `At most ${MAX_RUNOFF_LINES} runoff lines.`),
+    tankReadings: z
+      .array(TankReadingLineSchema)
+      .max(MAX_TANK_READINGS, `At most ${MAX_TANK_READINGS} tank readings.`)
+      .optional(),
   })
   .superRefine((report, ctx) => {
     const window = minutesBetween(report.startedAt, report.clearedAt);
@@ -239,6 +244,9 @@ export const ReportIntentSchema = z.object({
   submissionKey: z.string().regex(/^[A-Za-z0-9-]{8,64}$/, "The form is out of date; reload it."),
   revisionReason: z.string().trim().max(500, "A reason has at most 500 characters.").optional(),
 });
+
+/** Every key the report form sends, as typed or filed: what a stored draft may hold. */
+export const REPORT_FORM_SCHEMAS = [FiledReportSchema, ReportIntentSchema];
 
 export const ReviewSchema = z
   .object({

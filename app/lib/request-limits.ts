@@ -1,0 +1,29 @@
+/**
+ * How large a request body may be, by route. The production server (`scripts/serve.js`) refuses a
+ * larger declared body with 413 before the app reads a byte; the app's body readers
+ * (`form-data.server.ts`) count what they read against the same numbers.
+ */
+
+const MEGABYTE = 1024 * 1024;
+
+/** A form without files: the largest valid usage report (200 discharges) is about 60 kB. */
+export const FORM_BODY_MAX_BYTES = 1 * MEGABYTE;
+
+/** A JSON body for `/api/*`. */
+export const JSON_BODY_MAX_BYTES = 1 * MEGABYTE;
+
+/** A safety-sheet PDF (`SAFETY_SHEET_MAX_BYTES`) or a GeoJSON layer (`MAX_LAYER_BYTES`). */
+export const UPLOAD_FILE_MAX_BYTES = 10 * MEGABYTE;
+
+/** An upload form: its file plus the form's other fields and the multipart framing. */
+export const UPLOAD_BODY_MAX_BYTES = UPLOAD_FILE_MAX_BYTES + 256 * 1024;
+
+/** The pages whose forms carry a file; every other route takes at most `FORM_BODY_MAX_BYTES`. */
+const UPLOAD_PATHS = [/^\/products\/[^/]+\/?$/, /^\/geography\/?$/];
+
+/** The largest body the server accepts for a path. */
+export function requestBodyLimit(pathname: string): number {
+  if (UPLOAD_PATHS.some((pattern) => pattern.test(pathname))) return UPLOAD_BODY_MAX_BYTES;
+  if (pathname.startsWith("/api/")) return JSON_BODY_MAX_BYTES;
+  return FORM_BODY_MAX_BYTES;
+}
