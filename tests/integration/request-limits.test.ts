@@ -144,7 +144,7 @@ describe("a stored draft heavier than a valid report", () => {
     });
     const page = (await editLoader(
       routeArgs(getRequest(`/events/${eventId}/edit`, { Cookie: officerCookie }), { id: String(eventId) }),
-    )) as { defaultValue: { discharges: unknown[] } };
+    )) as unknown as { defaultValue: { discharges: unknown[] } };
     expect(page.defaultValue.discharges).toHaveLength(200);
   });
 });
