@@ -276,13 +276,11 @@ function bodies(endpoint: Endpoint): fc.Arbitrary<Body> {
     },
     { requiredKeys: [] },
   );
-  const totals = fc
-    .array(discharge, { maxLength: 12 })
-    .map((discharges): Body => ({
-      label: "totals json",
-      contentType: "application/json",
-      body: JSON.stringify({ discharges }),
-    }));
+  const totals = fc.array(discharge, { maxLength: 12 }).map((discharges): Body => ({
+    label: "totals json",
+    contentType: "application/json",
+    body: JSON.stringify({ discharges }),
+  }));
   const plain = fc
     .string({ maxLength: 200 })
     .map((value): Body => ({ label: "text", contentType: "text/plain", body: value }));
