@@ -377,12 +377,17 @@ export async function probeInputs(options: {
   base: string;
   count: number;
   seed?: number;
-  knex?: Knex;
+  /** The database the server uses, when it is not DB_NAME's. */
+  database?: string;
   log?: (line: string) => void;
 }): Promise<ProbeSummary[]> {
   if (existsSync(".env")) process.loadEnvFile(".env");
   const { default: config } = await import("../knexfile");
-  const knex = options.knex ?? knexFactory(config);
+  const connection = config.connection as Knex.ConnectionConfig;
+  const knex = knexFactory({
+    ...config,
+    connection: { ...connection, database: options.database ?? connection.database },
+  });
   const log = options.log ?? (() => {});
   try {
     const cookies = new Map<Role, string>();
@@ -472,7 +477,7 @@ export async function probeInputs(options: {
     }
     return summaries;
   } finally {
-    if (!options.knex) await knex.destroy();
+    await knex.destroy();
   }
 }
 
