@@ -15,7 +15,7 @@ const BENCH_DB = process.env.BENCH_DB_NAME || "foamtally_bench_form";
 if (!/^foamtally_bench\w*$/.test(BENCH_DB)) throw new Error(`Refusing to use ${BENCH_DB} as a throwaway database`);
 process.env.DB_NAME = BENCH_DB;
 process.env.NODE_ENV = "production";
-const SIZES = [50, 100, 200];
+const SIZES = (process.env.BENCH_FORM_LINES ?? "50,100,200").split(",").map(Number);
 const RUNS = 5;
 
 async function prepare() {

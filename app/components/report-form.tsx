@@ -1,9 +1,18 @@
-import { getFormProps, getInputProps, getTextareaProps, useForm, type SubmissionResult } from "@conform-to/react";
+import {
+  FormProvider,
+  getFormProps,
+  getInputProps,
+  getTextareaProps,
+  useField,
+  useForm,
+  type SubmissionResult,
+} from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { useEffect, useMemo, useRef } from "react";
 import { Form, useFetcher, useNavigation } from "react-router";
 import type { z } from "zod";
 import {
+  DischargeLineSchema,
   DraftPayloadSchema,
   FiledReportSchema,
   MAX_DISCHARGE_MINUTES,
@@ -174,395 +183,425 @@ export function ReportForm(props: ReportFormProps) {
   const accepted = props.status === "accepted";
 
   return (
-    <Form method="post" {...getFormProps(form)} className="space-y-6" aria-describedby={form.errorId}>
-      <input type="hidden" name="submissionKey" value={props.submissionKey} />
-      {props.version ? <input type="hidden" name="version" value={props.version} /> : null}
-      <FormErrors id={form.errorId} errors={form.errors} />
+    <FormProvider context={form.context}>
+      <Form method="post" {...getFormProps(form)} className="space-y-6" aria-describedby={form.errorId}>
+        <input type="hidden" name="submissionKey" value={props.submissionKey} />
+        {props.version ? <input type="hidden" name="version" value={props.version} /> : null}
+        <FormErrors id={form.errorId} errors={form.errors} />
 
-      <section className="card space-y-4" aria-labelledby="details-title">
-        <h2 id="details-title" className="text-lg font-semibold">
-          Event
-        </h2>
-        <div className="grid gap-4 md:grid-cols-3">
-          <TextField label="Event number" field={fields.number} hint="Dispatch or training number." />
-          <SelectField
-            label="Kind"
-            field={fields.kind}
-            options={choices(EVENT_KINDS.map((kind) => [kind, EVENT_KIND_LABELS[kind]]))}
-          />
-          <SelectField
-            label="Station"
-            field={fields.stationId}
-            placeholder="Choose the station"
-            options={choices(props.stations.map((station) => [String(station.id), `${station.code} ${station.name}`]))}
-          />
-          <TextField
-            label="Started"
-            field={fields.startedAt}
-            type="datetime-local"
-            hint={`Local time, ${props.timeZone}.`}
-          />
-          <TextField label="Cleared" field={fields.clearedAt} type="datetime-local" />
-          <TextField label="Address or location" field={fields.address} />
-        </div>
-        <EventLocationMap
-          defaultLatitude={fields.latitude.initialValue}
-          defaultLongitude={fields.longitude.initialValue}
-          latitudeName={fields.latitude.name}
-          longitudeName={fields.longitude.name}
-          latitudeErrors={fields.latitude.errors}
-          longitudeErrors={fields.longitude.errors}
-          onChange={(point) => {
-            if (point.address && !fields.address.value)
-              form.update({ name: fields.address.name, value: point.address });
-          }}
-        />
-        <div>
-          <label htmlFor={fields.narrative.id} className="field-label">
-            Narrative
-          </label>
-          <textarea
-            {...getTextareaProps(fields.narrative)}
-            key={fields.narrative.key}
-            rows={3}
-            className="field-input"
-          />
-          <ErrorList id={fields.narrative.errorId} errors={fields.narrative.errors} />
-        </div>
-      </section>
-
-      <section className="card space-y-4" aria-labelledby="discharges-title">
-        <div className="flex flex-wrap items-center justify-between gap-2">
-          <h2 id="discharges-title" className="text-lg font-semibold">
-            Discharges
+        <section className="card space-y-4" aria-labelledby="details-title">
+          <h2 id="details-title" className="text-lg font-semibold">
+            Event
           </h2>
-          <button
-            type="submit"
-            className="btn-secondary"
-            disabled={discharges.length >= MAX_LINES}
-            {...form.insert.getButtonProps({ name: fields.discharges.name, defaultValue: NEW_DISCHARGE as never })}
-          >
-            Add a discharge
-          </button>
-        </div>
-        <p className="text-sm text-slate-ft">
-          One line per hose line, monitor or test that flowed. Say whether the flow figure is water through a
-          direct-injection proportioner or the foam-solution rating of a nozzle or eductor.
-        </p>
-        <ErrorList id={fields.discharges.errorId} errors={fields.discharges.errors} />
-        {pfasChosen ? <UsageCautions kind="pfas" /> : null}
-        {classAChosen ? <UsageCautions kind="class-a" /> : null}
-        <ol className="space-y-4">
-          {discharges.map((line, index) => {
-            const row = line.getFieldset();
-            const values = (line.value ?? {}) as Record<string, string | undefined>;
-            const unit = apparatusById.get(Number(values.apparatusId));
-            const product = productsById.get(Number(values.productId));
-            const result = resultFor(index);
-            return (
-              <li
+          <div className="grid gap-4 md:grid-cols-3">
+            <TextField label="Event number" field={fields.number} hint="Dispatch or training number." />
+            <SelectField
+              label="Kind"
+              field={fields.kind}
+              options={choices(EVENT_KINDS.map((kind) => [kind, EVENT_KIND_LABELS[kind]]))}
+            />
+            <SelectField
+              label="Station"
+              field={fields.stationId}
+              placeholder="Choose the station"
+              options={choices(
+                props.stations.map((station) => [String(station.id), `${station.code} ${station.name}`]),
+              )}
+            />
+            <TextField
+              label="Started"
+              field={fields.startedAt}
+              type="datetime-local"
+              hint={`Local time, ${props.timeZone}.`}
+            />
+            <TextField label="Cleared" field={fields.clearedAt} type="datetime-local" />
+            <TextField label="Address or location" field={fields.address} />
+          </div>
+          <EventLocationMap
+            defaultLatitude={fields.latitude.initialValue}
+            defaultLongitude={fields.longitude.initialValue}
+            latitudeName={fields.latitude.name}
+            longitudeName={fields.longitude.name}
+            latitudeErrors={fields.latitude.errors}
+            longitudeErrors={fields.longitude.errors}
+            onChange={(point) => {
+              if (point.address && !fields.address.value)
+                form.update({ name: fields.address.name, value: point.address });
+            }}
+          />
+          <div>
+            <label htmlFor={fields.narrative.id} className="field-label">
+              Narrative
+            </label>
+            <textarea
+              {...getTextareaProps(fields.narrative)}
+              key={fields.narrative.key}
+              rows={3}
+              className="field-input"
+            />
+            <ErrorList id={fields.narrative.errorId} errors={fields.narrative.errors} />
+          </div>
+        </section>
+
+        <section className="card space-y-4" aria-labelledby="discharges-title">
+          <div className="flex flex-wrap items-center justify-between gap-2">
+            <h2 id="discharges-title" className="text-lg font-semibold">
+              Discharges
+            </h2>
+            <button
+              type="submit"
+              className="btn-secondary"
+              disabled={discharges.length >= MAX_LINES}
+              {...form.insert.getButtonProps({ name: fields.discharges.name, defaultValue: NEW_DISCHARGE as never })}
+            >
+              Add a discharge
+            </button>
+          </div>
+          <p className="text-sm text-slate-ft">
+            One line per hose line, monitor or test that flowed. Say whether the flow figure is water through a
+            direct-injection proportioner or the foam-solution rating of a nozzle or eductor.
+          </p>
+          <ErrorList id={fields.discharges.errorId} errors={fields.discharges.errors} />
+          {pfasChosen ? <UsageCautions kind="pfas" /> : null}
+          {classAChosen ? <UsageCautions kind="class-a" /> : null}
+          <ol className="space-y-4">
+            {discharges.map((line, index) => (
+              <DischargeLine
                 key={line.key}
-                className="rounded-md border border-stone-200 p-3"
-                aria-label={`Discharge ${index + 1}`}
-              >
-                <div className="flex flex-wrap items-center justify-between gap-2">
-                  <h3 className="font-semibold">Discharge {index + 1}</h3>
-                  <div className="flex gap-2">
-                    <button
-                      type="submit"
-                      className="btn-quiet"
-                      disabled={discharges.length >= MAX_LINES}
-                      {...form.insert.getButtonProps({
-                        name: fields.discharges.name,
-                        index: index + 1,
-                        defaultValue: values as never,
-                      })}
-                    >
-                      Duplicate<span className="sr-only"> discharge {index + 1}</span>
-                    </button>
-                    <button
-                      type="submit"
-                      className="btn-quiet"
-                      {...form.remove.getButtonProps({ name: fields.discharges.name, index })}
-                    >
-                      Remove<span className="sr-only"> discharge {index + 1}</span>
-                    </button>
+                name={line.name}
+                index={index}
+                listName={fields.discharges.name}
+                full={discharges.length >= MAX_LINES}
+                result={resultFor(index)}
+                apparatus={props.apparatus}
+                products={props.products}
+                apparatusById={apparatusById}
+                productsById={productsById}
+              />
+            ))}
+          </ol>
+        </section>
+
+        <section className="card" aria-labelledby="totals-title" aria-live="polite">
+          <h2 id="totals-title" className="text-lg font-semibold">
+            Totals <span className="text-sm font-normal text-slate-ft">(computed by the server as you type)</span>
+          </h2>
+          <dl className="mt-3 grid grid-cols-3 gap-4" data-testid="live-totals">
+            {VOLUMES.map((key) => (
+              <div key={key} className="rounded-md bg-stone-100 p-3">
+                <dt className="text-sm font-semibold text-slate-ft">{VOLUME_LABELS[key]}</dt>
+                <dd className="text-xl font-bold" data-testid={`total-${key}`}>
+                  {formatGallons(computed?.totals?.[key].gal)} gal
+                </dd>
+                <dd className="text-sm text-slate-ft">{formatGallons(computed?.totals?.[key].L)} L</dd>
+              </div>
+            ))}
+          </dl>
+          {totalsFetcher.state !== "idle" ? <p className="mt-2 text-sm text-slate-ft">Updating…</p> : null}
+          <p className="mt-2 text-xs text-slate-ft">
+            Estimates from the figures entered; the saved report keeps the server&apos;s computation.
+          </p>
+        </section>
+
+        <section className="card space-y-4" aria-labelledby="runoff-title">
+          <div className="flex flex-wrap items-center justify-between gap-2">
+            <h2 id="runoff-title" className="text-lg font-semibold">
+              Where the runoff went
+            </h2>
+            <button
+              type="submit"
+              className="btn-secondary"
+              disabled={dispositions.length >= MAX_RUNOFF_LINES}
+              {...form.insert.getButtonProps({
+                name: fields.dispositions.name,
+                defaultValue: NEW_DISPOSITION as never,
+              })}
+            >
+              Add a runoff line
+            </button>
+          </div>
+          <UsageCautions kind="runoff" />
+          <p className="text-sm text-slate-ft">
+            Give every line as a share of the foam solution (adding up to 100 %), or every line as a volume in gallons.
+          </p>
+          <ErrorList id={fields.dispositions.errorId} errors={fields.dispositions.errors} />
+          <ol className="space-y-3">
+            {dispositions.map((line, index) => {
+              const row = line.getFieldset();
+              const values = (line.value ?? {}) as Record<string, string | undefined>;
+              return (
+                <li
+                  key={line.key}
+                  className="rounded-md border border-stone-200 p-3"
+                  aria-label={`Runoff line ${index + 1}`}
+                >
+                  <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+                    <SelectField
+                      label="Went to"
+                      field={row.disposition}
+                      options={choices(DISPOSITIONS.map((value) => [value, DISPOSITION_LABELS[value]]))}
+                    />
+                    <TextField label="Share (%)" field={row.sharePercent} inputMode="decimal" />
+                    <TextField label="Or volume (gal)" field={row.volumeGal} inputMode="decimal" />
+                    <TextField label="Receiving water or drain" field={row.receivingWater} />
+                    {values.disposition === "contained" ? (
+                      <TextField
+                        label="Disposal record"
+                        field={row.disposalReference}
+                        hint="Manifest, ticket or drum number."
+                      />
+                    ) : null}
+                    {values.disposition === "sanitary_sewer" ? (
+                      <TextField label="Treatment works told" field={row.sewerNotice} hint="Who, and when." />
+                    ) : null}
                   </div>
-                </div>
-                <div className="mt-2 grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+                  <button
+                    type="submit"
+                    className="btn-quiet mt-2"
+                    {...form.remove.getButtonProps({ name: fields.dispositions.name, index })}
+                  >
+                    Remove<span className="sr-only"> runoff line {index + 1}</span>
+                  </button>
+                </li>
+              );
+            })}
+          </ol>
+        </section>
+
+        <section className="card space-y-4" aria-labelledby="tanks-title">
+          <div className="flex flex-wrap items-center justify-between gap-2">
+            <h2 id="tanks-title" className="text-lg font-semibold">
+              Concentrate tanks after use
+            </h2>
+            <button
+              type="submit"
+              className="btn-secondary"
+              disabled={tankReadings.length >= MAX_TANK_READINGS}
+              {...form.insert.getButtonProps({ name: fields.tankReadings.name })}
+            >
+              Add a tank reading
+            </button>
+          </div>
+          <p className="text-sm text-slate-ft">
+            A refill amount, or the levels before and after, lets Foamtally compare the computed concentrate with the
+            tank.
+          </p>
+          <ol className="space-y-3">
+            {tankReadings.map((line, index) => {
+              const row = line.getFieldset();
+              return (
+                <li
+                  key={line.key}
+                  className="grid gap-3 rounded-md border border-stone-200 p-3 sm:grid-cols-2 lg:grid-cols-5"
+                  aria-label={`Tank reading ${index + 1}`}
+                >
                   <SelectField
                     label="Apparatus"
                     field={row.apparatusId}
-                    placeholder="Not listed / mutual aid"
-                    options={choices(
-                      props.apparatus.map((option) => [String(option.id), `${option.unitId} ${option.description}`]),
-                    )}
-                    onChange={(event) => {
-                      const chosen = apparatusById.get(Number(event.currentTarget.value));
-                      const outlet = chosen?.outlets.find((item) => item.foamCapable) ?? chosen?.outlets[0];
-                      if (outlet && !values.outlet) {
-                        form.update({ name: row.outlet.name, value: outlet.name });
-                        if (outlet.defaultFlowGpm && !values.flow)
-                          form.update({ name: row.flow.name, value: String(outlet.defaultFlowGpm) });
-                        form.update({ name: row.basis.name, value: outlet.defaultFlowBasis });
-                        if (outlet.defaultMethod) form.update({ name: row.method.name, value: outlet.defaultMethod });
-                      }
-                    }}
+                    placeholder="Choose"
+                    options={choices(props.apparatus.map((option) => [String(option.id), option.unitId]))}
                   />
-                  <div>
-                    <label htmlFor={row.outlet.id} className="field-label">
-                      Outlet
-                    </label>
-                    <input
-                      {...getInputProps(row.outlet, { type: "text" })}
-                      key={row.outlet.key}
-                      list={unit ? `outlets-${unit.id}` : undefined}
-                      className="field-input"
-                    />
-                    {unit ? (
-                      <datalist id={`outlets-${unit.id}`}>
-                        {unit.outlets.map((outlet) => (
-                          <option key={outlet.name} value={outlet.name} />
-                        ))}
-                      </datalist>
-                    ) : null}
-                    <ErrorList id={row.outlet.errorId} errors={row.outlet.errors} />
-                  </div>
                   <SelectField
                     label="Concentrate"
                     field={row.productId}
-                    placeholder={WATER_ONLY_LABEL}
-                    options={choices(
-                      props.products.map((option) => [
-                        String(option.id),
-                        `${option.name} (${FOAM_CLASS_LABELS[option.foamClass]}${option.pfasContaining ? ", contains PFAS" : ""})`,
-                      ]),
-                    )}
-                    onChange={(event) => {
-                      const chosen = productsById.get(Number(event.currentTarget.value));
-                      if (!chosen || values.percent) return;
-                      const compressedAir = values.method === "compressed_air" || (unit?.compressedAirCfm ?? 0) > 0;
-                      // About 0.3 % is the usual compressed-air Class A ratio (common practice, no source).
-                      const suggested = chosen.foamClass === "A" && compressedAir ? 0.3 : chosen.nominalPercents[0];
-                      if (suggested) form.update({ name: row.percent.name, value: String(suggested) });
-                    }}
-                  />
-                  <TextField
-                    label="Percent"
-                    field={row.percent}
-                    inputMode="decimal"
-                    hint={
-                      product ? `Nominal ${product.nominalPercents.join(" or ") || "—"} %` : "Blank for water only."
-                    }
-                  />
-                  <TextField label="Flow" field={row.flow} inputMode="decimal" />
-                  <SelectField
-                    label="Flow unit"
-                    field={row.flowUnit}
-                    options={choices(FLOW_UNITS.map((unit) => [unit, FLOW_UNIT_LABELS[unit]]))}
-                  />
-                  <SelectField label="Flow is" field={row.basis} options={choices(Object.entries(FLOW_BASIS_LABELS))} />
-                  <SelectField
-                    label="Method"
-                    field={row.method}
                     placeholder="Choose"
-                    options={choices(APPLICATION_METHODS.map((method) => [method, APPLICATION_METHOD_LABELS[method]]))}
+                    options={choices(props.products.map((option) => [String(option.id), option.name]))}
                   />
-                  <TextField label="Minutes" field={row.minutes} inputMode="decimal" hint="Or give start and end." />
-                  <TextField label="Start" field={row.startedAt} type="datetime-local" />
-                  <TextField label="End" field={row.endedAt} type="datetime-local" />
-                  {values.method === "compressed_air" ? (
-                    <TextField label="Air flow (cfm)" field={row.airFlowCfm} inputMode="decimal" />
-                  ) : null}
-                </div>
-                <LineResult result={result} />
-              </li>
-            );
-          })}
-        </ol>
-      </section>
-
-      <section className="card" aria-labelledby="totals-title" aria-live="polite">
-        <h2 id="totals-title" className="text-lg font-semibold">
-          Totals <span className="text-sm font-normal text-slate-ft">(computed by the server as you type)</span>
-        </h2>
-        <dl className="mt-3 grid grid-cols-3 gap-4" data-testid="live-totals">
-          {VOLUMES.map((key) => (
-            <div key={key} className="rounded-md bg-stone-100 p-3">
-              <dt className="text-sm font-semibold text-slate-ft">{VOLUME_LABELS[key]}</dt>
-              <dd className="text-xl font-bold" data-testid={`total-${key}`}>
-                {formatGallons(computed?.totals?.[key].gal)} gal
-              </dd>
-              <dd className="text-sm text-slate-ft">{formatGallons(computed?.totals?.[key].L)} L</dd>
-            </div>
-          ))}
-        </dl>
-        {totalsFetcher.state !== "idle" ? <p className="mt-2 text-sm text-slate-ft">Updating…</p> : null}
-        <p className="mt-2 text-xs text-slate-ft">
-          Estimates from the figures entered; the saved report keeps the server&apos;s computation.
-        </p>
-      </section>
-
-      <section className="card space-y-4" aria-labelledby="runoff-title">
-        <div className="flex flex-wrap items-center justify-between gap-2">
-          <h2 id="runoff-title" className="text-lg font-semibold">
-            Where the runoff went
-          </h2>
-          <button
-            type="submit"
-            className="btn-secondary"
-            disabled={dispositions.length >= MAX_RUNOFF_LINES}
-            {...form.insert.getButtonProps({ name: fields.dispositions.name, defaultValue: NEW_DISPOSITION as never })}
-          >
-            Add a runoff line
-          </button>
-        </div>
-        <UsageCautions kind="runoff" />
-        <p className="text-sm text-slate-ft">
-          Give every line as a share of the foam solution (adding up to 100 %), or every line as a volume in gallons.
-        </p>
-        <ErrorList id={fields.dispositions.errorId} errors={fields.dispositions.errors} />
-        <ol className="space-y-3">
-          {dispositions.map((line, index) => {
-            const row = line.getFieldset();
-            const values = (line.value ?? {}) as Record<string, string | undefined>;
-            return (
-              <li
-                key={line.key}
-                className="rounded-md border border-stone-200 p-3"
-                aria-label={`Runoff line ${index + 1}`}
-              >
-                <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
-                  <SelectField
-                    label="Went to"
-                    field={row.disposition}
-                    options={choices(DISPOSITIONS.map((value) => [value, DISPOSITION_LABELS[value]]))}
-                  />
-                  <TextField label="Share (%)" field={row.sharePercent} inputMode="decimal" />
-                  <TextField label="Or volume (gal)" field={row.volumeGal} inputMode="decimal" />
-                  <TextField label="Receiving water or drain" field={row.receivingWater} />
-                  {values.disposition === "contained" ? (
-                    <TextField
-                      label="Disposal record"
-                      field={row.disposalReference}
-                      hint="Manifest, ticket or drum number."
-                    />
-                  ) : null}
-                  {values.disposition === "sanitary_sewer" ? (
-                    <TextField label="Treatment works told" field={row.sewerNotice} hint="Who, and when." />
-                  ) : null}
-                </div>
-                <button
-                  type="submit"
-                  className="btn-quiet mt-2"
-                  {...form.remove.getButtonProps({ name: fields.dispositions.name, index })}
-                >
-                  Remove<span className="sr-only"> runoff line {index + 1}</span>
-                </button>
-              </li>
-            );
-          })}
-        </ol>
-      </section>
-
-      <section className="card space-y-4" aria-labelledby="tanks-title">
-        <div className="flex flex-wrap items-center justify-between gap-2">
-          <h2 id="tanks-title" className="text-lg font-semibold">
-            Concentrate tanks after use
-          </h2>
-          <button
-            type="submit"
-            className="btn-secondary"
-            disabled={tankReadings.length >= MAX_TANK_READINGS}
-            {...form.insert.getButtonProps({ name: fields.tankReadings.name })}
-          >
-            Add a tank reading
-          </button>
-        </div>
-        <p className="text-sm text-slate-ft">
-          A refill amount, or the levels before and after, lets Foamtally compare the computed concentrate with the
-          tank.
-        </p>
-        <ol className="space-y-3">
-          {tankReadings.map((line, index) => {
-            const row = line.getFieldset();
-            return (
-              <li
-                key={line.key}
-                className="grid gap-3 rounded-md border border-stone-200 p-3 sm:grid-cols-2 lg:grid-cols-5"
-                aria-label={`Tank reading ${index + 1}`}
-              >
-                <SelectField
-                  label="Apparatus"
-                  field={row.apparatusId}
-                  placeholder="Choose"
-                  options={choices(props.apparatus.map((option) => [String(option.id), option.unitId]))}
-                />
-                <SelectField
-                  label="Concentrate"
-                  field={row.productId}
-                  placeholder="Choose"
-                  options={choices(props.products.map((option) => [String(option.id), option.name]))}
-                />
-                <TextField label="Refilled (gal)" field={row.refillGal} inputMode="decimal" />
-                <TextField label="Level before (gal)" field={row.levelBeforeGal} inputMode="decimal" />
-                <TextField label="Level after (gal)" field={row.levelAfterGal} inputMode="decimal" />
-                <button
-                  type="submit"
-                  className="btn-quiet"
-                  {...form.remove.getButtonProps({ name: fields.tankReadings.name, index })}
-                >
-                  Remove<span className="sr-only"> tank reading {index + 1}</span>
-                </button>
-              </li>
-            );
-          })}
-        </ol>
-      </section>
-
-      {accepted ? (
-        <section className="card" aria-labelledby="revision-title">
-          <h2 id="revision-title" className="text-lg font-semibold">
-            Reason for this revision
-          </h2>
-          <p className="text-sm text-slate-ft">
-            This report was accepted. Your change becomes a new revision and goes back for review.
-          </p>
-          <textarea
-            name="revisionReason"
-            id="revision-reason"
-            aria-label="Reason for this revision"
-            rows={2}
-            className="field-input"
-            maxLength={500}
-            required
-          />
+                  <TextField label="Refilled (gal)" field={row.refillGal} inputMode="decimal" />
+                  <TextField label="Level before (gal)" field={row.levelBeforeGal} inputMode="decimal" />
+                  <TextField label="Level after (gal)" field={row.levelAfterGal} inputMode="decimal" />
+                  <button
+                    type="submit"
+                    className="btn-quiet"
+                    {...form.remove.getButtonProps({ name: fields.tankReadings.name, index })}
+                  >
+                    Remove<span className="sr-only"> tank reading {index + 1}</span>
+                  </button>
+                </li>
+              );
+            })}
+          </ol>
         </section>
-      ) : null}
 
-      <div className="sticky bottom-0 flex flex-wrap gap-3 border-t border-stone-200 bg-stone-50/95 py-3">
-        <button type="submit" name="intent" value="file" className="btn-primary" disabled={saving}>
-          {accepted ? "File this revision" : "File report"}
-        </button>
-        {!accepted && props.status !== "filed" ? (
-          <button
-            type="submit"
-            name="intent"
-            value="save-draft"
-            className="btn-secondary"
-            formNoValidate
-            disabled={saving}
-          >
-            Save draft
-          </button>
+        {accepted ? (
+          <section className="card" aria-labelledby="revision-title">
+            <h2 id="revision-title" className="text-lg font-semibold">
+              Reason for this revision
+            </h2>
+            <p className="text-sm text-slate-ft">
+              This report was accepted. Your change becomes a new revision and goes back for review.
+            </p>
+            <textarea
+              name="revisionReason"
+              id="revision-reason"
+              aria-label="Reason for this revision"
+              rows={2}
+              className="field-input"
+              maxLength={500}
+              required
+            />
+          </section>
         ) : null}
-        {saving ? <span className="self-center text-sm">Saving…</span> : null}
-      </div>
-    </Form>
+
+        <div className="sticky bottom-0 flex flex-wrap gap-3 border-t border-stone-200 bg-stone-50/95 py-3">
+          <button type="submit" name="intent" value="file" className="btn-primary" disabled={saving}>
+            {accepted ? "File this revision" : "File report"}
+          </button>
+          {!accepted && props.status !== "filed" ? (
+            <button
+              type="submit"
+              name="intent"
+              value="save-draft"
+              className="btn-secondary"
+              formNoValidate
+              disabled={saving}
+            >
+              Save draft
+            </button>
+          ) : null}
+          {saving ? <span className="self-center text-sm">Saving…</span> : null}
+        </div>
+      </Form>
+    </FormProvider>
   );
 }
 
 /** Select options from [value, label] pairs. */
+type DischargeLineProps = {
+  name: string;
+  index: number;
+  listName: string;
+  full: boolean;
+  result?: NonNullable<TotalsResponse["discharges"]>[number];
+  apparatus: ApparatusOption[];
+  products: ProductOption[];
+  apparatusById: Map<number, ApparatusOption>;
+  productsById: Map<number, ProductOption>;
+};
+
+/**
+ * One discharge. Each line reads its own fields (`useField`), so the form's work grows with the
+ * number of lines, not with its square.
+ */
+function DischargeLine({ name, index, listName, full, result, ...props }: DischargeLineProps) {
+  const [line, form] = useField<z.input<typeof DischargeLineSchema>>(name);
+  const row = line.getFieldset();
+  const values = (line.value ?? {}) as Record<string, string | undefined>;
+  const unit = props.apparatusById.get(Number(values.apparatusId));
+  const product = props.productsById.get(Number(values.productId));
+  const apparatusById = props.apparatusById;
+  const productsById = props.productsById;
+  return (
+    <li className="rounded-md border border-stone-200 p-3" aria-label={`Discharge ${index + 1}`}>
+      <div className="flex flex-wrap items-center justify-between gap-2">
+        <h3 className="font-semibold">Discharge {index + 1}</h3>
+        <div className="flex gap-2">
+          <button
+            type="submit"
+            className="btn-quiet"
+            disabled={full}
+            {...form.insert.getButtonProps({
+              name: listName,
+              index: index + 1,
+              defaultValue: values as never,
+            })}
+          >
+            Duplicate<span className="sr-only"> discharge {index + 1}</span>
+          </button>
+          <button type="submit" className="btn-quiet" {...form.remove.getButtonProps({ name: listName, index })}>
+            Remove<span className="sr-only"> discharge {index + 1}</span>
+          </button>
+        </div>
+      </div>
+      <div className="mt-2 grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+        <SelectField
+          label="Apparatus"
+          field={row.apparatusId}
+          placeholder="Not listed / mutual aid"
+          options={choices(
+            props.apparatus.map((option) => [String(option.id), `${option.unitId} ${option.description}`]),
+          )}
+          onChange={(event) => {
+            const chosen = apparatusById.get(Number(event.currentTarget.value));
+            const outlet = chosen?.outlets.find((item) => item.foamCapable) ?? chosen?.outlets[0];
+            if (outlet && !values.outlet) {
+              form.update({ name: row.outlet.name, value: outlet.name });
+              if (outlet.defaultFlowGpm && !values.flow)
+                form.update({ name: row.flow.name, value: String(outlet.defaultFlowGpm) });
+              form.update({ name: row.basis.name, value: outlet.defaultFlowBasis });
+              if (outlet.defaultMethod) form.update({ name: row.method.name, value: outlet.defaultMethod });
+            }
+          }}
+        />
+        <div>
+          <label htmlFor={row.outlet.id} className="field-label">
+            Outlet
+          </label>
+          <input
+            {...getInputProps(row.outlet, { type: "text" })}
+            key={row.outlet.key}
+            list={unit ? `outlets-${unit.id}` : undefined}
+            className="field-input"
+          />
+          {unit ? (
+            <datalist id={`outlets-${unit.id}`}>
+              {unit.outlets.map((outlet) => (
+                <option key={outlet.name} value={outlet.name} />
+              ))}
+            </datalist>
+          ) : null}
+          <ErrorList id={row.outlet.errorId} errors={row.outlet.errors} />
+        </div>
+        <SelectField
+          label="Concentrate"
+          field={row.productId}
+          placeholder={WATER_ONLY_LABEL}
+          options={choices(
+            props.products.map((option) => [
+              String(option.id),
+              `${option.name} (${FOAM_CLASS_LABELS[option.foamClass]}${option.pfasContaining ? ", contains PFAS" : ""})`,
+            ]),
+          )}
+          onChange={(event) => {
+            const chosen = productsById.get(Number(event.currentTarget.value));
+            if (!chosen || values.percent) return;
+            const compressedAir = values.method === "compressed_air" || (unit?.compressedAirCfm ?? 0) > 0;
+            // About 0.3 % is the usual compressed-air Class A ratio (common practice, no source).
+            const suggested = chosen.foamClass === "A" && compressedAir ? 0.3 : chosen.nominalPercents[0];
+            if (suggested) form.update({ name: row.percent.name, value: String(suggested) });
+          }}
+        />
+        <TextField
+          label="Percent"
+          field={row.percent}
+          inputMode="decimal"
+          hint={product ? `Nominal ${product.nominalPercents.join(" or ") || "—"} %` : "Blank for water only."}
+        />
+        <TextField label="Flow" field={row.flow} inputMode="decimal" />
+        <SelectField
+          label="Flow unit"
+          field={row.flowUnit}
+          options={choices(FLOW_UNITS.map((unit) => [unit, FLOW_UNIT_LABELS[unit]]))}
+        />
+        <SelectField label="Flow is" field={row.basis} options={choices(Object.entries(FLOW_BASIS_LABELS))} />
+        <SelectField
+          label="Method"
+          field={row.method}
+          placeholder="Choose"
+          options={choices(APPLICATION_METHODS.map((method) => [method, APPLICATION_METHOD_LABELS[method]]))}
+        />
+        <TextField label="Minutes" field={row.minutes} inputMode="decimal" hint="Or give start and end." />
+        <TextField label="Start" field={row.startedAt} type="datetime-local" />
+        <TextField label="End" field={row.endedAt} type="datetime-local" />
+        {values.method === "compressed_air" ? (
+          <TextField label="Air flow (cfm)" field={row.airFlowCfm} inputMode="decimal" />
+        ) : null}
+      </div>
+      <LineResult result={result} />
+    </li>
+  );
+}
+
 function choices(pairs: Array<[string, string]>) {
   return pairs.map(([value, label]) => ({ value, label }));
 }
