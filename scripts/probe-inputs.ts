@@ -190,6 +190,9 @@ const awkwardText = fc.constantFrom(
   "a".repeat(5_000),
   "9".repeat(400),
   "x".repeat(25_000),
+  '{"type":"update","payload":{"name":"discharges[1000000]","value":"1"}}',
+  '{"type":"insert","payload":{"name":"discharges","index":1000000000}}',
+  '{"type":"reorder","payload":{"name":"discharges","from":0,"to":99999}}',
 );
 const text = fc.oneof(awkwardText, fc.string({ maxLength: 40 }), fc.double().map(String), fc.integer().map(String));
 const index = fc.oneof(
