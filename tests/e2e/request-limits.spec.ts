@@ -22,12 +22,12 @@ function reportBody(extra: string) {
  * Starts sending a body of `declaredBytes` (or a chunked one with no declared length), sends its
  * first megabyte and waits: resolves with the status the server answers while the rest is unsent.
  */
-function startLargeUpload(declaredBytes: number | "chunked") {
+function startLargeUpload(declaredBytes: number | "chunked", path = "/sign-in") {
   return new Promise<number>((resolve, reject) => {
     const upload = http.request({
       host: "127.0.0.1",
       port,
-      path: "/sign-in",
+      path,
       method: "POST",
       headers: {
         ...FORM,
@@ -61,6 +61,12 @@ test.describe("requests that once stopped the server are refused while it keeps 
     const ordinary = await request.get("/sign-in");
     expect(ordinary.status()).toBe(200);
     expect(await upload).toBe(413);
+  });
+
+  test("uploads and the JSON API have their own limits", async () => {
+    expect(await startLargeUpload(11 * 1024 * 1024, "/geography")).toBe(413);
+    expect(await startLargeUpload(11 * 1024 * 1024, "/products/new")).toBe(413);
+    expect(await startLargeUpload(2 * 1024 * 1024, "/api/totals")).toBe(413);
   });
 
   test("a body without a declared length is refused with 411", async ({ request }) => {

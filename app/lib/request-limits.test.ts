@@ -1,0 +1,21 @@
+import { describe, expect, it } from "vitest";
+import { FORM_BODY_MAX_BYTES, JSON_BODY_MAX_BYTES, requestBodyLimit, UPLOAD_BODY_MAX_BYTES } from "./request-limits";
+import { SAFETY_SHEET_MAX_BYTES } from "./catalogue/product-form";
+import { MAX_LAYER_BYTES } from "./geo/layers";
+
+describe("the body limit of each route", () => {
+  it("lets the two upload pages take their file and the form around it", () => {
+    expect(requestBodyLimit("/products/new")).toBe(UPLOAD_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/products/12")).toBe(UPLOAD_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/geography")).toBe(UPLOAD_BODY_MAX_BYTES);
+    expect(UPLOAD_BODY_MAX_BYTES).toBeGreaterThan(Math.max(SAFETY_SHEET_MAX_BYTES, MAX_LAYER_BYTES));
+  });
+
+  it("holds every other form and the JSON API to 1 MB", () => {
+    expect(requestBodyLimit("/sign-in")).toBe(FORM_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/events/new")).toBe(FORM_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/products/12/safety-sheet")).toBe(FORM_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/api/totals")).toBe(JSON_BODY_MAX_BYTES);
+    expect(FORM_BODY_MAX_BYTES).toBe(1024 * 1024);
+  });
+});
