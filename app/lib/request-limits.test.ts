@@ -8,6 +8,8 @@ describe("the body limit of each route", () => {
     expect(requestBodyLimit("/products/new")).toBe(UPLOAD_BODY_MAX_BYTES);
     expect(requestBodyLimit("/products/12")).toBe(UPLOAD_BODY_MAX_BYTES);
     expect(requestBodyLimit("/geography")).toBe(UPLOAD_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/geography.data")).toBe(UPLOAD_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/products/12.data")).toBe(UPLOAD_BODY_MAX_BYTES);
     expect(UPLOAD_BODY_MAX_BYTES).toBeGreaterThan(Math.max(SAFETY_SHEET_MAX_BYTES, MAX_LAYER_BYTES));
   });
 
@@ -15,6 +17,8 @@ describe("the body limit of each route", () => {
     expect(requestBodyLimit("/sign-in")).toBe(FORM_BODY_MAX_BYTES);
     expect(requestBodyLimit("/events/new")).toBe(FORM_BODY_MAX_BYTES);
     expect(requestBodyLimit("/products/12/safety-sheet")).toBe(FORM_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/products/12/safety-sheet.data")).toBe(FORM_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/geography/x")).toBe(FORM_BODY_MAX_BYTES);
     expect(requestBodyLimit("/api/totals")).toBe(JSON_BODY_MAX_BYTES);
     expect(FORM_BODY_MAX_BYTES).toBe(1024 * 1024);
   });

@@ -18,8 +18,11 @@ export const UPLOAD_FILE_MAX_BYTES = 10 * MEGABYTE;
 /** An upload form: its file plus the form's other fields and the multipart framing. */
 export const UPLOAD_BODY_MAX_BYTES = UPLOAD_FILE_MAX_BYTES + 256 * 1024;
 
-/** The pages whose forms carry a file; every other route takes at most `FORM_BODY_MAX_BYTES`. */
-const UPLOAD_PATHS = [/^\/products\/[^/]+\/?$/, /^\/geography\/?$/];
+/**
+ * The pages whose forms carry a file, as the browser posts them (`/geography`, or `/geography.data`
+ * when React Router submits in the page); every other route takes at most `FORM_BODY_MAX_BYTES`.
+ */
+const UPLOAD_PATHS = [/^\/products\/[^/.]+(\.data)?\/?$/, /^\/geography(\.data)?\/?$/];
 
 /** The largest body the server accepts for a path. */
 export function requestBodyLimit(pathname: string): number {
