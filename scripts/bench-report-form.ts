@@ -11,25 +11,12 @@ import path from "node:path";
 import { performance } from "node:perf_hooks";
 
 if (existsSync(".env")) process.loadEnvFile(".env");
-const BENCH_DB = process.env.BENCH_DB_NAME || "foamtally_bench_form";
-if (!/^foamtally_bench\w*$/.test(BENCH_DB)) throw new Error(`Refusing to use ${BENCH_DB} as a throwaway database`);
+const { benchDatabaseName, dropBenchDatabase, freshBenchDatabase } = await import("./bench-database");
+const BENCH_DB = benchDatabaseName("foamtally_bench_form");
 process.env.DB_NAME = BENCH_DB;
 process.env.NODE_ENV = "production";
 const SIZES = (process.env.BENCH_FORM_LINES ?? "50,100,200").split(",").map(Number);
 const RUNS = 5;
-
-async function prepare() {
-  const { default: knexFactory } = await import("knex");
-  const { default: config } = await import("../knexfile");
-  const connection = { ...(config.connection as Record<string, unknown>) };
-  const server = knexFactory({ ...config, connection: { ...connection, database: undefined } });
-  await server.raw(`DROP DATABASE IF EXISTS \`${BENCH_DB}\``);
-  await server.raw(`CREATE DATABASE \`${BENCH_DB}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
-  await server.destroy();
-  const knex = knexFactory({ ...config, connection: { ...connection, database: BENCH_DB } });
-  await knex.migrate.latest();
-  await knex.destroy();
-}
 
 function median(values: number[]) {
   const sorted = [...values].sort((a, b) => a - b);
@@ -37,7 +24,8 @@ function median(values: number[]) {
 }
 
 async function main() {
-  await prepare();
+  const knex = await freshBenchDatabase(BENCH_DB, { name: "Benchmark district (synthetic)" });
+  await knex.destroy();
   const buildDirectory = path.resolve(process.env.BUILD_DIR ?? "build");
   if (!existsSync(path.join(buildDirectory, "server/index.js"))) {
     throw new Error(`No build in ${buildDirectory}: run \`npm run build\` first.`);
@@ -51,12 +39,6 @@ async function main() {
   const { FiledReportSchema, REPORT_FORM_SCHEMAS } = await import("../app/lib/foam/report-schema");
   const { formShape, readBoundedForm } = await import("../app/lib/form-data.server");
 
-  await db("agency_settings").insert({
-    id: 1,
-    name: "Benchmark district (synthetic)",
-    report_recipients: "",
-    release_alert_recipients: "",
-  });
   const [stationId] = await db("stations").insert({ code: "B1", name: "Bench station" });
   const [apparatusId] = await db("apparatus").insert({ unit_id: "BE1", station_id: stationId });
   const [productId] = await db("foam_products").insert({
@@ -162,6 +144,7 @@ async function main() {
   console.log("| ---: | ---: | ---: | ---: | ---: | ---: |");
   for (const row of rows) console.log(row);
   await db.destroy();
+  await dropBenchDatabase(BENCH_DB);
 }
 
 await main();
