@@ -120,8 +120,8 @@ async function fill() {
 /** Runs in the child: builds one export and prints its figures as JSON. */
 async function measure(format: "xlsx" | "zip", year: number, quarter: number) {
   const { parseReportPeriod } = await import("../app/lib/reporting/period");
-  const { writeEnvironmentalWorkbook } = await import("../app/reports/environmental-workbook.server");
-  const { writeEnvironmentalCsvZip } = await import("../app/reports/environmental-csv.server");
+  const { writeEnvironmentalWorkbook } = await import("../app/exports/environmental-workbook.server");
+  const { writeEnvironmentalCsvZip } = await import("../app/exports/environmental-csv.server");
   const { db } = await import("../app/lib/db.server");
   const parsed = parseReportPeriod(new URLSearchParams(`year=${year}&quarter=${quarter}`), "America/Chicago");
   if (!parsed.ok) throw new Error(parsed.message);

@@ -19,7 +19,7 @@ import {
   submissionFile,
 } from "~/models/quarterly-submission.server";
 import { NoRecipientsError, queueQuarterlyWorkbookMail } from "~/models/report-notifications.server";
-import { generatedContent, withGeneratedFile, workbookRequestFor } from "./environmental-files.server";
+import { generatedContent, withGeneratedFile, workbookRequestFor } from "~/exports/environmental-files.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Quarterly runoff and PFAS summary · Foamtally" }];
 

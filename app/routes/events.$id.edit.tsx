@@ -4,7 +4,7 @@ import { ReportForm } from "~/components/report-form";
 import { invariantResponse } from "~/lib/http.server";
 import { getReport } from "~/models/event-read.server";
 import { formValuesOf, reportFormOptions } from "~/models/report-options.server";
-import { handleReportSubmission, requireReportChange } from "./report-form.server";
+import { handleReportSubmission, requireReportChange } from "~/models/report-form.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Edit ${data?.number ?? "report"} · Foamtally` }];
 

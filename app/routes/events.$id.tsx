@@ -15,7 +15,7 @@ import { flashHeaders } from "~/lib/session.server";
 import { reviewReport } from "~/models/event.server";
 import { getReport, reportAccessRecord, reportHistory } from "~/models/event-read.server";
 import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
-import { reviewHooks } from "./report-form.server";
+import { reviewHooks } from "~/models/report-form.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.number ?? "Report"} · Foamtally` }];
 

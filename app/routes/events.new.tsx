@@ -4,7 +4,7 @@ import { ReportForm } from "~/components/report-form";
 import { requireCapability } from "~/lib/access.server";
 import { reportFormOptions } from "~/models/report-options.server";
 import { suggestEventNumber } from "~/models/event.server";
-import { handleReportSubmission } from "./report-form.server";
+import { handleReportSubmission } from "~/models/report-form.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "New usage report · Foamtally" }];
 

@@ -1,7 +1,7 @@
 import type { Route } from "./+types/reports.environmental-csv";
 import { requireCapability } from "~/lib/access.server";
 import { rethrowDatabaseDown } from "~/lib/http.server";
-import { generatedDownload, periodFrom, workbookRequestFor } from "./environmental-files.server";
+import { generatedDownload, periodFrom, workbookRequestFor } from "~/exports/environmental-files.server";
 
 /** The workbook's tables as one CSV file each, zipped. */
 export async function loader({ request }: Route.LoaderArgs) {

@@ -1,7 +1,7 @@
 import type { Route } from "./+types/reports.environmental-xlsx";
 import { requireCapability } from "~/lib/access.server";
 import { rethrowDatabaseDown } from "~/lib/http.server";
-import { generatedDownload, periodFrom, workbookRequestFor } from "./environmental-files.server";
+import { generatedDownload, periodFrom, workbookRequestFor } from "~/exports/environmental-files.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "exports.quarterly");

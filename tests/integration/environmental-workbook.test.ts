@@ -6,7 +6,7 @@ import * as XLSX from "xlsx";
 import { db } from "~/lib/db.server";
 import { GRAMS_PER_POUND, LITRES_PER_US_GALLON } from "~/lib/foam/units";
 import { parseReportPeriod, type ReportPeriod } from "~/lib/reporting/period";
-import { writeEnvironmentalWorkbook } from "~/reports/environmental-workbook.server";
+import { writeEnvironmentalWorkbook } from "~/exports/environmental-workbook.server";
 import { makeUser } from "../support/factories";
 import { ensureAgency, makeApparatus, makeEvent, makeProduct, makeStation } from "../support/usage-fixtures";
 

@@ -9,13 +9,13 @@ import { XLSX_TYPE, ZIP_TYPE } from "~/lib/reporting/files";
 import { parseReportPeriod, type ReportPeriod } from "~/lib/reporting/period";
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { latestSubmissionFor } from "~/models/quarterly-submission.server";
-import { writeEnvironmentalCsvZip } from "~/reports/environmental-csv.server";
+import { writeEnvironmentalCsvZip } from "~/exports/environmental-csv.server";
 import {
   workbookFileName,
   writeEnvironmentalWorkbook,
   type WorkbookRequest,
   type WrittenFile,
-} from "~/reports/environmental-workbook.server";
+} from "~/exports/environmental-workbook.server";
 
 export async function periodFrom(params: URLSearchParams): Promise<ReportPeriod> {
   const agency = await readAgencySettings();
