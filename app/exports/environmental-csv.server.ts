@@ -20,11 +20,12 @@ import {
 } from "./environmental-tables.server";
 import {
   appVersion,
-  digestOfFile,
+  heaviestWindowPounds,
   methodLines,
+  writeOnOneSnapshot,
   type WorkbookRequest,
   type WrittenFile,
-} from "./environmental-workbook.server";
+} from "./environmental-common.server";
 
 // A UTF-8 byte-order mark, so that spreadsheet programs read "–", "°" and "³" as written.
 const BOM = "\uFEFF";
@@ -48,94 +49,80 @@ export async function writeEnvironmentalCsvZip(
   path: string,
   connection: Db = db,
 ): Promise<WrittenFile> {
-  await connection.transaction(
-    async (trx) => {
-      const { agency, wall, aggregates, pfas } = await periodFacts(request.period, trx);
-      const output = createWriteStream(path);
-      const zip = new ZipArchive({ zlib: { level: 6 } });
-      const failed = new Promise<never>((_, reject) => zip.on("error", reject));
-      failed.catch(() => {});
-      zip.pipe(output);
+  return writeOnOneSnapshot(path, connection, async (trx) => {
+    const { agency, wall, aggregates, pfas } = await periodFacts(request.period, trx);
+    const output = createWriteStream(path);
+    const zip = new ZipArchive({ zlib: { level: 6 } });
+    const failed = new Promise<never>((_, reject) => zip.on("error", reject));
+    failed.catch(() => {});
+    zip.pipe(output);
 
-      const now = request.now ?? new Date();
-      const summary: (string | number | null)[][] = [
-        ["Topic", "Item", "Value", "Unit"],
-        ["Agency", "", agency.name, ""],
-        ["Period", request.period.label, `${request.period.from} to ${request.period.to}`, agency.timeZone],
-        ["Reports counted", "accepted", aggregates.eventCount, "reports"],
-        ["Reports not counted", "filed, awaiting review", aggregates.awaitingReview, "reports"],
-        ["Reports not counted", "returned to the officer", aggregates.returned, "reports"],
-        [
-          "Generated",
-          `${request.generatedBy.name} <${request.generatedBy.email}>`,
-          localDateTime(now, agency.timeZone),
-          agency.timeZone,
-        ],
-        ["Foamtally version", "", appVersion(), ""],
-        [
-          "Submission",
-          "",
-          request.submission
-            ? `marked submitted ${localDateTime(request.submission.submittedAt, agency.timeZone)} by ${request.submission.submittedBy}, SHA-256 ${request.submission.sha256}`
-            : "not marked as submitted",
-          "",
-        ],
-      ];
-      for (const row of aggregates.byClass) {
-        const use = row.incident ? "incidents" : "training, tests, flushes";
-        summary.push([`${row.foamClass}, ${use}`, "water", row.water, "US gal"]);
-        summary.push([`${row.foamClass}, ${use}`, "concentrate", row.concentrate, "US gal"]);
-        summary.push([`${row.foamClass}, ${use}`, "foam solution", row.solution, "US gal"]);
-        summary.push([`${row.foamClass}, ${use}`, "foam solution", gallonsToLitres(row.solution), "L"]);
-      }
-      for (const disposition of DISPOSITIONS) {
-        summary.push([
-          "Released foam solution",
-          DISPOSITION_LABELS[disposition],
-          aggregates.byDisposition[disposition],
-          "US gal",
-        ]);
-      }
-      for (const group of aggregates.byBasinAndWater) {
-        summary.push([
-          "Released by drainage basin",
-          `${group.basin} / ${group.receivingWater}`,
-          group.gallons,
-          "US gal",
-        ]);
-      }
-      for (const kind of EVENT_KINDS)
-        summary.push(["Events", EVENT_KIND_LABELS[kind], aggregates.eventsByKind[kind], "events"]);
+    const now = request.now ?? new Date();
+    const summary: (string | number | null)[][] = [
+      ["Topic", "Item", "Value", "Unit"],
+      ["Agency", "", agency.name, ""],
+      ["Period", request.period.label, `${request.period.from} to ${request.period.to}`, agency.timeZone],
+      ["Reports counted", "accepted", aggregates.eventCount, "reports"],
+      ["Reports not counted", "filed, awaiting review", aggregates.awaitingReview, "reports"],
+      ["Reports not counted", "returned to the officer", aggregates.returned, "reports"],
+      [
+        "Generated",
+        `${request.generatedBy.name} <${request.generatedBy.email}>`,
+        localDateTime(now, agency.timeZone),
+        agency.timeZone,
+      ],
+      ["Foamtally version", "", appVersion(), ""],
+      [
+        "Submission",
+        "",
+        request.submission
+          ? `marked submitted ${localDateTime(request.submission.submittedAt, agency.timeZone)} by ${request.submission.submittedBy}, SHA-256 ${request.submission.sha256}`
+          : "not marked as submitted",
+        "",
+      ],
+    ];
+    for (const row of aggregates.byClass) {
+      const use = row.incident ? "incidents" : "training, tests, flushes";
+      summary.push([`${row.foamClass}, ${use}`, "water", row.water, "US gal"]);
+      summary.push([`${row.foamClass}, ${use}`, "concentrate", row.concentrate, "US gal"]);
+      summary.push([`${row.foamClass}, ${use}`, "foam solution", row.solution, "US gal"]);
+      summary.push([`${row.foamClass}, ${use}`, "foam solution", gallonsToLitres(row.solution), "L"]);
+    }
+    for (const disposition of DISPOSITIONS) {
       summary.push([
-        "PFAS",
-        "heaviest 24-hour period",
-        pfas.reduce((max, row) => Math.max(max, row.windowPounds ?? 0), 0),
-        "lb",
+        "Released foam solution",
+        DISPOSITION_LABELS[disposition],
+        aggregates.byDisposition[disposition],
+        "US gal",
       ]);
-      summary.push(["PFAS", "reportable threshold", agency.pfasReportableLb, "lb in 24 h"]);
-      zip.append(BOM + summary.map((row) => csvLine(row)).join(""), { name: "summary.csv" });
+    }
+    for (const group of aggregates.byBasinAndWater) {
+      summary.push(["Released by drainage basin", `${group.basin} / ${group.receivingWater}`, group.gallons, "US gal"]);
+    }
+    for (const kind of EVENT_KINDS)
+      summary.push(["Events", EVENT_KIND_LABELS[kind], aggregates.eventsByKind[kind], "events"]);
+    summary.push(["PFAS", "heaviest 24-hour period", heaviestWindowPounds(pfas), "lb"]);
+    summary.push(["PFAS", "reportable threshold", agency.pfasReportableLb, "lb in 24 h"]);
+    zip.append(BOM + summary.map((row) => csvLine(row)).join(""), { name: "summary.csv" });
 
-      const appendTable = async <Row>(table: DetailTable<Row>) => {
-        const entry = Readable.from(csvRows(table.columns, table.rows(request.period, trx)));
-        zip.append(entry, { name: table.csvName });
-        // archiver reads entries one after another: wait for this one so only one query streams at a time.
-        await Promise.race([finished(entry), failed]);
-      };
-      await appendTable(eventTable(wall));
-      await appendTable(dischargeTable);
-      await appendTable(releaseTable(wall));
-      await appendTable(nonIncidentTable(wall));
-      zip.append(Readable.from(csvRows(pfasColumns(wall, agency.pfasReportableLb), pfas)), { name: "pfas.csv" });
-      zip.append(
-        methodLines(agency)
-          .map(([topic, text]) => (text ? `${topic}\n${text}\n` : `${topic}\n`))
-          .join("\n"),
-        { name: "method-and-cautions.txt" },
-      );
-      await Promise.race([zip.finalize(), failed]);
-      await finished(output);
-    },
-    { readOnly: true },
-  );
-  return { path, ...(await digestOfFile(path)) };
+    const appendTable = async <Row>(table: DetailTable<Row>) => {
+      const entry = Readable.from(csvRows(table.columns, table.rows(request.period, trx)));
+      zip.append(entry, { name: table.csvName });
+      // archiver reads entries one after another: wait for this one so only one query streams at a time.
+      await Promise.race([finished(entry), failed]);
+    };
+    await appendTable(eventTable(wall));
+    await appendTable(dischargeTable);
+    await appendTable(releaseTable(wall));
+    await appendTable(nonIncidentTable(wall));
+    zip.append(Readable.from(csvRows(pfasColumns(wall, agency.pfasReportableLb), pfas)), { name: "pfas.csv" });
+    zip.append(
+      methodLines(agency)
+        .map(([topic, text]) => (text ? `${topic}\n${text}\n` : `${topic}\n`))
+        .join("\n"),
+      { name: "method-and-cautions.txt" },
+    );
+    await Promise.race([zip.finalize(), failed]);
+    await finished(output);
+  });
 }

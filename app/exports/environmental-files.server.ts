@@ -1,7 +1,5 @@
 import { createReadStream } from "node:fs";
-import { mkdtemp, readFile, rm } from "node:fs/promises";
-import { tmpdir } from "node:os";
-import path from "node:path";
+import { readFile } from "node:fs/promises";
 import { createReadableStreamFromReadable } from "@react-router/node";
 import type { SessionUser } from "~/lib/auth.server";
 import { httpError } from "~/lib/http.server";
@@ -9,13 +7,15 @@ import { XLSX_TYPE, ZIP_TYPE } from "~/lib/reporting/files";
 import { parseReportPeriod, type ReportPeriod } from "~/lib/reporting/period";
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { latestSubmissionFor } from "~/models/quarterly-submission.server";
-import { writeEnvironmentalCsvZip } from "~/exports/environmental-csv.server";
 import {
+  privateTempFile,
   workbookFileName,
-  writeEnvironmentalWorkbook,
+  type ExportFormat,
   type WorkbookRequest,
   type WrittenFile,
-} from "~/exports/environmental-workbook.server";
+} from "./environmental-common.server";
+import { writeEnvironmentalCsvZip } from "./environmental-csv.server";
+import { writeEnvironmentalWorkbook } from "./environmental-workbook.server";
 
 export async function periodFrom(params: URLSearchParams): Promise<ReportPeriod> {
   const agency = await readAgencySettings();
@@ -38,52 +38,58 @@ export async function workbookRequestFor(period: ReportPeriod, user: SessionUser
   };
 }
 
-export type Format = "xlsx" | "zip";
+export type GeneratedFile = WrittenFile & { fileName: string; contentType: string };
+
+/** Writes the file into a private temporary directory; the caller calls `remove` when done with it. */
+async function generate(
+  format: ExportFormat,
+  request: WorkbookRequest,
+): Promise<GeneratedFile & { remove: () => Promise<void> }> {
+  const fileName = workbookFileName(request.period, format);
+  const target = await privateTempFile(fileName);
+  try {
+    const written =
+      format === "xlsx"
+        ? await writeEnvironmentalWorkbook(request, target.path)
+        : await writeEnvironmentalCsvZip(request, target.path);
+    return { ...written, fileName, contentType: format === "xlsx" ? XLSX_TYPE : ZIP_TYPE, remove: target.remove };
+  } catch (error) {
+    await target.remove();
+    throw error;
+  }
+}
 
 /** Writes the file into a private temporary directory and hands it to `handle`; the directory goes afterwards. */
 export async function withGeneratedFile<T>(
-  format: Format,
+  format: ExportFormat,
   request: WorkbookRequest,
-  handle: (file: WrittenFile & { fileName: string; contentType: string }) => Promise<T>,
+  handle: (file: GeneratedFile) => Promise<T>,
 ): Promise<T> {
-  const directory = await mkdtemp(path.join(tmpdir(), "foamtally-export-"));
+  const { remove, ...file } = await generate(format, request);
   try {
-    const fileName = workbookFileName(request.period, format);
-    const target = path.join(directory, fileName);
-    const written =
-      format === "xlsx"
-        ? await writeEnvironmentalWorkbook(request, target)
-        : await writeEnvironmentalCsvZip(request, target);
-    return await handle({ ...written, fileName, contentType: format === "xlsx" ? XLSX_TYPE : ZIP_TYPE });
+    return await handle(file);
   } finally {
-    await rm(directory, { recursive: true, force: true });
+    await remove();
   }
 }
 
 /** A download response that streams the generated file from disk and removes it once sent. */
-export async function generatedDownload(format: Format, request: WorkbookRequest): Promise<Response> {
-  const directory = await mkdtemp(path.join(tmpdir(), "foamtally-export-"));
-  const fileName = workbookFileName(request.period, format);
-  const target = path.join(directory, fileName);
+export async function generatedDownload(format: ExportFormat, request: WorkbookRequest): Promise<Response> {
+  const file = await generate(format, request);
   try {
-    const written =
-      format === "xlsx"
-        ? await writeEnvironmentalWorkbook(request, target)
-        : await writeEnvironmentalCsvZip(request, target);
-    const stream = createReadStream(target);
-    const cleanup = () => void rm(directory, { recursive: true, force: true });
-    stream.once("close", cleanup);
+    const stream = createReadStream(file.path);
+    stream.once("close", () => void file.remove());
     return new Response(createReadableStreamFromReadable(stream), {
       headers: {
-        "Content-Type": format === "xlsx" ? XLSX_TYPE : ZIP_TYPE,
-        "Content-Disposition": `attachment; filename="${fileName}"`,
-        "Content-Length": String(written.byteSize),
+        "Content-Type": file.contentType,
+        "Content-Disposition": `attachment; filename="${file.fileName}"`,
+        "Content-Length": String(file.byteSize),
         "Cache-Control": "no-store",
-        "X-Content-SHA256": written.sha256,
+        "X-Content-SHA256": file.sha256,
       },
     });
   } catch (error) {
-    await rm(directory, { recursive: true, force: true });
+    await file.remove();
     throw error;
   }
 }

@@ -1,10 +1,7 @@
-import { createHash } from "node:crypto";
-import { createReadStream, readFileSync } from "node:fs";
 import ExcelJS from "exceljs";
 import { db, type Db } from "~/lib/db.server";
-import { ASSUMED_CONCENTRATE_KG_PER_L } from "~/lib/foam/pfas";
-import { GRAMS_PER_POUND, LITRES_PER_US_GALLON } from "~/lib/foam/units";
-import { localDateTime, wallClockIn, type ReportPeriod } from "~/lib/reporting/period";
+import { LITRES_PER_US_GALLON } from "~/lib/foam/units";
+import { localDateTime, wallClockIn } from "~/lib/reporting/period";
 import {
   DISPOSITION_LABELS,
   DISPOSITIONS,
@@ -35,44 +32,14 @@ import {
   type Column,
   type DetailTable,
 } from "./environmental-tables.server";
-
-export type SubmissionFacts = { submittedAt: Date; submittedBy: string; sha256: string; fileName: string };
-
-export type WorkbookRequest = {
-  period: ReportPeriod;
-  generatedBy: { name: string; email: string };
-  /** The latest submission of this same period, if any: the workbook says so and lists later changes. */
-  submission?: SubmissionFacts | null;
-  now?: Date;
-};
-
-export type WrittenFile = { path: string; sha256: string; byteSize: number };
-
-export function appVersion(): string {
-  try {
-    return String(JSON.parse(readFileSync("package.json", "utf8")).version ?? "unknown");
-  } catch {
-    return "unknown";
-  }
-}
-
-export function workbookFileName(period: ReportPeriod, extension: "xlsx" | "zip"): string {
-  const part =
-    period.year !== null && period.quarter !== null
-      ? `${period.year}-Q${period.quarter}`
-      : `${period.from}_${period.to}`;
-  return `foam-runoff-summary_${part}.${extension}`;
-}
-
-export async function digestOfFile(path: string): Promise<{ sha256: string; byteSize: number }> {
-  const hash = createHash("sha256");
-  let byteSize = 0;
-  for await (const chunk of createReadStream(path)) {
-    hash.update(chunk as Buffer);
-    byteSize += (chunk as Buffer).length;
-  }
-  return { sha256: hash.digest("hex"), byteSize };
-}
+import {
+  appVersion,
+  heaviestWindowPounds,
+  methodLines,
+  writeOnOneSnapshot,
+  type WorkbookRequest,
+  type WrittenFile,
+} from "./environmental-common.server";
 
 const BOLD = { bold: true };
 const HEADER_FILL: ExcelJS.Fill = { type: "pattern", pattern: "solid", fgColor: { argb: "FFE7EEF0" } };
@@ -391,7 +358,7 @@ function writeSummary(
   const pRange = (key: string) => range("PFAS", letterOf(P, key), ranges.pfas);
   heading("PFAS-containing foam (from the PFAS sheet)");
   const releasedLb = pfas.reduce((total, row) => total + (row.poundsReleased ?? 0), 0);
-  const windowMax = pfas.reduce((max, row) => Math.max(max, row.windowPounds ?? 0), 0);
+  const windowMax = heaviestWindowPounds(pfas);
   const unknown = pfas.some((row) => row.poundsReleased === null);
   add(["Estimated PFAS released (lb)", "", { formula: `SUM(${pRange("releasedLb")})`, result: releasedLb }], (r) => {
     r.getCell(3).numFmt = POUNDS;
@@ -438,57 +405,6 @@ function writeSummary(
   sheet.commit();
 }
 
-export function methodLines(agency: AgencySettings): [string, string][] {
-  return [
-    ["Method and cautions", ""],
-    [
-      "What is counted",
-      "Accepted usage reports whose event started within the period, in the agency's time zone. Reports filed but not yet accepted, and returned reports, are counted on the Summary sheet but not in the totals.",
-    ],
-    [
-      "Who computed the volumes",
-      "Foamtally's server computes water, concentrate and foam solution for every discharge when a report is saved, and stores them; this workbook reads the stored figures. Officers enter flow, duration, percentage and flow basis.",
-    ],
-    [
-      "Flow on a water basis",
-      "The flow figure is water through a direct-injection proportioner, which injects concentrate at water × p: concentrate = water × p; foam solution = water × (1 + p), with p the percentage ÷ 100 (common practice, no source).",
-    ],
-    [
-      "Flow on a foam-solution basis",
-      "The flow figure is foam solution, as nozzle and eductor ratings are stated: concentrate = solution × p; water = solution − concentrate (API RP 2021, 4th ed., Appendix K). Example: 150 gpm × 0.5 % × 20 min = 15 gal concentrate and 2,985 gal water.",
-    ],
-    [
-      "Proportioner limit",
-      "Where flow × p exceeds the proportioner's maximum concentrate rate, the set percentage was not reached: the effective percentage is the maximum rate ÷ flow, shown on the Discharges sheet and used in the volumes.",
-    ],
-    ["Volume", "Duration (min) × flow (gpm). Flows entered in L/min are converted with 1 US gal = 3.785411784 L."],
-    [
-      "Units",
-      `1 US gallon = 231 in³ = ${LITRES_PER_US_GALLON} L exactly; 1 lb = ${GRAMS_PER_POUND} g exactly (NIST Handbook 44, Appendix C). Percentages are by volume.`,
-    ],
-    [
-      "Released volume",
-      "For each runoff disposition the officer gives either a volume of foam solution or a share of the event's foam solution; a share is turned into gallons as share ÷ 100 × the event's foam solution.",
-    ],
-    [
-      "PFAS mass",
-      `Estimated PFAS in the concentrate used = concentrate (L) × the product's PFAS content in g per L (contents in mg/L are divided by 1,000; contents in % w/w assume ${ASSUMED_CONCENTRATE_KG_PER_L} kg per L of concentrate). Released mass = that × the share of the event's foam solution not contained and collected. Events without runoff dispositions count as fully released. Each product's content and its source come from the foam-product catalogue.`,
-    ],
-    [
-      "24-hour threshold",
-      `For each release, the PFAS mass released in the 24 hours starting with it (all PFAS products together) is compared with the agency's reportable threshold of ${agency.pfasReportableLb} lb. Default 1 lb: CERCLA reportable quantity for PFOA and PFOS (40 CFR 302.4; 89 FR 39124), reported under CERCLA §103 and EPCRA §304. The content figures are usually for all PFAS or all fluorosurfactants, not PFOA/PFOS alone, so this check leans high; it does not decide whether a report is owed.`,
-    ],
-    [
-      "Estimates",
-      "Every figure here is an estimate from entered flows, durations and percentages, not a measurement. Concentrate tank drawdowns, where recorded, are compared on each report and differences are flagged as warnings.",
-    ],
-    [
-      "Cautions",
-      "Local codes, permits, state and federal reporting law and licensed professionals govern what must be reported, when and to whom; several states require reports of PFAS foam releases within 24 hours or a few business days. Keep foam concentrate and foam solution out of storm drains and waterways; contain and collect runoff; handle PFAS-containing foam and its runoff as your disposal rules require. Class A concentrates are also harmful to aquatic life.",
-    ],
-  ];
-}
-
 function writeMethod(workbook: ExcelJS.stream.xlsx.WorkbookWriter, agency: AgencySettings) {
   const sheet = workbook.addWorksheet("Method and cautions", sheetOptions("B", false));
   sheet.columns = [{ width: 28 }, { width: 110 }];
@@ -517,43 +433,39 @@ export async function writeEnvironmentalWorkbook(
   path: string,
   connection: Db = db,
 ): Promise<WrittenFile> {
-  await connection.transaction(
-    async (trx) => {
-      const { agency, wall, aggregates, pfas } = await periodFacts(request.period, trx);
-      const changes = request.submission
-        ? await eventsChangedSince(request.period, request.submission.submittedAt, trx)
-        : [];
-      const workbook = new ExcelJS.stream.xlsx.WorkbookWriter({
-        filename: path,
-        useStyles: true,
-        useSharedStrings: false,
-      });
-      workbook.creator = "Foamtally";
-      workbook.created = request.now ?? new Date();
-      const ranges: Ranges = {
-        events: aggregates.eventCount,
-        discharges: aggregates.dischargeCount,
-        releases: aggregates.releaseCount,
-        pfas: pfas.length,
-      };
-      writeSummary(workbook, { agency, request, aggregates, pfas, changes, ranges, wall });
-      const writeTable = <Row>(table: DetailTable<Row>, empty: string) =>
-        writeDetailSheet(workbook, table.sheet, table.columns, table.rows(request.period, trx), empty);
-      await writeTable(eventTable(wall), "No accepted reports in this period.");
-      await writeTable(dischargeTable, "No discharges in this period.");
-      await writeTable(releaseTable(wall), "No runoff recorded in this period.");
-      await writeTable(nonIncidentTable(wall), "No training, test or flush use in this period.");
-      await writeDetailSheet(
-        workbook,
-        "PFAS",
-        pfasColumns(wall, agency.pfasReportableLb),
-        fromArray(pfas),
-        "No PFAS-containing foam was used in this period.",
-      );
-      writeMethod(workbook, agency);
-      await workbook.commit();
-    },
-    { readOnly: true },
-  );
-  return { path, ...(await digestOfFile(path)) };
+  return writeOnOneSnapshot(path, connection, async (trx) => {
+    const { agency, wall, aggregates, pfas } = await periodFacts(request.period, trx);
+    const changes = request.submission
+      ? await eventsChangedSince(request.period, request.submission.submittedAt, trx)
+      : [];
+    const workbook = new ExcelJS.stream.xlsx.WorkbookWriter({
+      filename: path,
+      useStyles: true,
+      useSharedStrings: false,
+    });
+    workbook.creator = "Foamtally";
+    workbook.created = request.now ?? new Date();
+    const ranges: Ranges = {
+      events: aggregates.eventCount,
+      discharges: aggregates.dischargeCount,
+      releases: aggregates.releaseCount,
+      pfas: pfas.length,
+    };
+    writeSummary(workbook, { agency, request, aggregates, pfas, changes, ranges, wall });
+    const writeTable = <Row>(table: DetailTable<Row>, empty: string) =>
+      writeDetailSheet(workbook, table.sheet, table.columns, table.rows(request.period, trx), empty);
+    await writeTable(eventTable(wall), "No accepted reports in this period.");
+    await writeTable(dischargeTable, "No discharges in this period.");
+    await writeTable(releaseTable(wall), "No runoff recorded in this period.");
+    await writeTable(nonIncidentTable(wall), "No training, test or flush use in this period.");
+    await writeDetailSheet(
+      workbook,
+      "PFAS",
+      pfasColumns(wall, agency.pfasReportableLb),
+      fromArray(pfas),
+      "No PFAS-containing foam was used in this period.",
+    );
+    writeMethod(workbook, agency);
+    await workbook.commit();
+  });
 }

@@ -1,35 +1,26 @@
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/environmental";
 import { requireCapability } from "~/lib/access.server";
-import { db } from "~/lib/db.server";
 import { roundForDisplay } from "~/lib/foam/units";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress } from "~/lib/http.server";
-import { localDateTime, parseReportPeriod, periodQuery, type ReportPeriod } from "~/lib/reporting/period";
+import {
+  lastCompleteQuarter,
+  localDateTime,
+  parseReportPeriod,
+  periodQuery,
+  type ReportPeriod,
+} from "~/lib/reporting/period";
 import { can } from "~/lib/access";
 import { flashHeaders } from "~/lib/session.server";
 import { FOAM_CLASS_LABELS } from "~/lib/foam/vocabulary";
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { eventsChangedSince, periodAggregates, pfasRows } from "~/models/environmental-report.server";
-import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
-import {
-  latestSubmissionFor,
-  listSubmissions,
-  recordSubmission,
-  submissionFile,
-} from "~/models/quarterly-submission.server";
-import { NoRecipientsError, queueQuarterlyWorkbookMail } from "~/models/report-notifications.server";
-import { generatedContent, withGeneratedFile, workbookRequestFor } from "~/exports/environmental-files.server";
+import { latestSubmissionFor, listSubmissions } from "~/models/quarterly-submission.server";
+import { heaviestWindowPounds } from "~/exports/environmental-common.server";
+import { sendQuarterWorkbook, submitQuarter } from "~/exports/environmental-delivery.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Quarterly runoff and PFAS summary · Foamtally" }];
-
-function lastCompleteQuarter(now: Date, timeZone: string): URLSearchParams {
-  const [year, month] = localDateTime(now, timeZone).split("-").map(Number);
-  const current = Math.floor((month - 1) / 3) + 1;
-  return current === 1
-    ? new URLSearchParams({ year: String(year - 1), quarter: "4" })
-    : new URLSearchParams({ year: String(year), quarter: String(current - 1) });
-}
 
 const PERIOD_FIELDS = ["year", "quarter", "from", "to"];
 
@@ -68,7 +59,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const changes = submission ? await eventsChangedSince(period, submission.submittedAt) : [];
   const concentrateBy = (foamClass: string) =>
     aggregates.byClass.filter((row) => row.foamClass === foamClass).reduce((total, row) => total + row.concentrate, 0);
-  const heaviest = pfas.reduce((max, row) => Math.max(max, row.windowPounds ?? 0), 0);
+  const heaviest = heaviestWindowPounds(pfas);
   return data(
     {
       periodError,
@@ -117,28 +108,13 @@ export async function action({ request }: Route.ActionArgs) {
   if (!parsed.ok) return data({ error: parsed.message }, { status: 400 });
   const period = parsed.period;
   const back = `/environmental?${periodQuery(period)}`;
+  const actor = { user, clientAddress: clientAddress(request) };
   if (intent === "submit") {
     const note =
       String(formData.get("note") ?? "")
         .trim()
         .slice(0, 2000) || null;
-    const workbookRequest = { ...(await workbookRequestFor(period, user)), submission: null };
-    const aggregates = await periodAggregates(period);
-    const file = await withGeneratedFile("xlsx", workbookRequest, async (written) => {
-      await recordSubmission({
-        period,
-        filePath: written.path,
-        fileName: written.fileName,
-        contentType: written.contentType,
-        sha256: written.sha256,
-        byteSize: written.byteSize,
-        acceptedReports: aggregates.eventCount,
-        note,
-        actor: user,
-        clientAddress: clientAddress(request),
-      });
-      return written;
-    });
+    const file = await submitQuarter(period, note, actor);
     throw redirect(back, {
       headers: await flashHeaders(
         request,
@@ -147,41 +123,13 @@ export async function action({ request }: Route.ActionArgs) {
     });
   }
   if (intent === "send") {
-    const submission = await latestSubmissionFor(period);
-    const stored = submission ? await submissionFile(submission.id) : null;
-    try {
-      const queue = async (fileName: string, content: Buffer, sha256: string) =>
-        db.transaction((trx) =>
-          queueQuarterlyWorkbookMail(
-            {
-              periodLabel: period.label,
-              fileName,
-              content,
-              sha256,
-              submissionId: submission?.id ?? null,
-              sentBy: user,
-              clientAddress: clientAddress(request),
-            },
-            trx,
-          ),
-        );
-      if (stored) {
-        await queue(stored.fileName, stored.content, stored.sha256);
-      } else {
-        await withGeneratedFile("xlsx", await workbookRequestFor(period, user), async (written) =>
-          queue(written.fileName, await generatedContent(written.path), written.sha256),
-        );
-      }
-    } catch (error) {
-      if (error instanceof NoRecipientsError) {
-        return data(
-          { error: "No report recipients are set. An administrator sets them in the agency settings." },
-          { status: 400 },
-        );
-      }
-      throw error;
+    const sent = await sendQuarterWorkbook(period, actor);
+    if (!sent.ok) {
+      return data(
+        { error: "No report recipients are set. An administrator sets them in the agency settings." },
+        { status: 400 },
+      );
     }
-    deliverPendingMailSoon();
     throw redirect(back, {
       headers: await flashHeaders(
         request,

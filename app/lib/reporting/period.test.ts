@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { parseReportPeriod, startOfLocalDay } from "./period";
+import { lastCompleteQuarter, parseReportPeriod, startOfLocalDay } from "./period";
 
 const parse = (query: string) => parseReportPeriod(new URLSearchParams(query), "America/Chicago");
 
@@ -41,5 +41,23 @@ describe("report periods", () => {
     const result = parse(query);
     expect(result.ok).toBe(false);
     if (!result.ok) expect(result.message).toMatch(message);
+  });
+});
+
+describe("the last complete quarter", () => {
+  it("is the quarter before the one the agency's calendar is in", () => {
+    expect(lastCompleteQuarter(new Date("2026-08-15T12:00:00Z"), "America/Chicago").toString()).toBe(
+      "year=2026&quarter=2",
+    );
+  });
+
+  it("reads the date in the agency's zone, so New Year's Eve evening in Chicago is still Q4", () => {
+    // 2027-01-01 03:00 UTC is 2026-12-31 21:00 in Chicago (UTC−6): the last complete quarter is 2026 Q3.
+    expect(lastCompleteQuarter(new Date("2027-01-01T03:00:00Z"), "America/Chicago").toString()).toBe(
+      "year=2026&quarter=3",
+    );
+    expect(lastCompleteQuarter(new Date("2027-01-01T07:00:00Z"), "America/Chicago").toString()).toBe(
+      "year=2026&quarter=4",
+    );
   });
 });

@@ -142,3 +142,12 @@ export function wallClockIn(timeZone: string): (instant: Date | null) => Date | 
     return new Date(Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"), get("second")));
   };
 }
+
+/** The query of the last quarter that has fully ended at `now` in the agency's time zone. */
+export function lastCompleteQuarter(now: Date, timeZone: string): URLSearchParams {
+  const [year, month] = localDateTime(now, timeZone).split("-").map(Number);
+  const current = Math.floor((month - 1) / 3) + 1;
+  return current === 1
+    ? new URLSearchParams({ year: String(year - 1), quarter: "4" })
+    : new URLSearchParams({ year: String(year), quarter: String(current - 1) });
+}
