@@ -5,7 +5,7 @@ import { ZipArchive } from "archiver";
 import { csvLine } from "~/lib/csv";
 import { db, type Db } from "~/lib/db.server";
 import { gallonsToLitres } from "~/lib/foam/units";
-import { localDateTime } from "~/lib/reporting/period";
+import { localDateTime } from "~/lib/time-zone";
 import { DISPOSITION_LABELS, DISPOSITIONS, EVENT_KIND_LABELS, EVENT_KINDS } from "~/lib/foam/vocabulary";
 import { periodFacts } from "~/models/environmental-report.server";
 import {

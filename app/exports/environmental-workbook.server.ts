@@ -1,7 +1,7 @@
 import ExcelJS from "exceljs";
 import { db, type Db } from "~/lib/db.server";
 import { LITRES_PER_US_GALLON } from "~/lib/foam/units";
-import { localDateTime, wallClockIn } from "~/lib/reporting/period";
+import { localDateTime, wallClockIn } from "~/lib/time-zone";
 import {
   DISPOSITION_LABELS,
   DISPOSITIONS,

@@ -4,18 +4,30 @@
  * data (Intl), daylight-saving changes included.
  */
 
+const formatters = new Map<string, Intl.DateTimeFormat>();
+
+/** One formatter per zone: making one costs far more than using it, and exports convert every row. */
+function formatterFor(timeZone: string): Intl.DateTimeFormat {
+  let format = formatters.get(timeZone);
+  if (!format) {
+    format = new Intl.DateTimeFormat("en-US", {
+      timeZone,
+      hourCycle: "h23",
+      year: "numeric",
+      month: "2-digit",
+      day: "2-digit",
+      hour: "2-digit",
+      minute: "2-digit",
+      second: "2-digit",
+    });
+    formatters.set(timeZone, format);
+  }
+  return format;
+}
+
 /** Offset of `timeZone` from UTC at `instant`, in minutes (positive east of Greenwich). */
 export function zoneOffsetMinutes(instant: Date, timeZone: string): number {
-  const parts = new Intl.DateTimeFormat("en-US", {
-    timeZone,
-    hourCycle: "h23",
-    year: "numeric",
-    month: "2-digit",
-    day: "2-digit",
-    hour: "2-digit",
-    minute: "2-digit",
-    second: "2-digit",
-  }).formatToParts(instant);
+  const parts = formatterFor(timeZone).formatToParts(instant);
   const get = (type: string) => Number(parts.find((part) => part.type === type)?.value);
   const asUtc = Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"), get("second"));
   return Math.round((asUtc - instant.getTime()) / 60_000);
@@ -43,4 +55,36 @@ export function instantToWallClock(instant: Date | string | null | undefined, ti
   if (Number.isNaN(date.getTime())) return "";
   const shifted = new Date(date.getTime() + zoneOffsetMinutes(date, timeZone) * 60_000);
   return shifted.toISOString().slice(0, 16);
+}
+
+/** The UTC instant of local midnight at the start of `day` ("YYYY-MM-DD") in `timeZone`. */
+export function startOfLocalDay(day: string, timeZone: string): Date {
+  const instant = wallClockToInstant(`${day}T00:00`, timeZone);
+  if (!instant) throw new RangeError(`Not a day: ${day}`);
+  return instant;
+}
+
+/** The first instant after `day` ("YYYY-MM-DD") in `timeZone`: local midnight of the next day, as UTC. */
+export function endOfLocalDay(day: string, timeZone: string): Date {
+  const next = new Date(`${day}T00:00:00Z`);
+  next.setUTCDate(next.getUTCDate() + 1);
+  return startOfLocalDay(next.toISOString().slice(0, 10), timeZone);
+}
+
+/** How the agency's clocks showed `instant`, as "YYYY-MM-DD HH:MM" for a page, a mail or a file. */
+export function localDateTime(instant: Date, timeZone: string): string {
+  return instantToWallClock(instant, timeZone).replace("T", " ");
+}
+
+/**
+ * A converter from instants to the agency's wall-clock time, as a Date whose UTC fields hold the
+ * local date and time to the second: spreadsheet cells have no time zone, so they show these fields
+ * as they are.
+ */
+export function wallClockIn(timeZone: string): (instant: Date | null) => Date | null {
+  return (instant) => {
+    if (!instant) return null;
+    const shifted = instant.getTime() + zoneOffsetMinutes(instant, timeZone) * 60_000;
+    return new Date(Math.floor(shifted / 1000) * 1000);
+  };
 }

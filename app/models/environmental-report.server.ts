@@ -20,7 +20,8 @@ import {
   type FlowBasis,
   type FoamType,
 } from "~/lib/foam/vocabulary";
-import { wallClockIn, type ReportPeriod } from "~/lib/reporting/period";
+import type { ReportPeriod } from "~/lib/reporting/period";
+import { wallClockIn } from "~/lib/time-zone";
 import { agencyNameForDocuments, readAgencySettings } from "./agency-settings.server";
 
 export const NOT_PLACED = "(not placed)";

@@ -16,7 +16,7 @@ import {
   type FoamClass,
 } from "~/lib/foam/vocabulary";
 import { readStoredDraft } from "~/lib/foam/report-draft.server";
-import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
+import { endOfLocalDay, instantToWallClock, startOfLocalDay } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
 import { checksOfRow } from "./geography.server";
 
@@ -271,18 +271,12 @@ export function parseEventFilters(search: URLSearchParams): { filters: EventFilt
   return { filters, errors };
 }
 
-function dayAfter(day: string): string {
-  const date = new Date(`${day}T00:00:00Z`);
-  date.setUTCDate(date.getUTCDate() + 1);
-  return date.toISOString().slice(0, 10);
-}
-
 /** Dates in the filters are the agency's calendar days, first and last inclusive. */
 function filteredEvents(user: SessionUser, filters: EventFilters, timeZone: string): Knex.QueryBuilder {
   const query = db("events").leftJoin("stations", "stations.id", "events.station_id");
   query.where((visible) => visible.whereNot("events.status", "draft").orWhere("events.created_by", user.id));
-  if (filters.from) query.where("events.started_at", ">=", wallClockToInstant(`${filters.from}T00:00`, timeZone)!);
-  if (filters.to) query.where("events.started_at", "<", wallClockToInstant(`${dayAfter(filters.to)}T00:00`, timeZone)!);
+  if (filters.from) query.where("events.started_at", ">=", startOfLocalDay(filters.from, timeZone));
+  if (filters.to) query.where("events.started_at", "<", endOfLocalDay(filters.to, timeZone));
   if (filters.kind) query.where("events.kind", filters.kind);
   if (filters.status) query.where("events.status", filters.status);
   if (filters.stationId) query.where("events.station_id", filters.stationId);

@@ -15,7 +15,7 @@ import {
   type EventKind,
 } from "~/lib/foam/vocabulary";
 import { XLSX_TYPE } from "~/lib/reporting/files";
-import { localDateTime } from "~/lib/reporting/period";
+import { localDateTime } from "~/lib/time-zone";
 import { agencyNameForDocuments, readAgencySettings } from "./agency-settings.server";
 import { queueMail } from "./mail-outbox.server";
 

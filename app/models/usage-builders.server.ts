@@ -147,26 +147,6 @@ export function productRow(spec: ProductSpec) {
   };
 }
 
-export function productFactsOf(id: number, spec: ProductSpec): ProductFacts {
-  return {
-    id,
-    name: spec.name,
-    foamClass: spec.foamClass,
-    nominalPercents: spec.nominalPercents,
-    pfasContaining: spec.pfasContaining ?? false,
-  };
-}
-
-export function apparatusFactsOf(id: number, spec: ApparatusSpec): ApparatusFacts {
-  return {
-    id,
-    unitId: spec.unitId,
-    proportionerMaxConcentrateGpm: spec.proportionerMaxConcentrateGpm ?? null,
-    waterFlowMinGpm: spec.waterFlowMinGpm ?? null,
-    waterFlowMaxGpm: spec.waterFlowMaxGpm ?? null,
-  };
-}
-
 export type EventSpec = ReportLines & {
   number: string;
   kind: EventKind;

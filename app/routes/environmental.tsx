@@ -4,13 +4,8 @@ import { requireCapability } from "~/lib/access.server";
 import { roundForDisplay } from "~/lib/foam/units";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress } from "~/lib/http.server";
-import {
-  lastCompleteQuarter,
-  localDateTime,
-  parseReportPeriod,
-  periodQuery,
-  type ReportPeriod,
-} from "~/lib/reporting/period";
+import { lastCompleteQuarter, parseReportPeriod, periodQuery, type ReportPeriod } from "~/lib/reporting/period";
+import { localDateTime } from "~/lib/time-zone";
 import { can } from "~/lib/access";
 import { flashHeaders } from "~/lib/session.server";
 import { FOAM_CLASS_LABELS } from "~/lib/foam/vocabulary";

@@ -24,7 +24,7 @@ import {
 } from "~/lib/foam/vocabulary";
 import { mapQuery, parseMapFilters, type BoundingBox } from "~/lib/geo/map-filters";
 import { httpError, rethrowDatabaseDown } from "~/lib/http.server";
-import { localDateTime } from "~/lib/reporting/period";
+import { localDateTime } from "~/lib/time-zone";
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { listStations, usageSummary, type UsageSummary } from "~/models/usage-map.server";
 

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { APPLICATION_METHODS, FLOW_BASES } from "../foam/vocabulary";
+import { checkbox, optionalNumber } from "./form-fields";
 
 /** A decimal-degree coordinate, blank for none. */
 const coordinate = (label: string, limit: number) =>
@@ -12,30 +13,6 @@ const coordinate = (label: string, limit: number) =>
       const number = Number(value);
       if (!Number.isFinite(number) || number < -limit || number > limit) {
         ctx.addIssue({ code: "custom", message: `${label} is a number from -${limit} to ${limit}.` });
-        return z.NEVER;
-      }
-      return number;
-    });
-
-const checkbox = z.preprocess((value) => value === "on" || value === "true", z.boolean());
-
-const optionalNumber = (label: string, { max = 1_000_000, positive = false } = {}) =>
-  z
-    .string()
-    .trim()
-    .optional()
-    .transform((value, ctx) => {
-      if (!value) return null;
-      const number = Number(value);
-      if (!Number.isFinite(number) || number < 0 || (positive && number === 0)) {
-        ctx.addIssue({
-          code: "custom",
-          message: `${label} must be a number ${positive ? "above zero" : "of zero or more"}.`,
-        });
-        return z.NEVER;
-      }
-      if (number > max) {
-        ctx.addIssue({ code: "custom", message: `${label} is at most ${max.toLocaleString("en-US")}.` });
         return z.NEVER;
       }
       return number;

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { FOAM_CLASSES, FOAM_TYPES, PFAS_CONTENT_UNITS } from "../foam/vocabulary";
+import { checkbox, optionalNumber, optionalText } from "./form-fields";
 
 /** Largest safety sheet accepted, in bytes. */
 export const SAFETY_SHEET_MAX_BYTES = 10 * 1024 * 1024;
@@ -14,35 +15,6 @@ export function parseNominalPercents(text: string): number[] | null {
   if (values.some((value) => !Number.isFinite(value) || value <= 0 || value >= 100)) return null;
   return [...new Set(values)].sort((a, b) => a - b);
 }
-
-export function formatNominalPercents(values: number[]): string {
-  return values.join(", ");
-}
-
-const optionalText = (max: number, label: string) =>
-  z
-    .string()
-    .trim()
-    .max(max, `${label} has at most ${max} characters.`)
-    .optional()
-    .transform((value) => value || null);
-
-const optionalNonNegative = (label: string) =>
-  z
-    .string()
-    .trim()
-    .optional()
-    .transform((value, ctx) => {
-      if (!value) return null;
-      const number = Number(value);
-      if (!Number.isFinite(number) || number < 0) {
-        ctx.addIssue({ code: "custom", message: `${label} must be a number of zero or more.` });
-        return z.NEVER;
-      }
-      return number;
-    });
-
-const checkbox = z.preprocess((value) => value === "on" || value === "true", z.boolean());
 
 export const ProductFormSchema = z
   .object({
@@ -69,11 +41,11 @@ export const ProductFormSchema = z
         return parsed;
       }),
     pfasContaining: checkbox,
-    pfasContent: optionalNonNegative("The PFAS content"),
+    pfasContent: optionalNumber("The PFAS content", { max: Infinity }),
     pfasContentUnit: z.enum(PFAS_CONTENT_UNITS, { error: "Choose a unit for the PFAS content." }).optional(),
     pfasContentBasis: optionalText(2000, "The basis"),
     pfasContentSource: optionalText(2000, "The source"),
-    unitCostPerGal: optionalNonNegative("The unit cost"),
+    unitCostPerGal: optionalNumber("The unit cost", { max: Infinity }),
     active: checkbox,
     notes: optionalText(4000, "The notes"),
     safetySheet: z

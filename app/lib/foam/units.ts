@@ -32,7 +32,3 @@ export function roundForDisplay(value: number, places = 2): number {
   const factor = 10 ** places;
   return Math.round((value + Number.EPSILON * Math.sign(value)) * factor) / factor;
 }
-
-export function gramsToPounds(grams: number): number {
-  return grams / GRAMS_PER_POUND;
-}

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { lastCompleteQuarter, parseReportPeriod, startOfLocalDay } from "./period";
+import { startOfLocalDay } from "../time-zone";
+import { lastCompleteQuarter, parseReportPeriod } from "./period";
 
 const parse = (query: string) => parseReportPeriod(new URLSearchParams(query), "America/Chicago");
 

@@ -1,4 +1,4 @@
-import { zoneOffsetMinutes } from "../time-zone";
+import { endOfLocalDay, localDateTime, startOfLocalDay } from "../time-zone";
 /** A reporting period: calendar days in the agency's time zone, first and last day inclusive. */
 export type ReportPeriod = {
   from: string;
@@ -27,36 +27,6 @@ function validDate(value: string): boolean {
   const [year, month, day] = [Number(match[1]), Number(match[2]), Number(match[3])];
   const date = new Date(Date.UTC(year, month - 1, day));
   return date.getUTCFullYear() === year && date.getUTCMonth() === month - 1 && date.getUTCDate() === day;
-}
-
-function nextDay(value: string): string {
-  const date = new Date(`${value}T00:00:00Z`);
-  date.setUTCDate(date.getUTCDate() + 1);
-  return date.toISOString().slice(0, 10);
-}
-
-/** The UTC instant of local midnight at the start of `day` in `timeZone`. */
-export function startOfLocalDay(day: string, timeZone: string): Date {
-  const guess = new Date(`${day}T00:00:00Z`);
-  let instant = new Date(guess.getTime() - zoneOffsetMinutes(guess, timeZone) * 60_000);
-  // Once more, in case the first guess fell on the other side of a daylight-saving change.
-  instant = new Date(guess.getTime() - zoneOffsetMinutes(instant, timeZone) * 60_000);
-  return instant;
-}
-
-/** A local wall-clock rendering of an instant, "YYYY-MM-DD HH:MM", in `timeZone`. */
-export function localDateTime(instant: Date, timeZone: string): string {
-  const parts = new Intl.DateTimeFormat("en-CA", {
-    timeZone,
-    hourCycle: "h23",
-    year: "numeric",
-    month: "2-digit",
-    day: "2-digit",
-    hour: "2-digit",
-    minute: "2-digit",
-  }).formatToParts(instant);
-  const get = (type: string) => parts.find((part) => part.type === type)?.value ?? "";
-  return `${get("year")}-${get("month")}-${get("day")} ${get("hour")}:${get("minute")}`;
 }
 
 export function quarterDays(year: number, quarter: number): { from: string; to: string } {
@@ -109,7 +79,7 @@ export function parseReportPeriod(params: URLSearchParams, timeZone: string): Pe
       year: yearNumber,
       quarter: quarterNumber,
       startUtc: startOfLocalDay(days.from, timeZone),
-      endUtc: startOfLocalDay(nextDay(days.to), timeZone),
+      endUtc: endOfLocalDay(days.to, timeZone),
     },
   };
 }
@@ -118,29 +88,6 @@ export function periodQuery(period: Pick<ReportPeriod, "from" | "to" | "year" | 
   return period.year !== null && period.quarter !== null
     ? `year=${period.year}&quarter=${period.quarter}`
     : `from=${period.from}&to=${period.to}`;
-}
-
-/**
- * A converter from instants to the agency's wall-clock time, as a Date whose UTC fields hold the
- * local date and time: spreadsheet cells have no time zone, so they show these fields as they are.
- */
-export function wallClockIn(timeZone: string): (instant: Date | null) => Date | null {
-  const format = new Intl.DateTimeFormat("en-US", {
-    timeZone,
-    hourCycle: "h23",
-    year: "numeric",
-    month: "2-digit",
-    day: "2-digit",
-    hour: "2-digit",
-    minute: "2-digit",
-    second: "2-digit",
-  });
-  return (instant) => {
-    if (!instant) return null;
-    const parts = format.formatToParts(instant);
-    const get = (type: string) => Number(parts.find((part) => part.type === type)?.value);
-    return new Date(Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"), get("second")));
-  };
 }
 
 /** The query of the last quarter that has fully ended at `now` in the agency's time zone. */
