@@ -8,7 +8,7 @@ import os from "node:os";
 import path from "node:path";
 
 if (existsSync(".env")) process.loadEnvFile(".env");
-const { benchDatabaseName, dropBenchDatabase, freshBenchDatabase } = await import("./bench-database");
+const { benchDatabaseName, dropBenchDatabase, freshBenchDatabase } = await import("./throwaway-database");
 const BENCH_DB = benchDatabaseName("foamtally_bench_env");
 
 const SIZES = [

@@ -9,7 +9,7 @@ import { performance } from "node:perf_hooks";
 import { gzipSync } from "node:zlib";
 
 if (existsSync(".env")) process.loadEnvFile(".env");
-const { benchDatabaseName, freshBenchDatabase } = await import("./bench-database");
+const { benchDatabaseName, freshBenchDatabase } = await import("./throwaway-database");
 const BENCH_DB = benchDatabaseName("foamtally_bench_map");
 process.env.DB_NAME = BENCH_DB;
 const EVENTS = Number(process.env.BENCH_MAP_EVENTS ?? 20_000);

@@ -11,7 +11,7 @@ import path from "node:path";
 import { performance } from "node:perf_hooks";
 
 if (existsSync(".env")) process.loadEnvFile(".env");
-const { benchDatabaseName, dropBenchDatabase, freshBenchDatabase } = await import("./bench-database");
+const { benchDatabaseName, dropBenchDatabase, freshBenchDatabase } = await import("./throwaway-database");
 const BENCH_DB = benchDatabaseName("foamtally_bench_form");
 process.env.DB_NAME = BENCH_DB;
 process.env.NODE_ENV = "production";

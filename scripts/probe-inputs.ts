@@ -8,6 +8,7 @@
 import { existsSync } from "node:fs";
 import fc from "fast-check";
 import knexFactory, { type Knex } from "knex";
+import type { Role } from "../app/lib/access";
 
 export type ProbeSummary = {
   endpoint: string;
@@ -17,11 +18,10 @@ export type ProbeSummary = {
   partialRows: { status: number; input: string; changed: string[] }[];
 };
 
-type Role = "officer" | "environmental" | "chief" | "admin" | null;
 type Body = { label: string; contentType?: string; body?: string | FormData | Uint8Array<ArrayBuffer> };
 type Endpoint = {
   path: string;
-  role: Role;
+  role: ProbeRole | null;
   /** Field names the form knows; the generator mixes them with junk. */
   fields: string[];
   /** Sent first, so that no generated input can succeed where success would change shared data. */
@@ -33,12 +33,14 @@ type Endpoint = {
 };
 
 const DEMO_PASSWORD = "demo-password";
-const ACCOUNTS: Record<Exclude<Role, null>, string> = {
+/** The demo accounts the probe signs in as (the roles its endpoints need). */
+const ACCOUNTS = {
   officer: "officer2@alderbend.example",
   environmental: "enviro@alderbend.example",
   chief: "chief@alderbend.example",
   admin: "admin@alderbend.example",
-};
+} satisfies Partial<Record<Role, string>>;
+type ProbeRole = keyof typeof ACCOUNTS;
 
 /** Rows a refused request must never add, remove or leave half-written. */
 const WATCHED_TABLES = [
@@ -393,8 +395,8 @@ export async function probeInputs(options: {
   });
   const log = options.log ?? (() => {});
   try {
-    const cookies = new Map<Role, string>();
-    for (const role of Object.keys(ACCOUNTS) as Exclude<Role, null>[]) {
+    const cookies = new Map<ProbeRole | null, string>();
+    for (const role of Object.keys(ACCOUNTS) as ProbeRole[]) {
       cookies.set(role, await signIn(options.base, ACCOUNTS[role]));
     }
     const draft = await fetch(`${options.base}/events/new`, {

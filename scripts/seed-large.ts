@@ -13,6 +13,7 @@ import {
   type EventSpec,
 } from "../app/models/usage-builders.server";
 import { demoIds, routineEvent } from "../seeds/03_events";
+import { createDatabaseIfMissing } from "./throwaway-database";
 
 function option(name: string): string | undefined {
   const index = process.argv.indexOf(`--${name}`);
@@ -38,16 +39,7 @@ if (database === "foamtally" && !force) {
 }
 
 const started = performance.now();
-{
-  const connection = { ...(knexConfig.connection as Knex.MySqlConnectionConfig) };
-  delete connection.database;
-  const server = knexFactory({ ...knexConfig, connection });
-  try {
-    await server.raw(`CREATE DATABASE IF NOT EXISTS \`${database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
-  } finally {
-    await server.destroy();
-  }
-}
+await createDatabaseIfMissing(database);
 const knex = knexFactory(knexConfig);
 try {
   await knex.migrate.latest();

@@ -7,7 +7,7 @@ import {
   type ApparatusSpec,
   type ProductSpec,
   type StationSpec,
-} from "../app/models/usage-builders.server";
+} from "../app/models/catalogue-rows.server";
 import { DEMO_ACCOUNTS } from "./01_agency_and_accounts";
 
 // Demo data only: the invented Alder Bend Fire District, its stations, apparatus and invented products.

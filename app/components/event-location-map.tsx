@@ -1,12 +1,10 @@
 import type { Map as MapLibreMap, Marker } from "maplibre-gl";
 import { useEffect, useId, useRef, useState } from "react";
 import type { AddressMatch } from "~/lib/geo/addresses";
-import type { GeographyChecks } from "~/lib/geo/checks";
+import type { LocationCheck } from "~/lib/geo/checks";
 import { isValidLatLon } from "~/lib/geo/coordinates";
 import { basemapStyle, DISTRICT_CENTER } from "~/lib/geo/map-style";
 import { loadMapLibre } from "./maplibre-loader";
-
-export type LocationChecks = GeographyChecks & { waterwayBufferM: number; layersMissing: string[] };
 
 export type DischargePoint = { key: string; label: string; latitude: number | null; longitude: number | null };
 
@@ -65,7 +63,7 @@ export function EventLocationMap({
   const markerRef = useRef<Marker | null>(null);
   const [latitude, setLatitude] = useState(toText(defaultLatitude));
   const [longitude, setLongitude] = useState(toText(defaultLongitude));
-  const [checks, setChecks] = useState<LocationChecks | null>(null);
+  const [checks, setChecks] = useState<LocationCheck | null>(null);
   const [checkState, setCheckState] = useState<"idle" | "loading" | "failed">("idle");
   const [mapState, setMapState] = useState<"loading" | "ready" | "failed">("loading");
   const [query, setQuery] = useState("");
@@ -164,7 +162,7 @@ export function EventLocationMap({
       })
         .then(async (response) => {
           if (!response.ok) throw new Error(String(response.status));
-          setChecks((await response.json()) as LocationChecks);
+          setChecks((await response.json()) as LocationCheck);
           setCheckState("idle");
         })
         .catch((error: unknown) => {
@@ -363,7 +361,7 @@ export function LocationCheckPanel({
   state,
   placed,
 }: {
-  checks: LocationChecks | null;
+  checks: LocationCheck | null;
   state: "idle" | "loading" | "failed";
   placed: boolean;
 }) {

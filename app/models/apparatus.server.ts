@@ -4,6 +4,7 @@ import type { ApparatusFormValue, StationFormValue } from "~/lib/catalogue/appar
 import { StaleRecordError } from "~/lib/catalogue/record-version";
 import { decimalOrNull } from "~/lib/decimal";
 import { db } from "~/lib/db.server";
+import { apparatusRow, outletRow, stationRow } from "./catalogue-rows.server";
 import type { OutletDefaults } from "./catalogue.server";
 
 export type StationRecord = {
@@ -131,14 +132,7 @@ export async function saveStation(
       })
       .first("id");
     if (clash) throw new DuplicateCodeError(value.code);
-    const columns = {
-      code: value.code,
-      name: value.name,
-      address: value.address,
-      latitude: value.latitude,
-      longitude: value.longitude,
-      active: value.active,
-    };
+    const columns = stationRow(value);
     let before: StationRecord | undefined;
     let savedId: number;
     if (id == null) {
@@ -196,17 +190,7 @@ export async function saveApparatus(
     if (value.stationId != null && !(await trx("stations").where({ id: value.stationId }).first("id"))) {
       throw new UnknownStationError(String(value.stationId));
     }
-    const columns = {
-      unit_id: value.unitId,
-      description: value.description,
-      station_id: value.stationId ?? null,
-      concentrate_tank_gal: value.concentrateTankGal,
-      proportioner_max_concentrate_gpm: value.proportionerMaxConcentrateGpm,
-      water_flow_min_gpm: value.waterFlowMinGpm,
-      water_flow_max_gpm: value.waterFlowMaxGpm,
-      compressed_air_cfm: value.compressedAirCfm,
-      active: value.active,
-    };
+    const columns = apparatusRow(value);
     let before: ApparatusRecord | null = null;
     let savedId: number;
     if (id == null) {
@@ -221,16 +205,7 @@ export async function saveApparatus(
       savedId = id;
     }
     if (value.outlets.length) {
-      await trx("apparatus_outlets").insert(
-        value.outlets.map((outlet) => ({
-          apparatus_id: savedId,
-          name: outlet.name,
-          foam_capable: outlet.foamCapable,
-          default_flow_gpm: outlet.defaultFlowGpm,
-          default_flow_basis: outlet.defaultFlowBasis,
-          default_method: outlet.defaultMethod ?? null,
-        })),
-      );
+      await trx("apparatus_outlets").insert(value.outlets.map((outlet) => outletRow(savedId, outlet)));
     }
     await recordAudit(
       {

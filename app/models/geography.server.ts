@@ -12,6 +12,7 @@ import {
   waterwayBufferArea,
   type GeographyChecks,
   type GeographyLayers,
+  type LocationCheck,
 } from "~/lib/geo/checks";
 import { LAYER_KINDS, LAYER_RULES, validateLayer, type LayerKind } from "~/lib/geo/layers";
 import { readAgencySettings } from "./agency-settings.server";
@@ -62,8 +63,6 @@ export async function waterwayBufferMetres(connection: Db = db): Promise<number>
   const { waterwayBufferM } = await readAgencySettings(connection);
   return waterwayBufferM > 0 ? waterwayBufferM : DEFAULT_WATERWAY_BUFFER_M;
 }
-
-export type LocationCheck = GeographyChecks & { waterwayBufferM: number; layersMissing: LayerKind[] };
 
 /** The checks for a point that is not (yet) saved — what the form shows as soon as a point is set. */
 export async function checkPoint(latitude: number, longitude: number, connection: Db = db): Promise<LocationCheck> {

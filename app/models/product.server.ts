@@ -7,6 +7,7 @@ import { decimalOrNull } from "~/lib/decimal";
 import { db } from "~/lib/db.server";
 import type { FoamClass, FoamType, PfasContentUnit } from "~/lib/foam/vocabulary";
 import { deleteObjectQuietly, putObject } from "~/lib/storage.server";
+import { productColumns } from "./catalogue-rows.server";
 import { nominalPercentsOf } from "./catalogue.server";
 
 export type ProductRecord = {
@@ -71,24 +72,6 @@ export async function getSafetySheetKey(id: number): Promise<{ key: string; name
 
 export class DuplicateProductNameError extends Error {}
 
-function columnsOf(value: ProductFormValue) {
-  return {
-    name: value.name,
-    maker: value.maker ?? "",
-    foam_class: value.foamClass,
-    foam_type: value.foamType,
-    nominal_percents: value.nominalPercents.join(","),
-    pfas_containing: value.pfasContaining,
-    pfas_content: value.pfasContent,
-    pfas_content_unit: value.pfasContent == null ? null : (value.pfasContentUnit ?? null),
-    pfas_content_basis: value.pfasContentBasis,
-    pfas_content_source: value.pfasContentSource,
-    unit_cost_per_gal: value.unitCostPerGal,
-    active: value.active,
-    notes: value.notes,
-  };
-}
-
 export type SafetySheetUpload = { name: string; contentType: string; body: Uint8Array };
 
 /**
@@ -125,7 +108,7 @@ export async function saveProduct(
         .first("id");
       if (clash) throw new DuplicateProductNameError(value.name);
       const columns = {
-        ...columnsOf(value),
+        ...productColumns(value),
         ...(sheetKey ? { safety_sheet_key: sheetKey, safety_sheet_name: safetySheet!.name } : {}),
       };
       let savedId: number;

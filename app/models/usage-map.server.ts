@@ -9,6 +9,7 @@ import {
   type EventKind,
   type FoamClass,
 } from "~/lib/foam/vocabulary";
+import type { GeographyChecks } from "~/lib/geo/checks";
 import type { MapFilters } from "~/lib/geo/map-filters";
 
 /** Reports still in draft are the officer's work in progress and stay off the map and totals. */
@@ -56,12 +57,8 @@ export type MapEventProperties = {
   solutionGal: number;
   classAConcentrateGal: number;
   classBConcentrateGal: number;
-  drainageBasin: string | null;
-  nearestWaterway: string | null;
-  nearestWaterwayM: number | null;
-  withinWaterwayBuffer: boolean | null;
   url: string;
-};
+} & Pick<GeographyChecks, "drainageBasin" | "nearestWaterway" | "nearestWaterwayM" | "withinWaterwayBuffer">;
 
 export type MapEventCollection = {
   type: "FeatureCollection";

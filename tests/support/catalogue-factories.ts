@@ -9,7 +9,7 @@ import {
   stationRow,
   type ApparatusSpec,
   type ProductSpec,
-} from "~/models/usage-builders.server";
+} from "~/models/catalogue-rows.server";
 
 const unique = () => randomUUID().slice(0, 6);
 

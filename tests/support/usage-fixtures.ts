@@ -4,7 +4,8 @@
 import { randomUUID } from "node:crypto";
 import type { Knex } from "knex";
 import { db } from "~/lib/db.server";
-import type { EventKind, EventStatus, FlowBasis, FoamClass, PfasContentUnit } from "~/lib/foam/vocabulary";
+import type { EventKind, EventStatus, FlowBasis, FoamClass, FoamType, PfasContentUnit } from "~/lib/foam/vocabulary";
+import { apparatusRow, productRow, stationRow } from "~/models/catalogue-rows.server";
 import { statedResults, totalsColumns, writeReportLines, type ReportRunoff } from "~/models/report-rows.server";
 
 const unique = () => randomUUID().slice(0, 8);
@@ -25,20 +26,20 @@ export async function ensureAgency(connection: Knex = db, overrides: Record<stri
 
 export async function makeStation(connection: Knex = db) {
   const code = `T${unique().slice(0, 5)}`;
-  const [id] = await connection("stations").insert({ code, name: `Station ${code} (test)` });
+  const [id] = await connection("stations").insert(stationRow({ code, name: `Station ${code} (test)` }));
   return { id, code };
 }
 
 export async function makeApparatus(stationId: number | null, connection: Knex = db) {
   const unitId = `E-${unique()}`;
-  const [id] = await connection("apparatus").insert({ unit_id: unitId, station_id: stationId });
+  const [id] = await connection("apparatus").insert(apparatusRow({ unitId, stationId }));
   return { id, unitId };
 }
 
 export type ProductFixture = {
   name?: string;
   foamClass: FoamClass;
-  foamType?: string;
+  foamType?: FoamType;
   pfasContaining?: boolean;
   pfasContent?: number | null;
   pfasContentUnit?: PfasContentUnit | null;
@@ -48,17 +49,14 @@ export type ProductFixture = {
 
 export async function makeProduct(spec: ProductFixture, connection: Knex = db) {
   const name = spec.name ?? `Test ${spec.foamClass} concentrate ${unique()} (test)`;
-  const [id] = await connection("foam_products").insert({
-    name,
-    foam_class: spec.foamClass,
-    foam_type: spec.foamType ?? (spec.foamClass === "A" ? "class-a" : "f3"),
-    nominal_percents: spec.foamClass === "A" ? "0.3,0.5" : "3",
-    pfas_containing: spec.pfasContaining ?? false,
-    pfas_content: spec.pfasContent ?? null,
-    pfas_content_unit: spec.pfasContentUnit ?? null,
-    pfas_content_basis: spec.pfasContentBasis ?? null,
-    pfas_content_source: spec.pfasContentSource ?? null,
-  });
+  const [id] = await connection("foam_products").insert(
+    productRow({
+      ...spec,
+      name,
+      foamType: spec.foamType ?? (spec.foamClass === "A" ? "class-a" : "f3"),
+      nominalPercents: spec.foamClass === "A" ? [0.3, 0.5] : [3],
+    }),
+  );
   return { id, name };
 }
 

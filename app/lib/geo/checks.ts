@@ -8,7 +8,7 @@ import {
   polygonToLine,
 } from "@turf/turf";
 import type { Feature, FeatureCollection, LineString, MultiPolygon, Polygon, Position } from "geojson";
-import { featureName } from "./layers";
+import { featureName, type LayerKind } from "./layers";
 
 export { isValidLatLon } from "./coordinates";
 
@@ -36,6 +36,9 @@ export type GeographyChecks = {
   withinWaterwayBuffer: boolean | null;
   outsideJurisdiction: boolean | null;
 };
+
+/** The checks of one point as `/api/geo/check` answers them, with the buffer used and the layers not loaded. */
+export type LocationCheck = GeographyChecks & { waterwayBufferM: number; layersMissing: LayerKind[] };
 
 export type LatLon = { latitude: number; longitude: number };
 
