@@ -18,6 +18,7 @@ import {
 import { readStoredDraft } from "~/lib/foam/report-draft.server";
 import { endOfLocalDay, instantToWallClock, startOfLocalDay } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
+import { dischargedFoamClass } from "./catalogue.server";
 import { checksOfRow } from "./geography.server";
 
 export function apiVolume(gallons: number): Volume {
@@ -281,15 +282,7 @@ function filteredEvents(user: SessionUser, filters: EventFilters, timeZone: stri
   if (filters.status) query.where("events.status", filters.status);
   if (filters.stationId) query.where("events.station_id", filters.stationId);
   if (filters.mine) query.where("events.created_by", user.id);
-  if (filters.foamClass) {
-    query.whereExists(
-      db("discharges")
-        .join("foam_products", "foam_products.id", "discharges.product_id")
-        .whereRaw("discharges.event_id = events.id")
-        .where("foam_products.foam_class", filters.foamClass)
-        .select(db.raw("1")),
-    );
-  }
+  if (filters.foamClass) query.whereExists(dischargedFoamClass("events.id", filters.foamClass));
   return query;
 }
 

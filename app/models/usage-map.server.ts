@@ -11,6 +11,7 @@ import {
 } from "~/lib/foam/vocabulary";
 import type { GeographyChecks } from "~/lib/geo/checks";
 import type { MapFilters } from "~/lib/geo/map-filters";
+import { dischargedFoamClass } from "./catalogue.server";
 
 /** Reports still in draft are the officer's work in progress and stay off the map and totals. */
 const MAPPED_STATUSES = ["filed", "returned", "accepted"];
@@ -28,15 +29,7 @@ function filteredEvents(filters: MapFilters): Knex.QueryBuilder {
   }
   if (filters.kind) query.where("e.kind", filters.kind);
   if (filters.stationId) query.where("e.station_id", filters.stationId);
-  if (filters.foamClass) {
-    query.whereExists(
-      db("discharges as fd")
-        .join("foam_products as fp", "fp.id", "fd.product_id")
-        .whereRaw("fd.event_id = e.id")
-        .where("fp.foam_class", filters.foamClass)
-        .select(db.raw("1")),
-    );
-  }
+  if (filters.foamClass) query.whereExists(dischargedFoamClass("e.id", filters.foamClass));
   return query;
 }
 

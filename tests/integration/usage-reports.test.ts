@@ -158,6 +158,14 @@ describe("filing a usage report", () => {
     expect(page.items.find((item: { number: string }) => item.number === fields.number).totals.concentrate.gal).toBe(
       51,
     );
+    // The class filter keeps a report with a discharge of that class (this one has Class A and B).
+    for (const foamClass of ["A", "B"]) {
+      const filtered = (await eventsApiLoader(
+        routeArgs(getRequest(`/api/events?status=filed&class=${foamClass}&size=500`, { Cookie: reviewerCookie })),
+      )) as Response;
+      const numbers = (await filtered.json()).items.map((item: { number: string }) => item.number);
+      expect(numbers).toContain(fields.number);
+    }
   });
 
   it("writes nothing when filing fails validation, and names every field", async () => {

@@ -1,22 +1,6 @@
 import { z } from "zod";
 import { APPLICATION_METHODS, FLOW_BASES } from "../foam/vocabulary";
-import { checkbox, optionalNumber } from "./form-fields";
-
-/** A decimal-degree coordinate, blank for none. */
-const coordinate = (label: string, limit: number) =>
-  z
-    .string()
-    .trim()
-    .optional()
-    .transform((value, ctx) => {
-      if (!value) return null;
-      const number = Number(value);
-      if (!Number.isFinite(number) || number < -limit || number > limit) {
-        ctx.addIssue({ code: "custom", message: `${label} is a number from -${limit} to ${limit}.` });
-        return z.NEVER;
-      }
-      return number;
-    });
+import { checkbox, coordinate, optionalNumber } from "./form-fields";
 
 export const StationFormSchema = z.object({
   code: z

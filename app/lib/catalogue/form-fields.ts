@@ -14,8 +14,8 @@ export const optionalText = (max: number, label: string) =>
     .optional()
     .transform((value) => value || null);
 
-/** A number of zero or more (above zero with `positive`), at most `max`; blank is null. */
-export const optionalNumber = (label: string, { max = 1_000_000, positive = false } = {}) =>
+/** A number field, blank for null; `problem` names what is wrong with a number, or null when it will do. */
+const optionalNumberWith = (problem: (number: number) => string | null) =>
   z
     .string()
     .trim()
@@ -23,16 +23,27 @@ export const optionalNumber = (label: string, { max = 1_000_000, positive = fals
     .transform((value, ctx) => {
       if (!value) return null;
       const number = Number(value);
-      if (!Number.isFinite(number) || number < 0 || (positive && number === 0)) {
-        ctx.addIssue({
-          code: "custom",
-          message: `${label} must be a number ${positive ? "above zero" : "of zero or more"}.`,
-        });
-        return z.NEVER;
-      }
-      if (number > max) {
-        ctx.addIssue({ code: "custom", message: `${label} is at most ${max.toLocaleString("en-US")}.` });
+      const message = problem(Number.isFinite(number) ? number : Number.NaN);
+      if (message) {
+        ctx.addIssue({ code: "custom", message });
         return z.NEVER;
       }
       return number;
     });
+
+/** A number of zero or more (above zero with `positive`), at most `max`; blank is null. */
+export const optionalNumber = (label: string, { max = 1_000_000, positive = false } = {}) =>
+  optionalNumberWith((number) => {
+    if (Number.isNaN(number) || number < 0 || (positive && number === 0)) {
+      return `${label} must be a number ${positive ? "above zero" : "of zero or more"}.`;
+    }
+    return number > max ? `${label} is at most ${max.toLocaleString("en-US")}.` : null;
+  });
+
+/** A decimal-degree coordinate from -`limit` to `limit`; blank is null. */
+export const coordinate = (label: string, limit: number) =>
+  optionalNumberWith((number) =>
+    Number.isNaN(number) || number < -limit || number > limit
+      ? `${label} is a number from -${limit} to ${limit}.`
+      : null,
+  );
