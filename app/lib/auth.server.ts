@@ -9,9 +9,9 @@ import { apiError, clientAddress, isApiRequest, rethrowDatabaseDown } from "./ht
 import { acceptsApiToken, isRole, type Principal, type Role } from "./access";
 import { getSession } from "./session.server";
 import { SignInFormSchema } from "./sign-in-form";
-import { recordSignInAttempt, signInWaitMinutes } from "./sign-in-throttle.server";
+import { describeWait, recordSignInFailure, recordSignInSuccess, signInWaitSeconds } from "./sign-in-throttle.server";
 
-export type SessionUser = Principal & { email: string; name: string; roles: Role[]; epoch: number };
+export type SessionUser = Principal & { email: string; name: string; roles: Role[] };
 
 export const PASSWORD_COST = 12;
 export const SIGN_IN_FAILED = "The email or password is incorrect.";
@@ -20,6 +20,8 @@ export class SignInError extends Error {
   constructor(
     message: string,
     readonly status = 400,
+    /** Seconds before another attempt is worth making (sent as Retry-After with a 429). */
+    readonly retryAfterSeconds: number | null = null,
   ) {
     super(message);
   }
@@ -41,10 +43,13 @@ async function loadUser(
     name: row.name,
     roles: roles.filter(isRole),
     stationId: row.station_id ?? null,
-    epoch: row.session_epoch,
     active: Boolean(row.active),
     passwordHash: row.password_hash,
   };
+}
+
+function sessionUserOf(user: SessionUser): SessionUser {
+  return { id: user.id, email: user.email, name: user.name, roles: user.roles, stationId: user.stationId };
 }
 
 // A real hash of a random string, compared against when the email is unknown so that the time taken
@@ -59,14 +64,18 @@ authenticator.use(
     if (!parsed.success) throw new SignInError(SIGN_IN_FAILED);
     const { email, password } = parsed.data;
     const address = clientAddress(request);
-    const wait = await signInWaitMinutes(email, address);
+    const wait = await signInWaitSeconds(email, address);
     if (wait > 0) {
-      throw new SignInError(`Too many failed sign-ins. Try again in ${wait} minute${wait === 1 ? "" : "s"}.`, 429);
+      throw new SignInError(
+        `Too many failed sign-ins for this account or address. Wait ${describeWait(wait)}, then try again.`,
+        429,
+        wait,
+      );
     }
     const user = await loadUser({ "users.email": email });
     const matches = await bcrypt.compare(password, user?.passwordHash ?? UNKNOWN_USER_HASH);
     if (!user || !matches || !user.active) {
-      await recordSignInAttempt(email, address, false);
+      await recordSignInFailure(email, address);
       await recordAudit({
         actorUserId: user?.id ?? null,
         actorLabel: email,
@@ -78,7 +87,7 @@ authenticator.use(
       });
       throw new SignInError(SIGN_IN_FAILED);
     }
-    await recordSignInAttempt(email, address, true);
+    await recordSignInSuccess(email, address);
     await recordAudit({
       actorUserId: user.id,
       actorLabel: user.email,
@@ -87,14 +96,7 @@ authenticator.use(
       entityId: user.id,
       clientAddress: address,
     });
-    return {
-      id: user.id,
-      email: user.email,
-      name: user.name,
-      roles: user.roles,
-      stationId: user.stationId,
-      epoch: user.epoch,
-    };
+    return sessionUserOf(user);
   }),
   "form",
 );
@@ -115,7 +117,7 @@ async function userFromBearer(request: Request): Promise<SessionUser | null> {
   const user = await loadUser({ "users.id": token.user_id });
   if (!user || !user.active) return null;
   await db("api_tokens").where({ id: token.id }).update({ last_used_at: db.fn.now() });
-  return user;
+  return sessionUserOf(user);
 }
 
 async function userFromSession(request: Request): Promise<SessionUser | null> {
@@ -123,8 +125,8 @@ async function userFromSession(request: Request): Promise<SessionUser | null> {
   const userId = session.get("userId");
   if (typeof userId !== "number") return null;
   const user = await loadUser({ "users.id": userId });
-  if (!user || !user.active || user.epoch !== session.get("epoch")) return null;
-  return user;
+  if (!user || !user.active) return null;
+  return sessionUserOf(user);
 }
 
 /**

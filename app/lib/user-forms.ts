@@ -54,3 +54,9 @@ export const ChangePasswordSchema = z
     path: ["confirmPassword"],
     message: "The two new passwords do not match.",
   });
+
+/** An administrator's "End sessions" on one person. */
+export const EndSessionsSchema = z.object({
+  intent: z.literal("end-sessions"),
+  userId: z.coerce.number().int().positive(),
+});

@@ -2,6 +2,7 @@ import bcrypt from "bcryptjs";
 import { recordAudit } from "~/lib/audit.server";
 import { hashPassword, type SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
+import { activeSessionCounts, endSessionsOf } from "~/lib/session.server";
 import { isRole, type Role } from "~/lib/access";
 
 export type UserRow = {
@@ -11,12 +12,15 @@ export type UserRow = {
   active: boolean;
   roles: Role[];
   stationId: number | null;
+  /** Unexpired sessions, on any app server. */
+  sessions: number;
 };
 
 export async function listUsers(): Promise<UserRow[]> {
-  const [users, roles] = await Promise.all([
+  const [users, roles, sessions] = await Promise.all([
     db("users").select("id", "email", "name", "active", "station_id").orderBy("name"),
     db("user_roles").select("user_id", "role"),
+    activeSessionCounts(),
   ]);
   return users.map((user) => ({
     id: user.id,
@@ -24,6 +28,7 @@ export async function listUsers(): Promise<UserRow[]> {
     name: user.name,
     active: Boolean(user.active),
     stationId: (user.station_id as number | null) ?? null,
+    sessions: sessions.get(user.id) ?? 0,
     roles: roles.filter((row) => row.user_id === user.id && isRole(row.role)).map((row) => row.role as Role),
   }));
 }
@@ -81,16 +86,14 @@ export async function updateUser(
     if (!before) return false;
     const beforeRoles = await trx("user_roles").where({ user_id: userId }).pluck("role");
     const deactivating = Boolean(before.active) && !changes.active;
-    await trx("users")
-      .where({ id: userId })
-      .update({
-        name: changes.name,
-        active: changes.active,
-        station_id: changes.stationId,
-        updated_at: trx.fn.now(),
-        // A deactivated person's sessions stop at once; tokens stop because the user is inactive.
-        session_epoch: deactivating ? before.session_epoch + 1 : before.session_epoch,
-      });
+    await trx("users").where({ id: userId }).update({
+      name: changes.name,
+      active: changes.active,
+      station_id: changes.stationId,
+      updated_at: trx.fn.now(),
+    });
+    // A deactivated person's sessions end at once; tokens stop because the user is inactive.
+    if (deactivating) await endSessionsOf(userId, { connection: trx });
     await trx("user_roles").where({ user_id: userId }).delete();
     if (changes.roles.length) await trx("user_roles").insert(changes.roles.map((role) => ({ user_id: userId, role })));
     await recordAudit(
@@ -120,21 +123,23 @@ export async function updateUser(
   });
 }
 
-/** Changes a password after checking the current one; other sessions of the person end. */
+/**
+ * Changes a password after checking the current one; every other session of the person ends (the
+ * one in `keepSessionId`, the browser that made the change, stays).
+ */
 export async function changePassword(
   user: SessionUser,
   currentPassword: string,
   newPassword: string,
-  clientAddress?: string,
-): Promise<{ ok: true; epoch: number } | { ok: false }> {
+  options: { clientAddress?: string; keepSessionId?: string | null } = {},
+): Promise<{ ok: true; endedSessions: number } | { ok: false }> {
   const row = await db("users").where({ id: user.id }).first();
   if (!row || !(await bcrypt.compare(currentPassword, row.password_hash))) return { ok: false };
   const passwordHash = await hashPassword(newPassword);
-  const epoch = row.session_epoch + 1;
-  await db.transaction(async (trx) => {
-    await trx("users")
-      .where({ id: user.id })
-      .update({ password_hash: passwordHash, session_epoch: epoch, updated_at: trx.fn.now() });
+  const clientAddress = options.clientAddress;
+  const endedSessions = await db.transaction(async (trx) => {
+    await trx("users").where({ id: user.id }).update({ password_hash: passwordHash, updated_at: trx.fn.now() });
+    const ended = await endSessionsOf(user.id, { keepSessionId: options.keepSessionId, connection: trx });
     await recordAudit(
       {
         actorUserId: user.id,
@@ -142,10 +147,38 @@ export async function changePassword(
         action: "password_changed",
         entityType: "user",
         entityId: user.id,
+        summary: `${ended} other session${ended === 1 ? "" : "s"} ended`,
         clientAddress,
       },
       trx,
     );
+    return ended;
   });
-  return { ok: true, epoch };
+  return { ok: true, endedSessions };
+}
+
+/** An administrator's "End sessions": the person is signed out on every app server; audited. */
+export async function endUserSessions(
+  userId: number,
+  actor: SessionUser,
+  clientAddress?: string,
+): Promise<{ found: false } | { found: true; ended: number }> {
+  return db.transaction(async (trx) => {
+    const target = await trx("users").where({ id: userId }).first("id", "email");
+    if (!target) return { found: false } as const;
+    const ended = await endSessionsOf(userId, { connection: trx });
+    await recordAudit(
+      {
+        actorUserId: actor.id,
+        actorLabel: actor.email,
+        action: "sessions_ended",
+        entityType: "user",
+        entityId: userId,
+        summary: `${ended} session${ended === 1 ? "" : "s"} of ${target.email} ended`,
+        clientAddress,
+      },
+      trx,
+    );
+    return { found: true, ended } as const;
+  });
 }

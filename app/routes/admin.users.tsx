@@ -8,12 +8,13 @@ import { authorize, requireCapability } from "~/lib/access.server";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
-import { CreateUserSchema, UpdateUserSchema } from "~/lib/user-forms";
+import { CreateUserSchema, EndSessionsSchema, UpdateUserSchema } from "~/lib/user-forms";
 import { listStationOptions, type StationOption } from "~/models/catalogue.server";
 import {
   accountRecord,
   createUser,
   DuplicateEmailError,
+  endUserSessions,
   listUsers,
   updateUser,
   type UserRow,
@@ -37,7 +38,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requireCapability(request, "users.manage");
-  const formData = await readFormData(request, [CreateUserSchema, UpdateUserSchema]);
+  const formData = await readFormData(request, [CreateUserSchema, UpdateUserSchema, EndSessionsSchema]);
   const stationIds = new Set((await listStationOptions()).map((station) => station.id));
   const intent = formData.get("intent");
   if (intent === "create") {
@@ -73,6 +74,23 @@ export async function action({ request }: Route.ActionArgs) {
     }
     throw redirect("/admin/users", {
       headers: await flashHeaders(request, `Account created for ${submission.value.email}.`),
+    });
+  }
+  if (intent === "end-sessions") {
+    const submission = parseWithZod(formData, { schema: EndSessionsSchema });
+    const target = submission.status === "success" ? await accountRecord(submission.value.userId) : null;
+    if (submission.status !== "success" || !target) {
+      return data({ intent: "update", result: submission.reply({ formErrors: ["No such person."] }) }, { status: 404 });
+    }
+    authorize(request, actor, "users.manage", target);
+    const outcome = await endUserSessions(submission.value.userId, actor, clientAddress(request));
+    if (!outcome.found) {
+      return data({ intent: "update", result: submission.reply({ formErrors: ["No such person."] }) }, { status: 404 });
+    }
+    const ended = `${outcome.ended} session${outcome.ended === 1 ? "" : "s"}`;
+    const self = submission.value.userId === actor.id;
+    throw redirect(self ? "/sign-in" : "/admin/users", {
+      headers: await flashHeaders(request, `Ended ${ended}; a copied sign-in no longer works anywhere.`),
     });
   }
   const submission = parseWithZod(formData, { schema: UpdateUserSchema });
@@ -133,6 +151,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
               <th scope="col">Roles</th>
               <th scope="col">Station</th>
               <th scope="col">Active</th>
+              <th scope="col">Signed in</th>
               <th scope="col">
                 <span className="sr-only">Save</span>
               </th>
@@ -211,6 +230,10 @@ function stationLabel(stations: StationOption[], id: number | null): string {
   return station ? `${station.code} ${station.name}` : "none";
 }
 
+function sessionsLabel(count: number): string {
+  return count === 0 ? "No sessions" : `${count} session${count === 1 ? "" : "s"}`;
+}
+
 /** An account this person may not change (an administrator, for someone who is not one). */
 function ReadOnlyUserRow({ user, stations }: { user: UserRow; stations: StationOption[] }) {
   return (
@@ -222,6 +245,7 @@ function ReadOnlyUserRow({ user, stations }: { user: UserRow; stations: StationO
       <td>{user.roles.map((role) => ROLE_LABELS[role]).join(", ")}</td>
       <td>{stationLabel(stations, user.stationId)}</td>
       <td>{user.active ? "Active" : "Inactive"}</td>
+      <td>{sessionsLabel(user.sessions)}</td>
       <td className="text-sm text-slate-ft">Only an administrator changes this account.</td>
     </tr>
   );
@@ -295,6 +319,18 @@ function UserRowForm({ user, roles, stations }: { user: UserRow; roles: readonly
           <input form={formId} type="checkbox" name="active" defaultChecked={user.active} className="h-5 w-5" />
           Active
         </label>
+      </td>
+      <td>
+        <span className="text-sm">{sessionsLabel(user.sessions)}</span>
+        {user.sessions > 0 ? (
+          <Form method="post">
+            <input type="hidden" name="intent" value="end-sessions" />
+            <input type="hidden" name="userId" value={user.id} />
+            <button type="submit" className="btn-secondary mt-1" disabled={navigation.state === "submitting"}>
+              End sessions<span className="sr-only"> of {user.email}</span>
+            </button>
+          </Form>
+        ) : null}
       </td>
       <td>
         <button form={formId} type="submit" className="btn-secondary" disabled={navigation.state === "submitting"}>

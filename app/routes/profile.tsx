@@ -8,7 +8,7 @@ import { requireUser } from "~/lib/auth.server";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress } from "~/lib/http.server";
 import { ROLE_LABELS } from "~/lib/access";
-import { commitSession, flashHeaders, getSession } from "~/lib/session.server";
+import { currentSessionId, flashHeaders } from "~/lib/session.server";
 import { ChangePasswordSchema } from "~/lib/user-forms";
 import {
   createApiToken,
@@ -81,12 +81,10 @@ export async function action({ request }: Route.ActionArgs) {
       { status: 400 },
     );
   }
-  const outcome = await changePassword(
-    user,
-    submission.value.currentPassword,
-    submission.value.newPassword,
-    clientAddress(request),
-  );
+  const outcome = await changePassword(user, submission.value.currentPassword, submission.value.newPassword, {
+    clientAddress: clientAddress(request),
+    keepSessionId: await currentSessionId(request),
+  });
   if (!outcome.ok) {
     return data(
       {
@@ -100,10 +98,9 @@ export async function action({ request }: Route.ActionArgs) {
       { status: 400 },
     );
   }
-  const session = await getSession(request);
-  session.set("epoch", outcome.epoch);
-  session.flash("flash", "Your password was changed. Other sessions have been signed out.");
-  throw redirect("/profile", { headers: { "Set-Cookie": await commitSession(session) } });
+  throw redirect("/profile", {
+    headers: await flashHeaders(request, "Your password was changed. Your other sessions have been signed out."),
+  });
 }
 
 export default function Profile({ loaderData, actionData }: Route.ComponentProps) {

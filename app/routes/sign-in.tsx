@@ -7,7 +7,7 @@ import { FormErrors, TextField } from "~/components/form-fields";
 import { authenticator, getUser, safeRedirectTo, SignInError } from "~/lib/auth.server";
 import { readFormData, requestWithForm } from "~/lib/form-data.server";
 import { DATABASE_DOWN_MESSAGE, isDatabaseDown } from "~/lib/http.server";
-import { commitSession, getSession } from "~/lib/session.server";
+import { startSession } from "~/lib/session.server";
 import { SignInFormSchema } from "~/lib/sign-in-form";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Foamtally" }];
@@ -27,18 +27,19 @@ export async function action({ request }: Route.ActionArgs) {
   }
   try {
     const user = await authenticator.authenticate("form", requestWithForm(request, formData));
-    const session = await getSession(request);
-    session.set("userId", user.id);
-    session.set("epoch", user.epoch);
     throw redirect(safeRedirectTo(submission.value.redirectTo), {
-      headers: { "Set-Cookie": await commitSession(session) },
+      headers: { "Set-Cookie": await startSession(request, user.id) },
     });
   } catch (error) {
     if (error instanceof Response) throw error;
     if (!(error instanceof SignInError) && !isDatabaseDown(error)) throw error;
     const message = error instanceof SignInError ? error.message : DATABASE_DOWN_MESSAGE;
     const status = error instanceof SignInError ? error.status : 503;
-    return data({ result: submission.reply({ formErrors: [message], hideFields: ["password"] }) }, { status });
+    const retryAfter = error instanceof SignInError ? error.retryAfterSeconds : null;
+    return data(
+      { result: submission.reply({ formErrors: [message], hideFields: ["password"] }) },
+      { status, headers: retryAfter ? { "Retry-After": String(retryAfter) } : undefined },
+    );
   }
 }
 
