@@ -23,7 +23,7 @@ port="${PORT:-3000}"
 cat <<TXT
 
 Foamtally demo: http://127.0.0.1:$port
-Demo accounts (password: demo-password — demo data only, invented people):
+Demo accounts (password: alder-bend-demo-2026 — demo data only, invented people):
   officer@alderbend.example   company officer
   enviro@alderbend.example    environmental officer
   chief@alderbend.example     chief

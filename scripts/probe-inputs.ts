@@ -32,7 +32,7 @@ type Endpoint = {
   report?: boolean;
 };
 
-const DEMO_PASSWORD = "demo-password";
+const DEMO_PASSWORD = "alder-bend-demo-2026";
 /** The demo accounts the probe signs in as (the roles its endpoints need). */
 const ACCOUNTS = {
   officer: "officer2@alderbend.example",

@@ -2,7 +2,7 @@ import bcrypt from "bcryptjs";
 import type { Knex } from "knex";
 
 // Demo data only: the invented Alder Bend Fire District and invented people.
-export const DEMO_PASSWORD = "demo-password";
+export const DEMO_PASSWORD = "alder-bend-demo-2026";
 
 export const DEMO_ACCOUNTS = [
   { email: "officer@alderbend.example", name: "Lt. Rowan Keats (demo)", roles: ["officer"], station: "S1" },

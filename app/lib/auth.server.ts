@@ -8,6 +8,7 @@ import { db } from "./db.server";
 import { apiError, clientAddress, isApiRequest, rethrowDatabaseDown } from "./http.server";
 import { acceptsApiToken, isRole, type Principal, type Role } from "./access";
 import { getSession } from "./session.server";
+import { MAX_PASSWORD_BYTES, passwordBytes } from "./password-rules";
 import { SignInFormSchema } from "./sign-in-form";
 import { describeWait, recordSignInFailure, recordSignInSuccess, signInWaitSeconds } from "./sign-in-throttle.server";
 
@@ -27,7 +28,9 @@ export class SignInError extends Error {
   }
 }
 
+/** bcrypt reads only the first 72 bytes, so a longer password is refused, never shortened (decision 022). */
 export function hashPassword(password: string): Promise<string> {
+  if (passwordBytes(password) > MAX_PASSWORD_BYTES) throw new Error("A password has at most 72 bytes.");
   return bcrypt.hash(password, PASSWORD_COST);
 }
 

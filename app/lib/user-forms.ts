@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { ROLES } from "./access";
+import { passwordProblem } from "./password-rules";
 
 const name = z
   .string({ error: "Enter a name." })
@@ -14,10 +15,15 @@ const email = z
   .max(254, "An email address has at most 254 characters.")
   .pipe(z.email("Enter a valid email address."));
 
+/** A new password, by the rules in `password-rules.ts`; one message at a time, the first that applies. */
 const newPassword = z
   .string({ error: "Enter a password." })
-  .min(12, "Use at least 12 characters.")
-  .max(200, "A password has at most 200 characters.");
+  .min(1, "Enter a password.")
+  .max(200, "A password has at most 72 bytes.")
+  .superRefine((password, ctx) => {
+    const problem = passwordProblem(password);
+    if (problem) ctx.addIssue({ code: "custom", message: problem });
+  });
 
 const stationId = z.preprocess(
   (value) => (value === "" || value == null ? null : value),

@@ -185,7 +185,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
             field={fields.password}
             type="password"
             autoComplete="new-password"
-            hint="At least 12 characters."
+            hint="At least 12 characters, not a common password; a few unrelated words work well."
           />
           <fieldset>
             <legend className="field-label">Roles</legend>

@@ -149,7 +149,7 @@ export default function Profile({ loaderData, actionData }: Route.ComponentProps
             field={fields.newPassword}
             type="password"
             autoComplete="new-password"
-            hint="At least 12 characters."
+            hint="At least 12 characters, not a common password; a few unrelated words work well."
           />
           <TextField
             label="Repeat the new password"

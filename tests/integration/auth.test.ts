@@ -178,3 +178,47 @@ describe("administering people", () => {
     expect(await db("users").count({ n: "*" })).toEqual(before);
   });
 });
+
+describe("new passwords", () => {
+  it("are refused at the field when common, repeated or longer than 72 bytes, on both forms", async () => {
+    const admin = await makeUser(["admin"]);
+    const cookie = await signIn(admin.email, TEST_PASSWORD);
+    const create = (password: string) =>
+      settle(() =>
+        adminAction(
+          routeArgs(
+            formRequest(
+              "/admin/users",
+              {
+                intent: "create",
+                name: "Weak",
+                email: `weak-${Date.now()}@test.example`,
+                password,
+                roles: ["officer"],
+              },
+              { Cookie: cookie },
+            ),
+          ),
+        ),
+      );
+    expect(replyOf((await create("password1234")).value).error?.password?.[0]).toMatch(/common/);
+    expect(replyOf((await create("x".repeat(14))).value).error?.password?.[0]).toMatch(/repeated/);
+    expect(replyOf((await create("hose ladder pump ".repeat(5))).value).error?.password?.[0]).toMatch(/72 bytes/);
+    expect(await db("users").where("name", "Weak").count({ n: "*" })).toEqual([{ n: 0 }]);
+
+    const { action: profileAction } = await import("~/routes/profile");
+    const change = await settle(() =>
+      profileAction(
+        routeArgs(
+          formRequest(
+            "/profile",
+            { currentPassword: TEST_PASSWORD, newPassword: "qwertyuiop12", confirmPassword: "qwertyuiop12" },
+            { Cookie: cookie },
+          ),
+        ),
+      ),
+    );
+    expect(replyOf(change.value).error?.newPassword?.[0]).toMatch(/common or follows an easy pattern/);
+    expect(replyOf(change.value).initialValue?.newPassword).toBeUndefined();
+  });
+});

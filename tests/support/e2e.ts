@@ -1,6 +1,6 @@
 import { test as base, expect, type Page } from "@playwright/test";
 
-export const DEMO_PASSWORD = "demo-password";
+export const DEMO_PASSWORD = "alder-bend-demo-2026";
 export const DEMO = {
   officer: "officer@alderbend.example",
   environmental: "enviro@alderbend.example",
