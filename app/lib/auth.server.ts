@@ -159,7 +159,4 @@ export async function requireUser(request: Request): Promise<SessionUser> {
   throw redirect(`/sign-in?redirectTo=${encodeURIComponent(url.pathname + url.search)}`);
 }
 
-export function safeRedirectTo(target: string | null | undefined, fallback = "/"): string {
-  if (!target || !target.startsWith("/") || target.startsWith("//") || target.startsWith("/\\")) return fallback;
-  return target;
-}
+export { safeRedirectTo } from "./safe-redirect";

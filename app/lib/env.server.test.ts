@@ -26,4 +26,18 @@ describe("parseEnv", () => {
   it("gives development a stand-in secret so a contributor can start without one", () => {
     expect(parseEnv({ NODE_ENV: "development" }).SESSION_SECRET.length).toBeGreaterThanOrEqual(32);
   });
+
+  it("makes cookies secure by default exactly when APP_URL is https, unless COOKIE_SECURE says otherwise", () => {
+    const https = parseEnv({ NODE_ENV: "test", APP_URL: "https://foam.alderbend.example" });
+    expect(https.COOKIE_SECURE).toBe(true);
+    expect(https.HTTPS).toBe(true);
+    const http = parseEnv({ NODE_ENV: "test", APP_URL: "http://127.0.0.1:3000" });
+    expect(http.COOKIE_SECURE).toBe(false);
+    expect(http.HTTPS).toBe(false);
+    expect(parseEnv({ NODE_ENV: "test", APP_URL: "https://a.example", COOKIE_SECURE: "false" }).COOKIE_SECURE).toBe(
+      false,
+    );
+    expect(parseEnv({ NODE_ENV: "test", APP_URL: "http://a.example", COOKIE_SECURE: "true" }).COOKIE_SECURE).toBe(true);
+    expect(() => parseEnv({ NODE_ENV: "test", COOKIE_SECURE: "yes" })).toThrow(/COOKIE_SECURE/);
+  });
 });

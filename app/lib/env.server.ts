@@ -18,7 +18,8 @@ export const EnvSchema = z
     DB_USER: z.string().min(1).default("foamtally"),
     DB_PASSWORD: z.string().default(""),
     SESSION_SECRET: z.string().optional(),
-    COOKIE_SECURE: booleanString,
+    // Unset: secure cookies exactly when APP_URL is https (see parseEnv).
+    COOKIE_SECURE: z.enum(["true", "false", "1", "0", ""]).optional(),
     TRUST_PROXY: booleanString,
     DEMO_MODE: booleanString,
     SMTP_URL: z
@@ -43,7 +44,12 @@ export const EnvSchema = z
     }
   });
 
-export type Env = z.infer<typeof EnvSchema> & { SESSION_SECRET: string };
+export type Env = Omit<z.infer<typeof EnvSchema>, "COOKIE_SECURE"> & {
+  SESSION_SECRET: string;
+  COOKIE_SECURE: boolean;
+  /** APP_URL is https: cookies are secure by default and browsers are told to keep to HTTPS (HSTS). */
+  HTTPS: boolean;
+};
 
 export class EnvError extends Error {}
 
@@ -53,9 +59,14 @@ export function parseEnv(source: Record<string, string | undefined>): Env {
     const lines = result.error.issues.map((issue) => `  ${issue.path.join(".")}: ${issue.message}`);
     throw new EnvError(`Foamtally cannot start: invalid environment variables\n${lines.join("\n")}`);
   }
+  const https = new URL(result.data.APP_URL).protocol === "https:";
+  const cookieSecure = result.data.COOKIE_SECURE;
   return {
     ...result.data,
     SESSION_SECRET: result.data.SESSION_SECRET || "development-only-session-secret-not-for-production",
+    COOKIE_SECURE:
+      cookieSecure === undefined || cookieSecure === "" ? https : cookieSecure === "true" || cookieSecure === "1",
+    HTTPS: https,
   };
 }
 

@@ -1,5 +1,11 @@
 import { describe, expect, it } from "vitest";
-import { contentSecurityPolicy, isForeignOrigin } from "./security.server";
+import {
+  contentSecurityPolicy,
+  HSTS_VALUE,
+  isForeignOrigin,
+  securityHeaderRecord,
+  securityMiddleware,
+} from "./security.server";
 
 const url = "http://127.0.0.1:3000/events/new";
 
@@ -32,5 +38,30 @@ describe("contentSecurityPolicy", () => {
     expect(policy).toContain("script-src 'self' 'nonce-abc'");
     expect(policy).toContain("worker-src 'self' blob:");
     expect(policy).not.toMatch(/https?:\/\//);
+  });
+});
+
+describe("security headers and caching", () => {
+  it("send HSTS only when the app is served over https", () => {
+    expect(securityHeaderRecord(true)["Strict-Transport-Security"]).toBe(HSTS_VALUE);
+    expect(securityHeaderRecord(false)).not.toHaveProperty("Strict-Transport-Security");
+  });
+
+  const run = (response: Response) =>
+    (securityMiddleware as unknown as (args: { request: Request }, next: () => Promise<Response>) => Promise<Response>)(
+      { request: new Request("http://127.0.0.1:3000/events") },
+      async () => response,
+    );
+
+  it("mark every answer that names no caching no-store", async () => {
+    const page = await run(new Response("<p>report</p>", { headers: { "Content-Type": "text/html" } }));
+    expect(page.headers.get("Cache-Control")).toBe("no-store");
+    const json = await run(Response.json({ id: 1 }));
+    expect(json.headers.get("Cache-Control")).toBe("no-store");
+  });
+
+  it("leave an answer's own caching alone (map tiles)", async () => {
+    const tile = await run(new Response("tile", { headers: { "Cache-Control": "private, max-age=86400" } }));
+    expect(tile.headers.get("Cache-Control")).toBe("private, max-age=86400");
   });
 });

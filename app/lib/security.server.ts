@@ -1,4 +1,8 @@
 import type { MiddlewareFunction } from "react-router";
+import { env } from "./env.server";
+
+/** One year, the value HSTS preload lists ask for (hstspreload.org requirements, from memory). */
+export const HSTS_VALUE = "max-age=31536000; includeSubDomains";
 
 /** Only this origin; map workers run from blob: URLs. */
 export function contentSecurityPolicy(nonce?: string): string {
@@ -37,8 +41,9 @@ export function isForeignOrigin(method: string, url: string, headers: { origin?:
   }
 }
 
-export function securityHeaderRecord(): Record<string, string> {
+export function securityHeaderRecord(https = env().HTTPS): Record<string, string> {
   return {
+    ...(https ? { "Strict-Transport-Security": HSTS_VALUE } : {}),
     "Content-Security-Policy": contentSecurityPolicy(),
     "X-Content-Type-Options": "nosniff",
     "X-Frame-Options": "DENY",
@@ -48,7 +53,12 @@ export function securityHeaderRecord(): Record<string, string> {
   };
 }
 
-/** Root middleware: refuses foreign-origin writes and adds the security headers to every response. */
+/**
+ * Root middleware: refuses foreign-origin writes and adds the security headers to every response.
+ * An answer that does not say how it may be cached gets `Cache-Control: no-store`: pages and API
+ * answers carry people's names and report data, which no browser or proxy cache should keep. Static
+ * assets are served before the app and keep their own caching; tiles set theirs.
+ */
 export const securityMiddleware: MiddlewareFunction<Response> = async ({ request }, next) => {
   const headers = { origin: request.headers.get("Origin") ?? "", referer: request.headers.get("Referer") ?? "" };
   if (isForeignOrigin(request.method, request.url, headers)) {
@@ -62,5 +72,6 @@ export const securityMiddleware: MiddlewareFunction<Response> = async ({ request
     if (name === "Content-Security-Policy" && response.headers.has(name)) continue;
     response.headers.set(name, value);
   }
+  if (!response.headers.has("Cache-Control")) response.headers.set("Cache-Control", "no-store");
   return response;
 };

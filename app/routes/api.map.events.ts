@@ -15,6 +15,6 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (!parsed.ok) apiError(400, parsed.message, { errors: { [parsed.field]: [parsed.message] } });
   const collection = await mapEvents(parsed.filters).catch((error) => rethrowDatabaseDown(request, error));
   return new Response(JSON.stringify(collection), {
-    headers: { "Content-Type": "application/geo+json; charset=utf-8", "Cache-Control": "private, no-cache" },
+    headers: { "Content-Type": "application/geo+json; charset=utf-8", "Cache-Control": "private, no-store" },
   });
 }

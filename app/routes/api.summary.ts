@@ -13,6 +13,6 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (!parsed.ok) apiError(400, parsed.message, { errors: { [parsed.field]: [parsed.message] } });
   const summary = await usageSummary(parsed.filters, timeZone).catch((error) => rethrowDatabaseDown(request, error));
   return Response.json(summary, {
-    headers: { "Cache-Control": "private, no-cache" },
+    headers: { "Cache-Control": "private, no-store" },
   });
 }

@@ -222,3 +222,37 @@ describe("new passwords", () => {
     expect(replyOf(change.value).initialValue?.newPassword).toBeUndefined();
   });
 });
+
+describe("where sign-in sends you", () => {
+  const hostile = ["%2F%09%2Fevil.example", "%2F%2Fevil.example", "%2F%0Aevil", "%2F%0D%2Fevil", "%2F%E3%80%80%2Fevil"];
+
+  it("goes home, never elsewhere and never a 500, for a signed-in visitor", async () => {
+    const { loader: signInLoader } = await import("~/routes/sign-in");
+    const user = await makeUser(["officer"]);
+    const cookie = await signIn(user.email, TEST_PASSWORD);
+    for (const encoded of hostile) {
+      const outcome = await settle(() =>
+        signInLoader(routeArgs(getRequest(`/sign-in?redirectTo=${encoded}`, { Cookie: cookie }))),
+      );
+      expect((outcome.value as Response).status, encoded).toBe(302);
+      expect((outcome.value as Response).headers.get("Location"), encoded).toBe("/");
+    }
+    const kept = await settle(() =>
+      signInLoader(routeArgs(getRequest(`/sign-in?redirectTo=${encodeURIComponent("/map?x=1")}`, { Cookie: cookie }))),
+    );
+    expect((kept.value as Response).headers.get("Location")).toBe("/map?x=1");
+  });
+
+  it("goes home after signing in with a hostile redirectTo in the form", async () => {
+    const user = await makeUser(["officer"]);
+    for (const encoded of hostile) {
+      const request = formRequest(
+        "/sign-in",
+        { email: user.email, password: TEST_PASSWORD, redirectTo: decodeURIComponent(encoded) },
+        { "x-foamtally-client-address": "10.7.7.7" },
+      );
+      const outcome = await settle(() => signInAction(routeArgs(request)));
+      expect((outcome.value as Response).headers.get("Location"), encoded).toBe("/");
+    }
+  });
+});
