@@ -45,29 +45,40 @@ const STALE_CLAIM_MINUTES = 10;
 export type DeliveryOutcome = { sent: number; failed: number; retrying: number };
 
 /**
- * Sends what is due. Each message is claimed with a conditional update first, so two server
- * processes (or the timer and a route) never send the same message twice.
+ * Takes up to `limit` due messages for this process: in one short transaction the rows are locked
+ * with `SELECT … FOR UPDATE SKIP LOCKED` and marked `sending`, so two app servers (or the timer and
+ * a route) never take the same message, and neither waits for the other's locks.
  */
+async function claimDueMail(limit: number): Promise<number[]> {
+  return db.transaction(async (trx) => {
+    const ids: number[] = await trx("mail_outbox")
+      .where((q) =>
+        q
+          .where((w) => w.where("status", "queued").where("next_attempt_at", "<=", trx.fn.now(3)))
+          .orWhere((w) =>
+            w
+              .where("status", "sending")
+              .where("claimed_at", "<", trx.raw("NOW(3) - INTERVAL ? MINUTE", [STALE_CLAIM_MINUTES])),
+          ),
+      )
+      .orderBy("id")
+      .limit(limit)
+      .forUpdate()
+      .skipLocked()
+      .pluck("id");
+    if (ids.length > 0) {
+      await trx("mail_outbox")
+        .whereIn("id", ids)
+        .update({ status: "sending", claimed_at: trx.fn.now(3) });
+    }
+    return ids;
+  });
+}
+
+/** Sends what is due, each message claimed first (`claimDueMail`). */
 export async function deliverPendingMail(options: { smtpUrl?: string; limit?: number } = {}): Promise<DeliveryOutcome> {
   const outcome: DeliveryOutcome = { sent: 0, failed: 0, retrying: 0 };
-  const due = await db("mail_outbox")
-    .where((q) =>
-      q
-        .where((w) => w.where("status", "queued").where("next_attempt_at", "<=", db.fn.now(3)))
-        .orWhere((w) =>
-          w
-            .where("status", "sending")
-            .where("claimed_at", "<", db.raw("NOW(3) - INTERVAL ? MINUTE", [STALE_CLAIM_MINUTES])),
-        ),
-    )
-    .orderBy("id")
-    .limit(options.limit ?? 50)
-    .select("id", "status");
-  for (const { id, status } of due) {
-    const claimed = await db("mail_outbox")
-      .where({ id, status })
-      .update({ status: "sending", claimed_at: db.fn.now(3) });
-    if (!claimed) continue;
+  for (const id of await claimDueMail(options.limit ?? 50)) {
     const row = await db("mail_outbox").where({ id }).first();
     try {
       const { messageId } = await sendMail(
