@@ -10,6 +10,12 @@ import { DATABASE_DOWN_MESSAGE, isDatabaseDown } from "~/lib/http.server";
 import { startSession } from "~/lib/session.server";
 import { SignInFormSchema } from "~/lib/sign-in-form";
 
+/** A throttled attempt's Retry-After reaches the page's response, not only a data request's. */
+export const headers: Route.HeadersFunction = ({ actionHeaders }) => {
+  const retryAfter = actionHeaders.get("Retry-After");
+  return retryAfter ? { "Retry-After": retryAfter } : new Headers();
+};
+
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
