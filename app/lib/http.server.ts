@@ -1,4 +1,5 @@
 import { data } from "react-router";
+import { recordIdOf } from "./record-id";
 
 /** The one way a loader or action stops with a status and a message a person can act on. */
 export function httpError(status: number, message: string): never {
@@ -56,4 +57,15 @@ export function rethrowDatabaseDown(request: Request, error: unknown): never {
 
 export function clientAddress(request: Request): string {
   return request.headers.get("x-foamtally-client-address") ?? "unknown";
+}
+
+/**
+ * The record id an address names (`params.id`), or a 404 before any query: JSON for `/api/*`, the
+ * error page otherwise.
+ */
+export function requireRecordId(request: Request, value: string | undefined, message: string): number {
+  const id = recordIdOf(value);
+  if (id != null) return id;
+  if (isApiRequest(request)) apiError(404, message);
+  httpError(404, message);
 }

@@ -204,6 +204,76 @@ export function draftLines(payload: Record<string, unknown>) {
   };
 }
 
+type ReferenceLine = { apparatusId?: unknown; productId?: unknown };
+type References = { stationId: unknown; discharges: ReferenceLine[]; tankReadings: ReferenceLine[] };
+
+const REFERENCE_MESSAGES = {
+  stationId: "That station is not in the list. Choose one of the agency's stations.",
+  apparatusId: "That apparatus is not in the list. Choose one of the agency's apparatus.",
+  productId: "That foam product is not in the list. Choose one from the catalogue.",
+} as const;
+
+/** The stations, apparatus and products a report names, as typed (a draft) or as validated (filing). */
+function referencesOf(filing: boolean, payload: Record<string, unknown>, report?: FiledReport): References {
+  if (filing && report) {
+    return { stationId: report.stationId, discharges: report.discharges, tankReadings: report.tankReadings ?? [] };
+  }
+  return {
+    stationId: numeric(payload.stationId),
+    discharges: asArray(payload.discharges).map(coerceLine),
+    tankReadings: asArray(payload.tankReadings).map(coerceLine),
+  };
+}
+
+const candidateId = (value: unknown): number | null =>
+  typeof value === "number" && Number.isInteger(value) && value > 0 ? value : null;
+
+/**
+ * Field errors for every station, apparatus or product the report names that does not exist, keyed
+ * as the form names its fields (`discharges[2].productId`), so the save refuses at the field instead
+ * of failing on a foreign key.
+ */
+async function unknownReferences(connection: Db, references: References): Promise<Record<string, string[]>> {
+  const wanted = { stations: new Set<number>(), apparatus: new Set<number>(), foam_products: new Set<number>() };
+  const station = candidateId(references.stationId);
+  if (station) wanted.stations.add(station);
+  for (const line of [...references.discharges, ...references.tankReadings]) {
+    const apparatus = candidateId(line?.apparatusId);
+    const product = candidateId(line?.productId);
+    if (apparatus) wanted.apparatus.add(apparatus);
+    if (product) wanted.foam_products.add(product);
+  }
+  const existing = async (table: keyof typeof wanted) =>
+    wanted[table].size
+      ? new Set<number>(
+          (
+            await connection(table)
+              .whereIn("id", [...wanted[table]])
+              .select("id")
+          ).map((row: { id: number }) => row.id),
+        )
+      : new Set<number>();
+  const [stations, apparatus, products] = await Promise.all([
+    existing("stations"),
+    existing("apparatus"),
+    existing("foam_products"),
+  ]);
+  const errors: Record<string, string[]> = {};
+  if (station && !stations.has(station)) errors.stationId = [REFERENCE_MESSAGES.stationId];
+  const lines = (list: "discharges" | "tankReadings") =>
+    references[list].forEach((line, index) => {
+      const apparatusId = candidateId(line?.apparatusId);
+      const productId = candidateId(line?.productId);
+      if (apparatusId && !apparatus.has(apparatusId)) {
+        errors[`${list}[${index}].apparatusId`] = [REFERENCE_MESSAGES.apparatusId];
+      }
+      if (productId && !products.has(productId)) errors[`${list}[${index}].productId`] = [REFERENCE_MESSAGES.productId];
+    });
+  lines("discharges");
+  lines("tankReadings");
+  return errors;
+}
+
 async function nextEventNumber(connection: Db, kind: EventKind, year: number): Promise<string> {
   const prefix = { incident: "AB", training: "TR", test: "PT", flush: "FL" }[kind];
   const stem = `${prefix}-${year}-`;
@@ -256,6 +326,15 @@ export async function saveReport(saveRequest: SaveRequest, hooks: SaveHooks = {}
       if (previous?.event_id) return { kind: "repeat", eventId: previous.event_id } as const;
 
       const report = request.report;
+      const missing = await unknownReferences(trx, referencesOf(filing, request.payload, report));
+      if (Object.keys(missing).length) {
+        throw new SaveRefused({
+          kind: "refused",
+          status: 400,
+          message: `The report was not ${filing ? "filed" : "saved"}: it names a record that does not exist. Choose again in the fields marked below; everything you typed is kept.`,
+          fieldErrors: missing,
+        });
+      }
       const { timeZone } = await readAgencySettings(trx);
       const columns = filing
         ? {

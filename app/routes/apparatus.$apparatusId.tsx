@@ -7,6 +7,7 @@ import { requireCapability } from "~/lib/access.server";
 import { ApparatusFormSchema } from "~/lib/catalogue/apparatus-form";
 import { APPLICATION_METHOD_LABELS, APPLICATION_METHODS, FLOW_BASES, FLOW_BASIS_LABELS } from "~/lib/foam/vocabulary";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
+import { recordIdOf } from "~/lib/record-id";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
@@ -24,8 +25,8 @@ export const meta: Route.MetaFunction = ({ data }) => [
 
 function apparatusIdOf(params: { apparatusId?: string }): number | null {
   if (params.apparatusId === "new") return null;
-  const id = Number(params.apparatusId);
-  if (!Number.isInteger(id) || id <= 0) httpError(404, "No such apparatus.");
+  const id = recordIdOf(params.apparatusId);
+  if (id == null) httpError(404, "No such apparatus.");
   return id;
 }
 

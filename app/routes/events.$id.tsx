@@ -8,7 +8,7 @@ import { ReportSummary } from "~/components/report-summary";
 import { can, changeCapabilityFor } from "~/lib/access";
 import { authorize, requireCapability } from "~/lib/access.server";
 import { readFormData } from "~/lib/form-data.server";
-import { clientAddress, invariantResponse } from "~/lib/http.server";
+import { clientAddress, invariantResponse, requireRecordId } from "~/lib/http.server";
 import { ReviewSchema } from "~/lib/foam/report-schema";
 import { EVENT_STATUS_LABELS } from "~/lib/foam/vocabulary";
 import { flashHeaders } from "~/lib/session.server";
@@ -21,7 +21,7 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireCapability(request, "report.read");
-  const report = await getReport(Number(params.id));
+  const report = await getReport(requireRecordId(request, params.id, "No such report."));
   invariantResponse(report, "No such report.");
   authorize(request, user, "report.read", report);
   const { draft: _draft, ...visible } = report;
@@ -35,7 +35,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireCapability(request, "report.review");
-  const record = await reportAccessRecord(Number(params.id));
+  const eventId = requireRecordId(request, params.id, "No such report.");
+  const record = await reportAccessRecord(eventId);
   invariantResponse(record, "No such report.");
   authorize(request, user, "report.review", record);
   const submission = parseWithZod(await readFormData(request, ReviewSchema), { schema: ReviewSchema });
@@ -43,7 +44,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const outcome = await reviewReport(
     {
       user,
-      eventId: Number(params.id),
+      eventId,
       version: submission.value.version,
       decision: submission.value.decision,
       comment: submission.value.comment,
@@ -60,7 +61,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (outcome.status === "returned") deliverPendingMailSoon();
   const message =
     outcome.status === "accepted" ? "Report accepted." : "Report returned to its officer with your comment.";
-  throw redirect(`/events/${params.id}`, { headers: await flashHeaders(request, message) });
+  throw redirect(`/events/${eventId}`, { headers: await flashHeaders(request, message) });
 }
 
 export default function EventReport({ loaderData, actionData }: Route.ComponentProps) {

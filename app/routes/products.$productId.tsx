@@ -7,6 +7,7 @@ import { requireCapability } from "~/lib/access.server";
 import { looksLikePdf, ProductFormSchema, SAFETY_SHEET_MAX_BYTES } from "~/lib/catalogue/product-form";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
 import { FOAM_TYPE_LABELS, FOAM_TYPES, PFAS_CONTENT_UNIT_LABELS, PFAS_CONTENT_UNITS } from "~/lib/foam/vocabulary";
+import { recordIdOf } from "~/lib/record-id";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { can } from "~/lib/access";
@@ -21,8 +22,8 @@ export const meta: Route.MetaFunction = ({ data }) => [
 
 function productIdOf(params: { productId?: string }): number | null {
   if (params.productId === "new") return null;
-  const id = Number(params.productId);
-  if (!Number.isInteger(id) || id <= 0) httpError(404, "No such product.");
+  const id = recordIdOf(params.productId);
+  if (id == null) httpError(404, "No such product.");
   return id;
 }
 

@@ -6,6 +6,7 @@ import { CheckboxField, FormErrors, TextField } from "~/components/form-fields";
 import { requireCapability } from "~/lib/access.server";
 import { StationFormSchema } from "~/lib/catalogue/apparatus-form";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
+import { recordIdOf } from "~/lib/record-id";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
@@ -17,8 +18,8 @@ export const meta: Route.MetaFunction = ({ data }) => [
 
 function stationIdOf(params: { stationId?: string }): number | null {
   if (params.stationId === "new") return null;
-  const id = Number(params.stationId);
-  if (!Number.isInteger(id) || id <= 0) httpError(404, "No such station.");
+  const id = recordIdOf(params.stationId);
+  if (id == null) httpError(404, "No such station.");
   return id;
 }
 
