@@ -15,9 +15,10 @@ import { boundedDraft } from "~/lib/foam/report-draft.server";
 import { computeUsage, type DischargeInput, type TankReading, type UsageResult } from "~/lib/foam/totals";
 import { changeCapabilityFor, decide } from "~/lib/access";
 import { EVENT_KINDS, type EventKind, type EventStatus } from "~/lib/foam/vocabulary";
-import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
+import { wallClockToInstant } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
 import { apparatusFactsMap, productFactsMap } from "./catalogue.server";
+import { allocateEventNumber, agencyYear } from "./event-number.server";
 import { reportRecordOf } from "./event-read.server";
 import {
   dischargeInputs,
@@ -274,20 +275,6 @@ async function unknownReferences(connection: Db, references: References): Promis
   return errors;
 }
 
-async function nextEventNumber(connection: Db, kind: EventKind, year: number): Promise<string> {
-  const prefix = { incident: "AB", training: "TR", test: "PT", flush: "FL" }[kind];
-  const stem = `${prefix}-${year}-`;
-  const last = await connection("events").where("number", "like", `${stem}%`).max({ number: "number" }).first();
-  const lastSequence = last?.number ? Number(String(last.number).slice(stem.length)) || 0 : 0;
-  return `${stem}${String(lastSequence + 1).padStart(4, "0")}`;
-}
-
-/** A suggestion for a new report's number (the officer may type the dispatch number instead). */
-export async function suggestEventNumber(kind: EventKind = "incident", now = new Date()): Promise<string> {
-  const year = Number(instantToWallClock(now, (await readAgencySettings()).timeZone).slice(0, 4));
-  return nextEventNumber(db, kind, year);
-}
-
 async function snapshotEvent(eventId: number, connection: Db) {
   const [event, discharges, dispositions, tankReadings] = await Promise.all([
     connection("events").where({ id: eventId }).first(),
@@ -338,7 +325,7 @@ export async function saveReport(saveRequest: SaveRequest, hooks: SaveHooks = {}
       const { timeZone } = await readAgencySettings(trx);
       const columns = filing
         ? {
-            number: report!.number,
+            number: report!.number ?? "",
             kind: report!.kind,
             started_at: wallClockToInstant(report!.startedAt, timeZone),
             cleared_at: wallClockToInstant(report!.clearedAt, timeZone),
@@ -461,7 +448,7 @@ export async function saveReport(saveRequest: SaveRequest, hooks: SaveHooks = {}
         status = filing ? "filed" : "draft";
         const number =
           columns.number ||
-          (await nextEventNumber(trx, columns.kind, (columns.started_at ?? new Date()).getUTCFullYear()));
+          (await allocateEventNumber(trx, columns.kind, await agencyYear(columns.started_at ?? new Date(), trx)));
         [eventId] = await trx("events").insert({
           ...columns,
           number,

@@ -175,7 +175,7 @@ export function validateLayer(kind: LayerKind, text: string): LayerValidation {
   if (crs && crsName != null && typeof crsName !== "string") {
     return { ok: false, errors: ['The file\'s "crs" name is not a string; GeoJSON (RFC 7946) uses WGS 84 only.'] };
   }
-  if (crs && !/CRS84|4326/i.test(crsName ?? "")) {
+  if (crs && !/CRS84|4326/i.test(typeof crsName === "string" ? crsName : "")) {
     return {
       ok: false,
       errors: [
