@@ -311,6 +311,13 @@ export async function saveReport(saveRequest: SaveRequest, hooks: SaveHooks = {}
     return await db.transaction(async (trx) => {
       const previous = await trx("form_submissions").where({ submission_key: request.submissionKey }).first();
       if (previous?.event_id) return { kind: "repeat", eventId: previous.event_id } as const;
+      // Claim the key before anything else: a second request with it waits here until this one
+      // commits (then it answers with this report) or rolls back (then it goes on itself).
+      await trx("form_submissions").insert({
+        submission_key: request.submissionKey,
+        user_id: request.user.id,
+        event_id: null,
+      });
 
       const report = request.report;
       const missing = await unknownReferences(trx, referencesOf(filing, request.payload, report));
@@ -462,11 +469,7 @@ export async function saveReport(saveRequest: SaveRequest, hooks: SaveHooks = {}
       }
 
       await writeReportLines(trx, eventId!, stored, usage, { replace: true });
-      await trx("form_submissions").insert({
-        submission_key: request.submissionKey,
-        user_id: request.user.id,
-        event_id: eventId,
-      });
+      await trx("form_submissions").where({ submission_key: request.submissionKey }).update({ event_id: eventId });
       const after = await snapshotEvent(eventId!, trx);
       const revised = before !== null && revision > before.event.revision;
       const action = revised

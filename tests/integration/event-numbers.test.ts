@@ -71,3 +71,44 @@ describe("event numbers allocated in the database", () => {
     }
   });
 });
+
+describe("repeated File report clicks", () => {
+  it("20 requests with one submission key make one report, and every answer points to it", async () => {
+    const number = `REP-${randomUUID().slice(0, 8)}`;
+    const fields = {
+      intent: "file",
+      submissionKey: randomUUID(),
+      number,
+      kind: "training",
+      startedAt: "2026-04-01T09:00",
+      clearedAt: "2026-04-01T10:00",
+      address: "12 Drill Yard",
+      latitude: "38.7",
+      longitude: "-98.2",
+      stationId: String(stationId),
+      "discharges[0].flow": "100",
+      "discharges[0].flowUnit": "gpm",
+      "discharges[0].basis": "water",
+      "discharges[0].minutes": "5",
+      "dispositions[0].disposition": "soil",
+      "dispositions[0].sharePercent": "100",
+    };
+    const answers = await Promise.all(Array.from({ length: 20 }, () => send(fields)));
+    const events = await db("events").where({ number });
+    expect(events).toHaveLength(1);
+    expect(answers.map((answer) => answer.status)).toEqual(Array(20).fill(302));
+    expect(answers.map((answer) => answer.eventId)).toEqual(Array(20).fill(events[0].id));
+    expect(await db("form_submissions").where({ submission_key: fields.submissionKey })).toMatchObject([
+      { event_id: events[0].id },
+    ]);
+  });
+
+  it("a refused first attempt leaves the key free for the corrected one", async () => {
+    const submissionKey = randomUUID();
+    const refused = await send({ ...draft(2034), submissionKey, stationId: "4000000000" });
+    expect(refused.status).toBe(400);
+    expect(await db("form_submissions").where({ submission_key: submissionKey })).toEqual([]);
+    const saved = await send({ ...draft(2034), submissionKey });
+    expect(saved.status).toBe(302);
+  });
+});
