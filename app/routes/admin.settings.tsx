@@ -7,6 +7,7 @@ import { AgencySettingsSchema } from "~/lib/agency-settings-form";
 import { requireCapability } from "~/lib/access.server";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, rethrowDatabaseDown } from "~/lib/http.server";
+import { conflict, refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { saveAgencySettings } from "~/models/agency.server";
 import { readAgencySettings } from "~/models/agency-settings.server";
@@ -31,16 +32,12 @@ export async function action({ request }: Route.ActionArgs) {
     rethrowDatabaseDown(request, error),
   );
   if (!outcome.ok) {
-    return data(
-      {
-        result: submission.reply({
-          formErrors: [
-            "Someone else saved the agency settings after you opened this page. Nothing of yours was saved: compare the stored values below with yours, then save again.",
-          ],
-        }),
-        conflict: outcome.conflict,
-      },
-      { status: 409 },
+    return refusalData(
+      submission,
+      conflict(
+        "Someone else saved the agency settings after you opened this page. Nothing of yours was saved: compare the stored values below with yours, then save again.",
+      ),
+      { conflict: outcome.conflict },
     );
   }
   const message =

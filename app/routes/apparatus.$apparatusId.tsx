@@ -10,6 +10,7 @@ import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } f
 import { recordIdOf } from "~/lib/record-id";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
+import { conflict, refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import {
   DuplicateCodeError,
@@ -51,7 +52,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     invariantResponse(saved, "No such apparatus.");
   } catch (error) {
     if (error instanceof StaleRecordError) {
-      return data({ result: submission.reply({ formErrors: [staleRecordMessage("apparatus")] }) }, { status: 409 });
+      return refusalData(submission, conflict(staleRecordMessage("apparatus")));
     }
     if (error instanceof DuplicateCodeError) {
       return data(

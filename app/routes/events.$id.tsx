@@ -11,11 +11,10 @@ import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, invariantResponse, requireRecordId } from "~/lib/http.server";
 import { ReviewSchema } from "~/lib/foam/report-schema";
 import { EVENT_STATUS_LABELS } from "~/lib/foam/vocabulary";
+import { refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { reviewReport } from "~/models/event.server";
 import { getReport, reportAccessRecord, reportHistory } from "~/models/event-read.server";
-import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
-import { reviewHooks } from "~/models/report-form.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.number ?? "Report"} · Foamtally` }];
 
@@ -41,24 +40,15 @@ export async function action({ request, params }: Route.ActionArgs) {
   authorize(request, user, "report.review", record);
   const submission = parseWithZod(await readFormData(request, ReviewSchema), { schema: ReviewSchema });
   if (submission.status !== "success") return data({ result: submission.reply() }, { status: 400 });
-  const outcome = await reviewReport(
-    {
-      user,
-      eventId,
-      version: submission.value.version,
-      decision: submission.value.decision,
-      comment: submission.value.comment,
-      clientAddress: clientAddress(request),
-    },
-    reviewHooks,
-  );
-  if (outcome.kind !== "done") {
-    return data(
-      { result: submission.reply({ formErrors: [outcome.message] }) },
-      { status: outcome.kind === "conflict" ? 409 : outcome.status },
-    );
-  }
-  if (outcome.status === "returned") deliverPendingMailSoon();
+  const outcome = await reviewReport({
+    user,
+    eventId,
+    version: submission.value.version,
+    decision: submission.value.decision,
+    comment: submission.value.comment,
+    clientAddress: clientAddress(request),
+  });
+  if (outcome.kind !== "done") return refusalData(submission, outcome);
   const message =
     outcome.status === "accepted" ? "Report accepted." : "Report returned to its officer with your comment.";
   throw redirect(`/events/${eventId}`, { headers: await flashHeaders(request, message) });

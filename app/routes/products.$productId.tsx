@@ -12,6 +12,7 @@ import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { can } from "~/lib/access";
 import { UPLOAD_BODY_MAX_BYTES } from "~/lib/request-limits";
+import { conflict, refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { StorageUnavailableError } from "~/lib/storage.server";
 import { DuplicateProductNameError, getProduct, saveProduct, type SafetySheetUpload } from "~/models/product.server";
@@ -81,7 +82,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     savedId = await saveProduct(id, submittedVersion(formData), submission.value, sheet, user, clientAddress(request));
   } catch (error) {
     if (error instanceof StaleRecordError) {
-      return data({ result: submission.reply({ formErrors: [staleRecordMessage("product")] }) }, { status: 409 });
+      return refusalData(submission, conflict(staleRecordMessage("product")));
     }
     if (error instanceof DuplicateProductNameError) {
       return data(

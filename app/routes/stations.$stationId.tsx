@@ -9,6 +9,7 @@ import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } f
 import { recordIdOf } from "~/lib/record-id";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
+import { conflict, refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { DuplicateCodeError, getStation, saveStation } from "~/models/apparatus.server";
 
@@ -43,7 +44,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     invariantResponse(saved, "No such station.");
   } catch (error) {
     if (error instanceof StaleRecordError) {
-      return data({ result: submission.reply({ formErrors: [staleRecordMessage("station")] }) }, { status: 409 });
+      return refusalData(submission, conflict(staleRecordMessage("station")));
     }
     if (!(error instanceof DuplicateCodeError)) throw error;
     return data(
