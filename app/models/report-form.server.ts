@@ -17,7 +17,6 @@ import {
   invariantResponse,
   isDatabaseDown,
   isDatabaseDownResponse,
-  rethrowDatabaseDown,
 } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { refusalData } from "~/lib/refusal";
@@ -30,7 +29,7 @@ import { reportAccessRecord } from "~/models/event-read.server";
  */
 export async function requireReportChange(request: Request, eventId: number): Promise<SessionUser> {
   const user = await requireUser(request);
-  const record = await reportAccessRecord(eventId).catch((error) => rethrowDatabaseDown(request, error));
+  const record = await reportAccessRecord(eventId);
   invariantResponse(record, "No such report.");
   authorize(request, user, changeCapabilityFor(record.status), record);
   return user;
