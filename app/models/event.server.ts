@@ -96,24 +96,6 @@ export async function computeForInputs(
   });
 }
 
-export async function computeReport(
-  report: Pick<FiledReport, "discharges" | "tankReadings" | "startedAt" | "clearedAt">,
-  connection: Db = db,
-): Promise<UsageResult> {
-  const { timeZone } = await readAgencySettings(connection);
-  return computeForInputs(
-    dischargeInputs(storedDischarges(report.discharges, timeZone)),
-    {
-      tankReadings: tankReadingInputs(storedTankReadings(report.tankReadings)),
-      eventWindow: {
-        start: wallClockToInstant(report.startedAt, timeZone),
-        end: wallClockToInstant(report.clearedAt, timeZone),
-      },
-    },
-    connection,
-  );
-}
-
 // ---------------------------------------------------------------------------------------------
 // Saving
 
