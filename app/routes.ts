@@ -35,5 +35,6 @@ export default [
   route("reports/environmental.xlsx", "routes/reports.environmental-xlsx.ts"),
   route("reports/environmental.csv", "routes/reports.environmental-csv.ts"),
   route("admin/outbox", "routes/admin.outbox.tsx"),
+  route("api/*", "routes/api.not-found.ts"),
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

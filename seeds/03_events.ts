@@ -1,3 +1,4 @@
+import { DEFAULT_EVENT_NUMBER_PREFIX, eventNumberSeries, formatEventNumber } from "../app/lib/foam/event-number";
 import type { Knex } from "knex";
 import type { EventKind, EventStatus } from "../app/lib/foam/vocabulary";
 import type { ReportDischarge, ReportRunoff, ReportTankReading } from "../app/models/report-rows.server";
@@ -604,14 +605,16 @@ export function buildDemoEvents(ids: DemoIds): EventSpec[] {
     }
   }
   events.sort((a, b) => (a.startedAt?.getTime() ?? 0) - (b.startedAt?.getTime() ?? 0));
-  // Numbers in time order per series: AB- incidents, TR- training, MX- tests and flushes.
+  // Numbers in time order per series, by the app's own numbering rule (the demo agency's prefix is
+  // the default, AB); the app's counters start after them.
   const counters = new Map<string, number>();
   for (const event of events) {
-    const series = event.kind === "incident" ? "AB" : event.kind === "training" ? "TR" : "MX";
-    const key = `${series}-${event.startedAt!.getUTCFullYear()}`;
-    const next = (counters.get(key) ?? (series === "AB" && key.endsWith("2025") ? 130 : 0)) + 1;
+    const series = eventNumberSeries(event.kind, DEFAULT_EVENT_NUMBER_PREFIX);
+    const year = event.startedAt!.getUTCFullYear();
+    const key = `${series}-${year}`;
+    const next = (counters.get(key) ?? (series === "AB" && year === 2025 ? 130 : 0)) + 1;
     counters.set(key, next);
-    event.number = `${key}-${String(next).padStart(4, "0")}`;
+    event.number = formatEventNumber(series, year, next);
   }
   return events;
 }

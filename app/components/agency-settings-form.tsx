@@ -87,6 +87,7 @@ function CurrentValues({ settings }: { settings: AgencySettingsView }) {
     ["Agency name", settings.name],
     ["Time zone", settings.timeZone],
     ["Units shown first", DISPLAY_UNIT_LABELS[settings.displayUnits]],
+    ["Incident number prefix", `${settings.eventNumberPrefix} (e.g. ${settings.eventNumberPrefix}-2026-0001)`],
     [
       "Waterway buffer",
       `${formatNumber(settings.waterwayBufferM)} m (${formatNumber(feetFromMetres(settings.waterwayBufferM), 1)} ft)`,
@@ -136,6 +137,7 @@ export function AgencySettingsForm({
       name: settings.name,
       timeZone: settings.timeZone,
       displayUnits: settings.displayUnits,
+      eventNumberPrefix: settings.eventNumberPrefix,
       waterwayBufferM: String(settings.waterwayBufferM),
       drawdownTolerancePercent: String(percent(settings.drawdownToleranceShare)),
       pfasReportableLb: String(settings.pfasReportableLb),
@@ -152,6 +154,10 @@ export function AgencySettingsForm({
       : null;
   const nameProps = getInputProps(fields.name, { type: "text" });
   const zoneProps = getInputProps(fields.timeZone, { type: "text", ariaDescribedBy: `${fields.timeZone.id}-hint` });
+  const prefixProps = getInputProps(fields.eventNumberPrefix, {
+    type: "text",
+    ariaDescribedBy: `${fields.eventNumberPrefix.id}-hint`,
+  });
   const unitProps = getSelectProps(fields.displayUnits, { ariaDescribedBy: `${fields.displayUnits.id}-hint` });
 
   return (
@@ -219,6 +225,24 @@ export function AgencySettingsForm({
               ))}
             </select>
             <ErrorList id={fields.displayUnits.errorId} errors={fields.displayUnits.errors} />
+          </div>
+          <div>
+            <label htmlFor={fields.eventNumberPrefix.id} className="field-label">
+              Incident number prefix
+            </label>
+            <Hint id={`${fields.eventNumberPrefix.id}-hint`}>
+              Starts the numbers given to incident reports saved without a dispatch number, e.g. AB-2026-0042. One
+              letter, then up to five letters or digits; TR, PT and FL are kept for training, tests and flushes. Numbers
+              already given do not change.
+            </Hint>
+            <input
+              {...prefixProps}
+              key={prefixProps.key}
+              className="field-input max-w-40"
+              autoComplete="off"
+              autoCapitalize="characters"
+            />
+            <ErrorList id={fields.eventNumberPrefix.errorId} errors={fields.eventNumberPrefix.errors} />
           </div>
         </section>
 

@@ -77,6 +77,8 @@ export type ReportFormProps = {
   stations: StationOption[];
   apparatus: ApparatusOption[];
   products: ProductOption[];
+  /** The number a new report gets when the field is left blank (nothing is reserved). */
+  numberSuggestion?: string;
 };
 
 type TotalsVolume = { gal: number; L: number };
@@ -194,7 +196,15 @@ export function ReportForm(props: ReportFormProps) {
             Event
           </h2>
           <div className="grid gap-4 md:grid-cols-3">
-            <TextField label="Event number" field={fields.number} hint="Dispatch or training number." />
+            <TextField
+              label="Event number"
+              field={fields.number}
+              hint={
+                props.numberSuggestion
+                  ? `Dispatch or training number; leave it blank and the next one (${props.numberSuggestion}) is given when you save.`
+                  : "Dispatch or training number."
+              }
+            />
             <SelectField
               label="Kind"
               field={fields.kind}

@@ -262,6 +262,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "reports/environmental.xlsx": { GET: "exports.quarterly" },
   "reports/environmental.csv": { GET: "exports.quarterly" },
   "admin/outbox": { GET: "outbox.view", POST: "outbox.view" },
+  "api/*": { GET: "public", POST: "public" },
   "*": { GET: "public", POST: "public" },
 };
 

@@ -34,6 +34,14 @@ describe("agency settings form", () => {
     expect(isKnownTimeZone("Mars/Olympus_Mons")).toBe(false);
   });
 
+  it("takes the incident number prefix in capitals and refuses a fixed series or odd characters", () => {
+    expect(AgencySettingsSchema.parse({ ...valid, eventNumberPrefix: " nv2 " }).eventNumberPrefix).toBe("NV2");
+    expect(AgencySettingsSchema.parse(valid).eventNumberPrefix).toBeUndefined();
+    for (const prefix of ["TR", "PT", "FL", "2A", "A-B", "ABCDEFG", ""]) {
+      expect(AgencySettingsSchema.safeParse({ ...valid, eventNumberPrefix: prefix }).success).toBe(false);
+    }
+  });
+
   it("accepts a complete form and an empty release list", () => {
     const parsed = AgencySettingsSchema.parse(valid);
     expect(parsed.reportRecipients).toEqual(["a@test.example"]);

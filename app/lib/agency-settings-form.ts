@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { EVENT_NUMBER_PREFIX_PATTERN, isReservedPrefix } from "./foam/event-number";
 
 /** 1 ft = 0.3048 m exactly (definition of the international foot). */
 export const METRES_PER_FOOT = 0.3048;
@@ -72,6 +73,14 @@ export const AgencySettingsSchema = z.object({
     .trim()
     .refine(isKnownTimeZone, "Not a known time zone. Use an IANA name such as America/Chicago."),
   displayUnits: z.enum(DISPLAY_UNITS, { error: "Choose which units are shown first." }),
+  // Optional so that a form from before the field existed keeps the stored prefix.
+  eventNumberPrefix: z
+    .string()
+    .trim()
+    .toUpperCase()
+    .regex(EVENT_NUMBER_PREFIX_PATTERN, "One letter, then up to five letters or digits, e.g. AB.")
+    .refine((value) => !isReservedPrefix(value), "TR, PT and FL number training, tests and flushes; choose another.")
+    .optional(),
   waterwayBufferM: z
     .number({ error: "Give the buffer in metres, as a number." })
     .gt(0, "The buffer must be more than 0 m.")
@@ -105,6 +114,8 @@ export type AgencySettings = {
   name: string;
   timeZone: string;
   displayUnits: "us" | "metric";
+  /** The prefix of generated incident numbers (AB-2026-0042). */
+  eventNumberPrefix: string;
   waterwayBufferM: number;
   drawdownToleranceShare: number;
   pfasReportableLb: number;

@@ -1,4 +1,5 @@
 import { data } from "react-router";
+import { recordIdOf } from "./record-id";
 
 /** The one way a loader or action stops with a status and a message a person can act on. */
 export function httpError(status: number, message: string): never {
@@ -29,6 +30,7 @@ const DATABASE_DOWN_CODES = new Set([
 
 export function isDatabaseDown(error: unknown): boolean {
   if (!error || typeof error !== "object") return false;
+  if (isDatabaseDownResponse(error)) return true;
   const code = (error as { code?: unknown }).code;
   const name = (error as { name?: unknown }).name;
   const down = (typeof code === "string" && DATABASE_DOWN_CODES.has(code)) || name === "KnexTimeoutError";
@@ -39,7 +41,15 @@ export function isDatabaseDown(error: unknown): boolean {
 export const DATABASE_DOWN_MESSAGE =
   "The records database is not answering right now. Nothing was lost or half-saved; please try again in a minute.";
 
-/** Whether a thrown value is the 503 that `rethrowDatabaseDown` makes for pages. */
+/**
+ * The 503 a database outage becomes (`app/lib/db.server.ts` throws it from any query): `message`
+ * for the error page, `error` for `/api/*` JSON.
+ */
+export function databaseDownResponse() {
+  return data({ message: DATABASE_DOWN_MESSAGE, error: DATABASE_DOWN_MESSAGE }, { status: 503 });
+}
+
+/** Whether a thrown value is the 503 of a database outage. */
 export function isDatabaseDownResponse(thrown: unknown): boolean {
   const value = thrown as { init?: { status?: number }; data?: { message?: string } } | null;
   return value?.init?.status === 503 && value.data?.message === DATABASE_DOWN_MESSAGE;
@@ -47,7 +57,7 @@ export function isDatabaseDownResponse(thrown: unknown): boolean {
 
 /** Turns a database outage into a clear 503 for pages and APIs alike; rethrows anything else. */
 export function rethrowDatabaseDown(request: Request, error: unknown): never {
-  if (isDatabaseDown(error)) {
+  if (isDatabaseDown(error) || isDatabaseDownResponse(error)) {
     if (isApiRequest(request)) apiError(503, DATABASE_DOWN_MESSAGE);
     httpError(503, DATABASE_DOWN_MESSAGE);
   }
@@ -56,4 +66,15 @@ export function rethrowDatabaseDown(request: Request, error: unknown): never {
 
 export function clientAddress(request: Request): string {
   return request.headers.get("x-foamtally-client-address") ?? "unknown";
+}
+
+/**
+ * The record id an address names (`params.id`), or a 404 before any query: JSON for `/api/*`, the
+ * error page otherwise.
+ */
+export function requireRecordId(request: Request, value: string | undefined, message: string): number {
+  const id = recordIdOf(value);
+  if (id != null) return id;
+  if (isApiRequest(request)) apiError(404, message);
+  httpError(404, message);
 }

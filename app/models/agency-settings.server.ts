@@ -8,6 +8,7 @@ import {
   type AgencySettings,
 } from "~/lib/agency-settings-form";
 import { decimalOrNull } from "~/lib/decimal";
+import { DEFAULT_EVENT_NUMBER_PREFIX } from "~/lib/foam/event-number";
 import { db, type Db } from "~/lib/db.server";
 
 export const DEFAULT_TIME_ZONE = "America/Chicago";
@@ -33,6 +34,10 @@ function settingsFrom(row: SettingsRow): AgencySettings {
     name: typeof row?.name === "string" ? row.name : "",
     timeZone: typeof row?.time_zone === "string" && row.time_zone ? row.time_zone : DEFAULT_TIME_ZONE,
     displayUnits: row?.display_units === "metric" ? "metric" : "us",
+    eventNumberPrefix:
+      typeof row?.event_number_prefix === "string" && row.event_number_prefix
+        ? row.event_number_prefix
+        : DEFAULT_EVENT_NUMBER_PREFIX,
     waterwayBufferM: number(row?.waterway_buffer_m, DEFAULT_WATERWAY_BUFFER_M),
     drawdownToleranceShare: number(row?.drawdown_tolerance_share, DEFAULT_DRAWDOWN_TOLERANCE_SHARE),
     pfasReportableLb: number(row?.pfas_reportable_lb, DEFAULT_PFAS_REPORTABLE_LB),

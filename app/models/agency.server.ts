@@ -13,6 +13,7 @@ function auditedValues(settings: AuditedSettings): AuditedSettings {
     name: settings.name,
     timeZone: settings.timeZone,
     displayUnits: settings.displayUnits,
+    eventNumberPrefix: settings.eventNumberPrefix,
     waterwayBufferM: settings.waterwayBufferM,
     drawdownToleranceShare: settings.drawdownToleranceShare,
     pfasReportableLb: settings.pfasReportableLb,
@@ -45,6 +46,7 @@ export async function saveAgencySettings(
       name: input.name,
       time_zone: input.timeZone,
       display_units: input.displayUnits,
+      event_number_prefix: input.eventNumberPrefix ?? before.eventNumberPrefix,
       waterway_buffer_m: input.waterwayBufferM,
       drawdown_tolerance_share: Number((input.drawdownTolerancePercent / 100).toFixed(4)),
       pfas_reportable_lb: input.pfasReportableLb,
@@ -54,6 +56,7 @@ export async function saveAgencySettings(
     };
     const afterValues = auditedValues({
       ...input,
+      eventNumberPrefix: values.event_number_prefix,
       drawdownToleranceShare: values.drawdown_tolerance_share,
       classAAccuracyShare: values.class_a_accuracy_share,
     });

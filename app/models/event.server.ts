@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import { recordAudit } from "~/lib/audit.server";
+import { conflict, RefusalError, refused, type Refusal } from "~/lib/refusal";
 import type { SessionUser } from "~/lib/auth.server";
 import { decimalOrNull } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
@@ -15,10 +16,14 @@ import { boundedDraft } from "~/lib/foam/report-draft.server";
 import { computeUsage, type DischargeInput, type TankReading, type UsageResult } from "~/lib/foam/totals";
 import { changeCapabilityFor, decide } from "~/lib/access";
 import { EVENT_KINDS, type EventKind, type EventStatus } from "~/lib/foam/vocabulary";
-import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
+import { wallClockToInstant } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
 import { apparatusFactsMap, productFactsMap } from "./catalogue.server";
+import { allocateEventNumber, agencyYear } from "./event-number.server";
 import { reportRecordOf } from "./event-read.server";
+import { recomputeEventGeography } from "./geography.server";
+import { deliverPendingMailSoon } from "./mail-outbox.server";
+import { queueFiledReportAlerts, queueReturnedReportNotice } from "./report-notifications.server";
 import {
   dischargeInputs,
   tankReadingInputs,
@@ -91,24 +96,6 @@ export async function computeForInputs(
   });
 }
 
-export async function computeReport(
-  report: Pick<FiledReport, "discharges" | "tankReadings" | "startedAt" | "clearedAt">,
-  connection: Db = db,
-): Promise<UsageResult> {
-  const { timeZone } = await readAgencySettings(connection);
-  return computeForInputs(
-    dischargeInputs(storedDischarges(report.discharges, timeZone)),
-    {
-      tankReadings: tankReadingInputs(storedTankReadings(report.tankReadings)),
-      eventWindow: {
-        start: wallClockToInstant(report.startedAt, timeZone),
-        end: wallClockToInstant(report.clearedAt, timeZone),
-      },
-    },
-    connection,
-  );
-}
-
 // ---------------------------------------------------------------------------------------------
 // Saving
 
@@ -129,14 +116,7 @@ export type SaveRequest = {
 export type SaveOutcome =
   | { kind: "saved"; eventId: number; status: EventStatus; usage: UsageResult }
   | { kind: "repeat"; eventId: number }
-  | { kind: "conflict"; message: string }
-  | { kind: "refused"; status: 403 | 404 | 400; message: string; fieldErrors?: Record<string, string[]> };
-
-export class SaveRefused extends Error {
-  constructor(readonly outcome: Exclude<SaveOutcome, { kind: "saved" } | { kind: "repeat" }>) {
-    super("save refused");
-  }
-}
+  | Refusal;
 
 const text = (value: unknown, max: number) => (typeof value === "string" ? value.trim().slice(0, max) : "");
 const numeric = (value: unknown) =>
@@ -204,18 +184,74 @@ export function draftLines(payload: Record<string, unknown>) {
   };
 }
 
-async function nextEventNumber(connection: Db, kind: EventKind, year: number): Promise<string> {
-  const prefix = { incident: "AB", training: "TR", test: "PT", flush: "FL" }[kind];
-  const stem = `${prefix}-${year}-`;
-  const last = await connection("events").where("number", "like", `${stem}%`).max({ number: "number" }).first();
-  const lastSequence = last?.number ? Number(String(last.number).slice(stem.length)) || 0 : 0;
-  return `${stem}${String(lastSequence + 1).padStart(4, "0")}`;
+type ReferenceLine = { apparatusId?: unknown; productId?: unknown };
+type References = { stationId: unknown; discharges: ReferenceLine[]; tankReadings: ReferenceLine[] };
+
+const REFERENCE_MESSAGES = {
+  stationId: "That station is not in the list. Choose one of the agency's stations.",
+  apparatusId: "That apparatus is not in the list. Choose one of the agency's apparatus.",
+  productId: "That foam product is not in the list. Choose one from the catalogue.",
+} as const;
+
+/** The stations, apparatus and products a report names, as typed (a draft) or as validated (filing). */
+function referencesOf(filing: boolean, payload: Record<string, unknown>, report?: FiledReport): References {
+  if (filing && report) {
+    return { stationId: report.stationId, discharges: report.discharges, tankReadings: report.tankReadings ?? [] };
+  }
+  return {
+    stationId: numeric(payload.stationId),
+    discharges: asArray(payload.discharges).map(coerceLine),
+    tankReadings: asArray(payload.tankReadings).map(coerceLine),
+  };
 }
 
-/** A suggestion for a new report's number (the officer may type the dispatch number instead). */
-export async function suggestEventNumber(kind: EventKind = "incident", now = new Date()): Promise<string> {
-  const year = Number(instantToWallClock(now, (await readAgencySettings()).timeZone).slice(0, 4));
-  return nextEventNumber(db, kind, year);
+const candidateId = (value: unknown): number | null =>
+  typeof value === "number" && Number.isInteger(value) && value > 0 ? value : null;
+
+/**
+ * Field errors for every station, apparatus or product the report names that does not exist, keyed
+ * as the form names its fields (`discharges[2].productId`), so the save refuses at the field instead
+ * of failing on a foreign key.
+ */
+async function unknownReferences(connection: Db, references: References): Promise<Record<string, string[]>> {
+  const wanted = { stations: new Set<number>(), apparatus: new Set<number>(), foam_products: new Set<number>() };
+  const station = candidateId(references.stationId);
+  if (station) wanted.stations.add(station);
+  for (const line of [...references.discharges, ...references.tankReadings]) {
+    const apparatus = candidateId(line?.apparatusId);
+    const product = candidateId(line?.productId);
+    if (apparatus) wanted.apparatus.add(apparatus);
+    if (product) wanted.foam_products.add(product);
+  }
+  const existing = async (table: keyof typeof wanted) =>
+    wanted[table].size
+      ? new Set<number>(
+          (
+            await connection(table)
+              .whereIn("id", [...wanted[table]])
+              .select("id")
+          ).map((row: { id: number }) => row.id),
+        )
+      : new Set<number>();
+  const [stations, apparatus, products] = await Promise.all([
+    existing("stations"),
+    existing("apparatus"),
+    existing("foam_products"),
+  ]);
+  const errors: Record<string, string[]> = {};
+  if (station && !stations.has(station)) errors.stationId = [REFERENCE_MESSAGES.stationId];
+  const lines = (list: "discharges" | "tankReadings") =>
+    references[list].forEach((line, index) => {
+      const apparatusId = candidateId(line?.apparatusId);
+      const productId = candidateId(line?.productId);
+      if (apparatusId && !apparatus.has(apparatusId)) {
+        errors[`${list}[${index}].apparatusId`] = [REFERENCE_MESSAGES.apparatusId];
+      }
+      if (productId && !products.has(productId)) errors[`${list}[${index}].productId`] = [REFERENCE_MESSAGES.productId];
+    });
+  lines("discharges");
+  lines("tankReadings");
+  return errors;
 }
 
 async function snapshotEvent(eventId: number, connection: Db) {
@@ -230,217 +266,271 @@ async function snapshotEvent(eventId: number, connection: Db) {
 
 type Lines = ReturnType<typeof draftLines>;
 
-export type SaveHooks = {
-  /** Runs inside the transaction after a report is filed (alerts are queued with the report or not at all). */
-  afterFiled?: (eventId: number, trx: Knex.Transaction) => Promise<void>;
-  /** Runs inside the transaction after any save (stored geography checks). */
-  afterSaved?: (eventId: number, trx: Knex.Transaction) => Promise<void>;
-};
-
 function isDuplicateKey(error: unknown, index: string): boolean {
   const failure = error as { code?: string; sqlMessage?: string };
   return failure?.code === "ER_DUP_ENTRY" && (failure.sqlMessage ?? "").includes(index);
 }
 
+const refuse = (refusal: Refusal): never => {
+  throw new RefusalError(refusal);
+};
+
+/** Step 0: the submission key, claimed first; a key already used answers with its report. */
+async function claimSubmissionKey(trx: Knex.Transaction, request: SaveRequest): Promise<SaveOutcome | null> {
+  const previous = await trx("form_submissions").where({ submission_key: request.submissionKey }).first();
+  if (previous?.event_id) return { kind: "repeat", eventId: previous.event_id };
+  // A second request with this key waits here until this one commits (then it answers with this
+  // report) or rolls back (then it goes on itself).
+  await trx("form_submissions").insert({
+    submission_key: request.submissionKey,
+    user_id: request.user.id,
+    event_id: null,
+  });
+  return null;
+}
+
+type StoredEvent = {
+  id: number;
+  number: string;
+  status: EventStatus;
+  version: number;
+  revision: number;
+  created_by: number;
+  station_id: number | null;
+};
+
+type LoadedReport = {
+  columns: ReturnType<typeof draftColumns>;
+  lines: Lines;
+  stored: ReportLines;
+  usage: UsageResult;
+  /** The stored event, locked for the save (none for a new report). */
+  row: StoredEvent | null;
+};
+
+/** Step 1: what the form says, computed with the catalogue's facts, and the stored event, locked. */
+async function loadReport(trx: Knex.Transaction, request: SaveRequest): Promise<LoadedReport> {
+  const filing = request.intent === "file";
+  const report = request.report;
+  const missing = await unknownReferences(trx, referencesOf(filing, request.payload, report));
+  if (Object.keys(missing).length) {
+    refuse(
+      refused(
+        400,
+        `The report was not ${filing ? "filed" : "saved"}: it names a record that does not exist. Choose again in the fields marked below; everything you typed is kept.`,
+        missing,
+      ),
+    );
+  }
+  const { timeZone } = await readAgencySettings(trx);
+  const columns = filing
+    ? {
+        number: report!.number ?? "",
+        kind: report!.kind,
+        started_at: wallClockToInstant(report!.startedAt, timeZone),
+        cleared_at: wallClockToInstant(report!.clearedAt, timeZone),
+        address: report!.address,
+        latitude: report!.latitude,
+        longitude: report!.longitude,
+        station_id: report!.stationId,
+        narrative: report!.narrative ?? "",
+      }
+    : draftColumns(request.payload, timeZone);
+  const lines: Lines = filing
+    ? { discharges: report!.discharges, dispositions: report!.dispositions, tankReadings: report!.tankReadings ?? [] }
+    : draftLines(request.payload);
+  const stored = storedLines(lines, timeZone);
+  const usage = await computeForInputs(
+    dischargeInputs(stored.discharges),
+    {
+      tankReadings: tankReadingInputs(stored.tankReadings),
+      eventWindow: { start: columns.started_at, end: columns.cleared_at },
+    },
+    trx,
+  );
+  if (filing) {
+    const volumes = lines.dispositions.filter((line) => line.volumeGal != null);
+    const released = volumes.reduce((sum, line) => sum + line.volumeGal!, 0);
+    if (volumes.length && released > usage.totals.solution.gal * 1.0001) {
+      refuse(
+        refused(400, "The runoff volumes are more than the foam solution discharged.", {
+          dispositions: [
+            `The runoff volumes add up to ${released.toFixed(1)} gal, more than the ${usage.totals.solution.gal.toFixed(1)} gal of foam solution discharged.`,
+          ],
+        }),
+      );
+    }
+  }
+  const row = request.eventId
+    ? ((await trx("events").where({ id: request.eventId }).forUpdate().first()) ?? null)
+    : null;
+  if (request.eventId && !row) refuse(refused(404, "This report no longer exists."));
+  return { columns, lines, stored, usage, row };
+}
+
+type StatusChange = { status: EventStatus; revision: number; revised: boolean };
+
 /**
- * Saves a draft or files a report in one transaction: never half a report. A repeated submission
- * key answers with the report it already made; a stale version is a conflict, never an overwrite.
+ * Step 2: whether this person may make this change to this report now. Access first, then the
+ * version: a conflict never answers for a report one may not change.
  */
-export async function saveReport(saveRequest: SaveRequest, hooks: SaveHooks = {}): Promise<SaveOutcome> {
+function checkStatusChange(request: SaveRequest, row: LoadedReport["row"]): StatusChange {
+  const filing = request.intent === "file";
+  if (!row) return { status: filing ? "filed" : "draft", revision: 0, revised: false };
+  const decision = decide(request.user, changeCapabilityFor(row.status), reportRecordOf(row));
+  if (decision === "hidden") refuse(refused(404, "This report no longer exists."));
+  if (decision !== "allow") refuse(refused(403, "Your roles do not allow you to change this report."));
+  if (row.version !== request.version) {
+    refuse(
+      conflict(
+        "Someone else saved this report while you were editing it. Your changes are still in the form below and have not been saved; open the report in a new tab to see theirs, then file again to replace them.",
+      ),
+    );
+  }
+  if (row.status === "accepted") {
+    if (!filing) {
+      refuse(
+        refused(400, "An accepted report is not kept as a draft. File the change as a revision, with its reason."),
+      );
+    }
+    if (!request.revisionReason) {
+      refuse(
+        refused(400, "Give the reason for changing an accepted report.", {
+          revisionReason: ["Give the reason for changing an accepted report."],
+        }),
+      );
+    }
+    return { status: "filed", revision: row.revision + 1, revised: true };
+  }
+  if (row.status === "filed" && !filing) {
+    refuse(refused(400, "This report has been filed. Change it and file it again, or wait for the review."));
+  }
+  return {
+    status: filing ? "filed" : row.status === "returned" ? "returned" : "draft",
+    revision: row.revision,
+    revised: false,
+  };
+}
+
+/** Step 3: the event row (a number allocated when none was typed), its lines and the key's report. */
+async function writeReport(
+  trx: Knex.Transaction,
+  request: SaveRequest,
+  loaded: LoadedReport,
+  change: StatusChange,
+  before: Awaited<ReturnType<typeof snapshotEvent>> | null,
+): Promise<number> {
+  const filing = request.intent === "file";
+  const { columns, usage, row } = loaded;
+  const common = {
+    ...columns,
+    status: change.status,
+    draft_json: filing ? null : JSON.stringify(request.payload),
+    ...(filing ? { filed_by: request.user.id, filed_at: trx.fn.now() } : {}),
+    ...totalsColumns(usage),
+  };
+  let eventId: number;
+  if (row) {
+    eventId = row.id;
+    if (change.revised) {
+      await trx("event_revisions").insert({
+        event_id: eventId,
+        revision: row.revision,
+        reason: request.revisionReason,
+        snapshot_json: JSON.stringify(before),
+        created_by: request.user.id,
+      });
+    }
+    await trx("events")
+      .where({ id: eventId })
+      .update({
+        ...common,
+        number: columns.number || row.number,
+        version: row.version + 1,
+        revision: change.revision,
+        updated_at: trx.fn.now(),
+      });
+  } else {
+    const year = await agencyYear(columns.started_at ?? new Date(), trx);
+    const number = columns.number || (await allocateEventNumber(trx, columns.kind, year));
+    [eventId] = await trx("events").insert({ ...common, number, version: 1, created_by: request.user.id });
+  }
+  await writeReportLines(trx, eventId, loaded.stored, usage, { replace: true });
+  await trx("form_submissions").where({ submission_key: request.submissionKey }).update({ event_id: eventId });
+  return eventId;
+}
+
+/** Step 4: the audit row, with the report before and after. */
+async function auditReport(
+  trx: Knex.Transaction,
+  request: SaveRequest,
+  eventId: number,
+  change: StatusChange,
+  before: Awaited<ReturnType<typeof snapshotEvent>> | null,
+  lines: Lines,
+) {
+  const filing = request.intent === "file";
+  const after = await snapshotEvent(eventId, trx);
+  const action = change.revised
+    ? "report_revised"
+    : filing
+      ? "report_filed"
+      : before
+        ? "report_draft_saved"
+        : "report_created";
+  const count = lines.discharges.length;
+  await recordAudit(
+    {
+      actorUserId: request.user.id,
+      actorLabel: request.user.email,
+      action,
+      entityType: "event",
+      entityId: eventId,
+      summary: change.revised
+        ? `Revision ${change.revision}: ${request.revisionReason}`
+        : filing
+          ? `Filed with ${count} discharge${count === 1 ? "" : "s"}`
+          : "Draft saved",
+      before: before ?? undefined,
+      after,
+      clientAddress: request.clientAddress,
+    },
+    trx,
+  );
+}
+
+/**
+ * Saves a draft or files a report in one transaction: never half a report. Load → check the status
+ * change → write → audit, then what always goes with a save in the same transaction: the stored
+ * geography checks, and for a filed report its release alerts (mail is sent after commit). A repeated
+ * submission key answers with the report it already made; a stale version is a conflict, never an
+ * overwrite.
+ */
+export async function saveReport(saveRequest: SaveRequest): Promise<SaveOutcome> {
   const request = { ...saveRequest, payload: boundedDraft(saveRequest.payload) };
   const filing = request.intent === "file";
   if (filing && !request.report) throw new Error("filing needs a validated report");
   try {
-    return await db.transaction(async (trx) => {
-      const previous = await trx("form_submissions").where({ submission_key: request.submissionKey }).first();
-      if (previous?.event_id) return { kind: "repeat", eventId: previous.event_id } as const;
-
-      const report = request.report;
-      const { timeZone } = await readAgencySettings(trx);
-      const columns = filing
-        ? {
-            number: report!.number,
-            kind: report!.kind,
-            started_at: wallClockToInstant(report!.startedAt, timeZone),
-            cleared_at: wallClockToInstant(report!.clearedAt, timeZone),
-            address: report!.address,
-            latitude: report!.latitude,
-            longitude: report!.longitude,
-            station_id: report!.stationId,
-            narrative: report!.narrative ?? "",
-          }
-        : draftColumns(request.payload, timeZone);
-      const lines: Lines = filing
-        ? {
-            discharges: report!.discharges,
-            dispositions: report!.dispositions,
-            tankReadings: report!.tankReadings ?? [],
-          }
-        : draftLines(request.payload);
-      const stored = storedLines(lines, timeZone);
-      const usage = await computeForInputs(
-        dischargeInputs(stored.discharges),
-        {
-          tankReadings: tankReadingInputs(stored.tankReadings),
-          eventWindow: { start: columns.started_at, end: columns.cleared_at },
-        },
-        trx,
-      );
-      if (filing) {
-        const volumes = lines.dispositions.filter((line) => line.volumeGal != null);
-        const released = volumes.reduce((sum, line) => sum + line.volumeGal!, 0);
-        if (volumes.length && released > usage.totals.solution.gal * 1.0001) {
-          throw new SaveRefused({
-            kind: "refused",
-            status: 400,
-            message: "The runoff volumes are more than the foam solution discharged.",
-            fieldErrors: {
-              dispositions: [
-                `The runoff volumes add up to ${released.toFixed(1)} gal, more than the ${usage.totals.solution.gal.toFixed(1)} gal of foam solution discharged.`,
-              ],
-            },
-          });
-        }
-      }
-
-      let eventId = request.eventId;
-      let before: Awaited<ReturnType<typeof snapshotEvent>> | null = null;
-      let status: EventStatus;
-      let revision = 0;
-      if (eventId) {
-        const row = await trx("events").where({ id: eventId }).forUpdate().first();
-        // Access first, then the version: a conflict never answers for a report one may not change.
-        const decision = row ? decide(request.user, changeCapabilityFor(row.status), reportRecordOf(row)) : "hidden";
-        if (decision === "hidden") {
-          throw new SaveRefused({ kind: "refused", status: 404, message: "This report no longer exists." });
-        }
-        if (decision !== "allow") {
-          throw new SaveRefused({
-            kind: "refused",
-            status: 403,
-            message: "Your roles do not allow you to change this report.",
-          });
-        }
-        if (row.version !== request.version) {
-          throw new SaveRefused({
-            kind: "conflict",
-            message:
-              "Someone else saved this report while you were editing it. Your changes are still in the form below and have not been saved; open the report in a new tab to see theirs, then file again to replace them.",
-          });
-        }
-        if (row.status === "accepted") {
-          if (!filing) {
-            throw new SaveRefused({
-              kind: "refused",
-              status: 400,
-              message: "An accepted report is not kept as a draft. File the change as a revision, with its reason.",
-            });
-          }
-          if (!request.revisionReason) {
-            throw new SaveRefused({
-              kind: "refused",
-              status: 400,
-              message: "Give the reason for changing an accepted report.",
-              fieldErrors: { revisionReason: ["Give the reason for changing an accepted report."] },
-            });
-          }
-        }
-        if (row.status === "filed" && !filing) {
-          throw new SaveRefused({
-            kind: "refused",
-            status: 400,
-            message: "This report has been filed. Change it and file it again, or wait for the review.",
-          });
-        }
-        before = await snapshotEvent(eventId, trx);
-        revision = row.revision;
-        if (row.status === "accepted") {
-          revision = row.revision + 1;
-          await trx("event_revisions").insert({
-            event_id: eventId,
-            revision: row.revision,
-            reason: request.revisionReason,
-            snapshot_json: JSON.stringify(before),
-            created_by: request.user.id,
-          });
-        }
-        status = filing ? "filed" : row.status === "returned" ? "returned" : "draft";
-        await trx("events")
-          .where({ id: eventId })
-          .update({
-            ...columns,
-            number: columns.number || row.number,
-            status,
-            version: row.version + 1,
-            revision,
-            draft_json: filing ? null : JSON.stringify(request.payload),
-            ...(filing ? { filed_by: request.user.id, filed_at: trx.fn.now() } : {}),
-            ...totalsColumns(usage),
-            updated_at: trx.fn.now(),
-          });
-      } else {
-        status = filing ? "filed" : "draft";
-        const number =
-          columns.number ||
-          (await nextEventNumber(trx, columns.kind, (columns.started_at ?? new Date()).getUTCFullYear()));
-        [eventId] = await trx("events").insert({
-          ...columns,
-          number,
-          status,
-          version: 1,
-          created_by: request.user.id,
-          draft_json: filing ? null : JSON.stringify(request.payload),
-          ...(filing ? { filed_by: request.user.id, filed_at: trx.fn.now() } : {}),
-          ...totalsColumns(usage),
-        });
-      }
-
-      await writeReportLines(trx, eventId!, stored, usage, { replace: true });
-      await trx("form_submissions").insert({
-        submission_key: request.submissionKey,
-        user_id: request.user.id,
-        event_id: eventId,
-      });
-      const after = await snapshotEvent(eventId!, trx);
-      const revised = before !== null && revision > before.event.revision;
-      const action = revised
-        ? "report_revised"
-        : filing
-          ? "report_filed"
-          : before
-            ? "report_draft_saved"
-            : "report_created";
-      await recordAudit(
-        {
-          actorUserId: request.user.id,
-          actorLabel: request.user.email,
-          action,
-          entityType: "event",
-          entityId: eventId,
-          summary: revised
-            ? `Revision ${revision}: ${request.revisionReason}`
-            : filing
-              ? `Filed with ${lines.discharges.length} discharge${lines.discharges.length === 1 ? "" : "s"}`
-              : "Draft saved",
-          before: before ?? undefined,
-          after,
-          clientAddress: request.clientAddress,
-        },
-        trx,
-      );
-      await hooks.afterSaved?.(eventId!, trx);
-      if (filing) await hooks.afterFiled?.(eventId!, trx);
-      return { kind: "saved", eventId: eventId!, status, usage } as const;
+    const outcome = await db.transaction(async (trx): Promise<SaveOutcome> => {
+      const repeat = await claimSubmissionKey(trx, request);
+      if (repeat) return repeat;
+      const loaded = await loadReport(trx, request);
+      const change = checkStatusChange(request, loaded.row);
+      const before = loaded.row ? await snapshotEvent(loaded.row.id, trx) : null;
+      const eventId = await writeReport(trx, request, loaded, change, before);
+      await auditReport(trx, request, eventId, change, before, loaded.lines);
+      await recomputeEventGeography(eventId, trx);
+      if (filing) await queueFiledReportAlerts(eventId, trx);
+      return { kind: "saved", eventId, status: change.status, usage: loaded.usage };
     });
+    if (outcome.kind === "saved" && outcome.status === "filed") deliverPendingMailSoon();
+    return outcome;
   } catch (error) {
-    if (error instanceof SaveRefused) return error.outcome;
+    if (error instanceof RefusalError) return error.refusal;
     if (isDuplicateKey(error, "number")) {
-      return {
-        kind: "refused",
-        status: 400,
-        message: "Another report already uses this event number.",
-        fieldErrors: { number: ["Another report already uses this event number."] },
-      };
+      return refused(400, "Another report already uses this event number.", {
+        number: ["Another report already uses this event number."],
+      });
     }
     if (isDuplicateKey(error, "PRIMARY")) {
       // Two submissions with one key raced; the first one won.
@@ -454,37 +544,27 @@ export async function saveReport(saveRequest: SaveRequest, hooks: SaveHooks = {}
 // ---------------------------------------------------------------------------------------------
 // Review
 
-export type ReviewOutcome =
-  | { kind: "done"; status: EventStatus }
-  | { kind: "conflict"; message: string }
-  | { kind: "refused"; status: 400 | 403 | 404; message: string };
+export type ReviewOutcome = { kind: "done"; status: EventStatus } | Refusal;
 
-export async function reviewReport(
-  args: {
-    user: SessionUser;
-    eventId: number;
-    version: number;
-    decision: "accept" | "return";
-    comment?: string;
-    clientAddress?: string;
-  },
-  hooks: { afterReturned?: (eventId: number, comment: string, trx: Knex.Transaction) => Promise<void> } = {},
-): Promise<ReviewOutcome> {
-  return db.transaction(async (trx) => {
+/** Accepts or returns a filed report; a returned one notifies its officer in the same transaction. */
+export async function reviewReport(args: {
+  user: SessionUser;
+  eventId: number;
+  version: number;
+  decision: "accept" | "return";
+  comment?: string;
+  clientAddress?: string;
+}): Promise<ReviewOutcome> {
+  const outcome = await db.transaction(async (trx): Promise<ReviewOutcome> => {
     const row = await trx("events").where({ id: args.eventId }).forUpdate().first();
     // Access first, then the version: a conflict never answers for a report one may not review.
     const decision = row ? decide(args.user, "report.review", reportRecordOf(row)) : "hidden";
-    if (decision === "hidden") return { kind: "refused", status: 404, message: "This report no longer exists." };
-    if (decision !== "allow") return { kind: "refused", status: 403, message: "Your roles do not allow this." };
+    if (decision === "hidden") return refused(404, "This report no longer exists.");
+    if (decision !== "allow") return refused(403, "Your roles do not allow this.");
     if (row.version !== args.version) {
-      return {
-        kind: "conflict",
-        message: "The report changed while you were reviewing it. Review the latest version below.",
-      };
+      return conflict("The report changed while you were reviewing it. Review the latest version below.");
     }
-    if (row.status !== "filed") {
-      return { kind: "refused", status: 400, message: "Only a filed report can be accepted or returned." };
-    }
+    if (row.status !== "filed") return refused(400, "Only a filed report can be accepted or returned.");
     const status: EventStatus = args.decision === "accept" ? "accepted" : "returned";
     await trx("events")
       .where({ id: args.eventId })
@@ -510,7 +590,9 @@ export async function reviewReport(
       },
       trx,
     );
-    if (status === "returned") await hooks.afterReturned?.(args.eventId, args.comment ?? "", trx);
+    if (status === "returned") await queueReturnedReportNotice(args.eventId, args.comment ?? "", trx);
     return { kind: "done", status };
   });
+  if (outcome.kind === "done" && outcome.status === "returned") deliverPendingMailSoon();
+  return outcome;
 }

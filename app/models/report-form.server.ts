@@ -17,26 +17,11 @@ import {
   invariantResponse,
   isDatabaseDown,
   isDatabaseDownResponse,
-  rethrowDatabaseDown,
 } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
-import { reviewReport, saveReport, type SaveHooks } from "~/models/event.server";
+import { refusalData } from "~/lib/refusal";
+import { saveReport } from "~/models/event.server";
 import { reportAccessRecord } from "~/models/event-read.server";
-import { recomputeEventGeography } from "~/models/geography.server";
-import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
-import { queueFiledReportAlerts, queueReturnedReportNotice } from "~/models/report-notifications.server";
-
-/** What else happens, in the same transaction, when a report is saved, filed or returned. */
-export const reportSaveHooks: SaveHooks = {
-  afterSaved: async (eventId, trx) => {
-    await recomputeEventGeography(eventId, trx);
-  },
-  afterFiled: queueFiledReportAlerts,
-};
-
-export const reviewHooks: Parameters<typeof reviewReport>[1] = {
-  afterReturned: queueReturnedReportNotice,
-};
 
 /**
  * The guard of the edit page: the report named in the URL, if this person may change it (edit it,
@@ -44,7 +29,7 @@ export const reviewHooks: Parameters<typeof reviewReport>[1] = {
  */
 export async function requireReportChange(request: Request, eventId: number): Promise<SessionUser> {
   const user = await requireUser(request);
-  const record = await reportAccessRecord(eventId).catch((error) => rethrowDatabaseDown(request, error));
+  const record = await reportAccessRecord(eventId);
   invariantResponse(record, "No such report.");
   authorize(request, user, changeCapabilityFor(record.status), record);
   return user;
@@ -93,21 +78,17 @@ export async function handleReportSubmission(request: Request, guard: () => Prom
     );
   }
   try {
-    const outcome = await saveReport(
-      {
-        user,
-        intent: intent.data.intent,
-        eventId,
-        version: intent.data.version,
-        submissionKey: intent.data.submissionKey,
-        payload: submission.payload,
-        report: filing && submission.status === "success" ? (submission.value as FiledReport) : undefined,
-        revisionReason: intent.data.revisionReason,
-        clientAddress: clientAddress(request),
-      },
-      reportSaveHooks,
-    );
-    if (outcome.kind === "saved" && outcome.status === "filed") deliverPendingMailSoon();
+    const outcome = await saveReport({
+      user,
+      intent: intent.data.intent,
+      eventId,
+      version: intent.data.version,
+      submissionKey: intent.data.submissionKey,
+      payload: submission.payload,
+      report: filing && submission.status === "success" ? (submission.value as FiledReport) : undefined,
+      revisionReason: intent.data.revisionReason,
+      clientAddress: clientAddress(request),
+    });
     if (outcome.kind === "saved" || outcome.kind === "repeat") {
       const message =
         outcome.kind === "repeat"
@@ -121,16 +102,7 @@ export async function handleReportSubmission(request: Request, guard: () => Prom
           : `/events/${outcome.eventId}`;
       throw redirect(target, { headers: await flashHeaders(request, message) });
     }
-    const status = outcome.kind === "conflict" ? 409 : outcome.status;
-    return data(
-      {
-        result: submission.reply({
-          formErrors: [outcome.message],
-          fieldErrors: outcome.kind === "refused" ? outcome.fieldErrors : undefined,
-        }),
-      },
-      { status },
-    );
+    return refusalData(submission, outcome);
   } catch (error) {
     if (!isDatabaseDown(error)) throw error;
     return data({ result: submission.reply({ formErrors: [DATABASE_DOWN_MESSAGE] }) }, { status: 503 });

@@ -5,6 +5,7 @@ import { env } from "~/lib/env.server";
 import { fakeMailDirectory, readFakeMailbox, smtpPort } from "~/lib/fake-mailbox.server";
 import { readFormData } from "~/lib/form-data.server";
 import { httpError } from "~/lib/http.server";
+import { recordIdOf } from "~/lib/record-id";
 import { deliverPendingMail, listOutbox, retryMailNow } from "~/models/mail-outbox.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Outbox (demo) · Foamtally" }];
@@ -26,8 +27,8 @@ export async function action({ request }: Route.ActionArgs) {
   requireDemoMode();
   const formData = await readFormData(request, [], { fields: ["intent", "id"] });
   if (formData.get("intent") === "retry") {
-    const id = Number(formData.get("id"));
-    if (!Number.isInteger(id) || !(await retryMailNow(id))) {
+    const id = recordIdOf(formData.get("id"));
+    if (id == null || !(await retryMailNow(id))) {
       return data({ message: "That message is not waiting or failed." }, { status: 400 });
     }
   }

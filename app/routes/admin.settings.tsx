@@ -6,7 +6,8 @@ import { can } from "~/lib/access";
 import { AgencySettingsSchema } from "~/lib/agency-settings-form";
 import { requireCapability } from "~/lib/access.server";
 import { readFormData } from "~/lib/form-data.server";
-import { clientAddress, rethrowDatabaseDown } from "~/lib/http.server";
+import { clientAddress } from "~/lib/http.server";
+import { conflict, refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { saveAgencySettings } from "~/models/agency.server";
 import { readAgencySettings } from "~/models/agency-settings.server";
@@ -15,7 +16,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Agency settings · Foam
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "settings.read");
-  const settings = await readAgencySettings().catch((error) => rethrowDatabaseDown(request, error));
+  const settings = await readAgencySettings();
   return { settings, timeZones: Intl.supportedValuesOf("timeZone"), canEdit: can(user, "settings.edit") };
 }
 
@@ -27,20 +28,14 @@ export async function action({ request }: Route.ActionArgs) {
   if (submission.status !== "success") {
     return data({ result: submission.reply(), conflict: null }, { status: 400 });
   }
-  const outcome = await saveAgencySettings(submission.value, user, clientAddress(request)).catch((error) =>
-    rethrowDatabaseDown(request, error),
-  );
+  const outcome = await saveAgencySettings(submission.value, user, clientAddress(request));
   if (!outcome.ok) {
-    return data(
-      {
-        result: submission.reply({
-          formErrors: [
-            "Someone else saved the agency settings after you opened this page. Nothing of yours was saved: compare the stored values below with yours, then save again.",
-          ],
-        }),
-        conflict: outcome.conflict,
-      },
-      { status: 409 },
+    return refusalData(
+      submission,
+      conflict(
+        "Someone else saved the agency settings after you opened this page. Nothing of yours was saved: compare the stored values below with yours, then save again.",
+      ),
+      { conflict: outcome.conflict },
     );
   }
   const message =

@@ -1,12 +1,11 @@
 import type { Route } from "./+types/api.events.$id";
 import { authorize, requireCapability } from "~/lib/access.server";
-import { apiError } from "~/lib/http.server";
+import { apiError, requireRecordId } from "~/lib/http.server";
 import { getReport, reportForApi } from "~/models/event-read.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireCapability(request, "report.read");
-  const id = Number(params.id);
-  if (!Number.isInteger(id) || id < 1) apiError(404, "No such event.");
+  const id = requireRecordId(request, params.id, "No such event.");
   const report = await getReport(id);
   if (!report) apiError(404, "No such event.");
   authorize(request, user, "report.read", report);

@@ -1,7 +1,7 @@
 import type { Route } from "./+types/api.geo.check";
 import { requireCapability } from "~/lib/access.server";
 import { isValidLatLon } from "~/lib/geo/checks";
-import { apiError, rethrowDatabaseDown } from "~/lib/http.server";
+import { apiError } from "~/lib/http.server";
 import { checkPoint } from "~/models/geography.server";
 
 /** GET /api/geo/check?lat=&lon= — where a point sits against the basins, waterways, inlets and boundary. */
@@ -20,6 +20,6 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (Object.keys(errors).length || !isValidLatLon(latitude, longitude)) {
     apiError(400, "Give the point as lat and lon in decimal degrees (WGS 84).", { errors });
   }
-  const checks = await checkPoint(latitude, longitude).catch((error) => rethrowDatabaseDown(request, error));
+  const checks = await checkPoint(latitude, longitude);
   return Response.json({ latitude, longitude, ...checks });
 }

@@ -1,7 +1,7 @@
 import type { Route } from "./+types/api.geo.layers";
 import { requireCapability } from "~/lib/access.server";
 import { isLayerKind } from "~/lib/geo/layers";
-import { apiError, rethrowDatabaseDown } from "~/lib/http.server";
+import { apiError } from "~/lib/http.server";
 import { layerLabelPoints, layerText, waterwayBufferGeoJSON } from "~/models/geography.server";
 
 const GEOJSON = { "Content-Type": "application/geo+json; charset=utf-8", "Cache-Control": "private, no-cache" };
@@ -12,11 +12,7 @@ const GEOJSON = { "Content-Type": "application/geo+json; charset=utf-8", "Cache-
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireCapability(request, "geography.read");
-  try {
-    return await layerResponse(request, params.kind);
-  } catch (error) {
-    rethrowDatabaseDown(request, error);
-  }
+  return layerResponse(request, params.kind);
 }
 
 async function layerResponse(request: Request, kind: string) {

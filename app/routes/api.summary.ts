@@ -1,17 +1,17 @@
 import type { Route } from "./+types/api.summary";
 import { requireCapability } from "~/lib/access.server";
 import { parseMapFilters } from "~/lib/geo/map-filters";
-import { apiError, rethrowDatabaseDown } from "~/lib/http.server";
+import { apiError } from "~/lib/http.server";
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { usageSummary } from "~/models/usage-map.server";
 
 /** GET /api/summary?from=&to=&bbox= — totals by foam class, product, runoff disposition, drainage basin. */
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCapability(request, "usage.map");
-  const timeZone = (await readAgencySettings().catch((error) => rethrowDatabaseDown(request, error))).timeZone;
+  const timeZone = (await readAgencySettings()).timeZone;
   const parsed = parseMapFilters(new URL(request.url).searchParams, timeZone);
   if (!parsed.ok) apiError(400, parsed.message, { errors: { [parsed.field]: [parsed.message] } });
-  const summary = await usageSummary(parsed.filters, timeZone).catch((error) => rethrowDatabaseDown(request, error));
+  const summary = await usageSummary(parsed.filters, timeZone);
   return Response.json(summary, {
     headers: { "Cache-Control": "private, no-store" },
   });

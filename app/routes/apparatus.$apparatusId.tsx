@@ -7,8 +7,10 @@ import { requireCapability } from "~/lib/access.server";
 import { ApparatusFormSchema } from "~/lib/catalogue/apparatus-form";
 import { APPLICATION_METHOD_LABELS, APPLICATION_METHODS, FLOW_BASES, FLOW_BASIS_LABELS } from "~/lib/foam/vocabulary";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
+import { recordIdOf } from "~/lib/record-id";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
+import { conflict, refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import {
   DuplicateCodeError,
@@ -24,8 +26,8 @@ export const meta: Route.MetaFunction = ({ data }) => [
 
 function apparatusIdOf(params: { apparatusId?: string }): number | null {
   if (params.apparatusId === "new") return null;
-  const id = Number(params.apparatusId);
-  if (!Number.isInteger(id) || id <= 0) httpError(404, "No such apparatus.");
+  const id = recordIdOf(params.apparatusId);
+  if (id == null) httpError(404, "No such apparatus.");
   return id;
 }
 
@@ -50,7 +52,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     invariantResponse(saved, "No such apparatus.");
   } catch (error) {
     if (error instanceof StaleRecordError) {
-      return data({ result: submission.reply({ formErrors: [staleRecordMessage("apparatus")] }) }, { status: 409 });
+      return refusalData(submission, conflict(staleRecordMessage("apparatus")));
     }
     if (error instanceof DuplicateCodeError) {
       return data(

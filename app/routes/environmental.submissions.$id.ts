@@ -1,13 +1,12 @@
 import type { Route } from "./+types/environmental.submissions.$id";
 import { requireCapability } from "~/lib/access.server";
-import { invariantResponse } from "~/lib/http.server";
+import { invariantResponse, requireRecordId } from "~/lib/http.server";
 import { submissionFile } from "~/models/quarterly-submission.server";
 
 /** The exact file recorded when a period was marked submitted. */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireCapability(request, "exports.quarterly");
-  const id = Number(params.id);
-  invariantResponse(Number.isInteger(id) && id > 0, "No such submission.", 404);
+  const id = requireRecordId(request, params.id, "No such submission.");
   const file = await submissionFile(id);
   invariantResponse(file, "No such submission.", 404);
   return new Response(new Uint8Array(file.content), {

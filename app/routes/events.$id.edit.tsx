@@ -1,7 +1,7 @@
 import { randomUUID } from "node:crypto";
 import type { Route } from "./+types/events.$id.edit";
 import { ReportForm } from "~/components/report-form";
-import { invariantResponse } from "~/lib/http.server";
+import { invariantResponse, requireRecordId } from "~/lib/http.server";
 import { getReport } from "~/models/event-read.server";
 import { formValuesOf, reportFormOptions } from "~/models/report-options.server";
 import { handleReportSubmission, requireReportChange } from "~/models/report-form.server";
@@ -9,8 +9,9 @@ import { handleReportSubmission, requireReportChange } from "~/models/report-for
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Edit ${data?.number ?? "report"} · Foamtally` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireReportChange(request, Number(params.id));
-  const report = await getReport(Number(params.id));
+  const eventId = requireRecordId(request, params.id, "No such report.");
+  await requireReportChange(request, eventId);
+  const report = await getReport(eventId);
   invariantResponse(report, "No such report.");
   return {
     ...(await reportFormOptions()),
@@ -24,7 +25,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const eventId = Number(params.id);
+  const eventId = requireRecordId(request, params.id, "No such report.");
   return handleReportSubmission(request, () => requireReportChange(request, eventId), eventId);
 }
 

@@ -8,20 +8,19 @@ import { ReportSummary } from "~/components/report-summary";
 import { can, changeCapabilityFor } from "~/lib/access";
 import { authorize, requireCapability } from "~/lib/access.server";
 import { readFormData } from "~/lib/form-data.server";
-import { clientAddress, invariantResponse } from "~/lib/http.server";
+import { clientAddress, invariantResponse, requireRecordId } from "~/lib/http.server";
 import { ReviewSchema } from "~/lib/foam/report-schema";
 import { EVENT_STATUS_LABELS } from "~/lib/foam/vocabulary";
+import { refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { reviewReport } from "~/models/event.server";
 import { getReport, reportAccessRecord, reportHistory } from "~/models/event-read.server";
-import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
-import { reviewHooks } from "~/models/report-form.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.number ?? "Report"} · Foamtally` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireCapability(request, "report.read");
-  const report = await getReport(Number(params.id));
+  const report = await getReport(requireRecordId(request, params.id, "No such report."));
   invariantResponse(report, "No such report.");
   authorize(request, user, "report.read", report);
   const { draft: _draft, ...visible } = report;
@@ -35,32 +34,24 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireCapability(request, "report.review");
-  const record = await reportAccessRecord(Number(params.id));
+  const eventId = requireRecordId(request, params.id, "No such report.");
+  const record = await reportAccessRecord(eventId);
   invariantResponse(record, "No such report.");
   authorize(request, user, "report.review", record);
   const submission = parseWithZod(await readFormData(request, ReviewSchema), { schema: ReviewSchema });
   if (submission.status !== "success") return data({ result: submission.reply() }, { status: 400 });
-  const outcome = await reviewReport(
-    {
-      user,
-      eventId: Number(params.id),
-      version: submission.value.version,
-      decision: submission.value.decision,
-      comment: submission.value.comment,
-      clientAddress: clientAddress(request),
-    },
-    reviewHooks,
-  );
-  if (outcome.kind !== "done") {
-    return data(
-      { result: submission.reply({ formErrors: [outcome.message] }) },
-      { status: outcome.kind === "conflict" ? 409 : outcome.status },
-    );
-  }
-  if (outcome.status === "returned") deliverPendingMailSoon();
+  const outcome = await reviewReport({
+    user,
+    eventId,
+    version: submission.value.version,
+    decision: submission.value.decision,
+    comment: submission.value.comment,
+    clientAddress: clientAddress(request),
+  });
+  if (outcome.kind !== "done") return refusalData(submission, outcome);
   const message =
     outcome.status === "accepted" ? "Report accepted." : "Report returned to its officer with your comment.";
-  throw redirect(`/events/${params.id}`, { headers: await flashHeaders(request, message) });
+  throw redirect(`/events/${eventId}`, { headers: await flashHeaders(request, message) });
 }
 
 export default function EventReport({ loaderData, actionData }: Route.ComponentProps) {

@@ -3,7 +3,7 @@ import type { Route } from "./+types/events.new";
 import { ReportForm } from "~/components/report-form";
 import { requireCapability } from "~/lib/access.server";
 import { reportFormOptions } from "~/models/report-options.server";
-import { suggestEventNumber } from "~/models/event.server";
+import { suggestEventNumber } from "~/models/event-number.server";
 import { handleReportSubmission } from "~/models/report-form.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "New usage report · Foamtally" }];
@@ -14,8 +14,8 @@ export async function loader({ request }: Route.LoaderArgs) {
   return {
     ...options,
     submissionKey: randomUUID(),
+    numberSuggestion: number,
     defaultValue: {
-      number,
       kind: "incident",
       discharges: [{ flowUnit: "gpm", basis: "water" }],
       dispositions: [{ disposition: "evaporated_unknown", sharePercent: "100" }],

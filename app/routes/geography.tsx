@@ -5,7 +5,7 @@ import { EventLocationMap } from "~/components/event-location-map";
 import { requireCapability } from "~/lib/access.server";
 import { BodyRefused, formShape, readBoundedForm } from "~/lib/form-data.server";
 import { isLayerKind, LAYER_RULES, MAX_LAYER_BYTES } from "~/lib/geo/layers";
-import { clientAddress, rethrowDatabaseDown } from "~/lib/http.server";
+import { clientAddress } from "~/lib/http.server";
 import { UPLOAD_BODY_MAX_BYTES } from "~/lib/request-limits";
 import { flashHeaders } from "~/lib/session.server";
 import { listLayers, replaceLayer, waterwayBufferMetres } from "~/models/geography.server";
@@ -14,9 +14,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Drainage and waterway l
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCapability(request, "geography.edit");
-  const [layers, waterwayBufferM] = await Promise.all([listLayers(), waterwayBufferMetres()]).catch((error) =>
-    rethrowDatabaseDown(request, error),
-  );
+  const [layers, waterwayBufferM] = await Promise.all([listLayers(), waterwayBufferMetres()]);
   return { layers, waterwayBufferM };
 }
 
@@ -52,7 +50,7 @@ export async function action({ request }: Route.ActionArgs) {
     { kind, text: await file.text(), fileName: file.name || "upload.geojson" },
     user,
     clientAddress(request),
-  ).catch((error) => rethrowDatabaseDown(request, error));
+  );
   if (!result.ok) return refuse(kind, [...result.errors, "Nothing was changed; the current layer is still in use."]);
   const label = LAYER_RULES[kind].label;
   const rechecked = kind === "address_points" ? "" : ` ${result.eventsRechecked} events were rechecked.`;

@@ -23,7 +23,7 @@ import {
   WATER_ONLY_LABEL,
 } from "~/lib/foam/vocabulary";
 import { mapQuery, parseMapFilters, type BoundingBox } from "~/lib/geo/map-filters";
-import { httpError, rethrowDatabaseDown } from "~/lib/http.server";
+import { httpError } from "~/lib/http.server";
 import { localDateTime } from "~/lib/time-zone";
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { listStations, usageSummary, type UsageSummary } from "~/models/usage-map.server";
@@ -40,7 +40,7 @@ function defaultRange(timeZone: string) {
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCapability(request, "usage.map");
-  const timeZone = (await readAgencySettings().catch((error) => rethrowDatabaseDown(request, error))).timeZone;
+  const timeZone = (await readAgencySettings()).timeZone;
   const params = new URL(request.url).searchParams;
   const range = defaultRange(timeZone);
   if (!params.get("from")) params.set("from", range.from);
@@ -49,9 +49,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const parsed = parseMapFilters(params, timeZone);
   if (!parsed.ok) httpError(400, parsed.message);
   const { filters } = parsed;
-  const [stations, summary] = await Promise.all([listStations(), usageSummary(filters, timeZone)]).catch((error) =>
-    rethrowDatabaseDown(request, error),
-  );
+  const [stations, summary] = await Promise.all([listStations(), usageSummary(filters, timeZone)]);
   return {
     filters: {
       from: filters.from,

@@ -1,14 +1,13 @@
 import type { Route } from "./+types/products.$productId.safety-sheet";
 import { requireUser } from "~/lib/auth.server";
-import { httpError, invariantResponse } from "~/lib/http.server";
+import { httpError, invariantResponse, requireRecordId } from "~/lib/http.server";
 import { getObject, StorageUnavailableError } from "~/lib/storage.server";
 import { getSafetySheetKey } from "~/models/product.server";
 
 // Safety sheets are for everyone who handles foam, so any signed-in person may read them.
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireUser(request);
-  const id = Number(params.productId);
-  invariantResponse(Number.isInteger(id) && id > 0, "No such product.");
+  const id = requireRecordId(request, params.productId, "No such product.");
   const sheet = await getSafetySheetKey(id);
   invariantResponse(sheet, "This product has no safety sheet.");
   try {

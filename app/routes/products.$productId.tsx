@@ -7,10 +7,12 @@ import { requireCapability } from "~/lib/access.server";
 import { looksLikePdf, ProductFormSchema, SAFETY_SHEET_MAX_BYTES } from "~/lib/catalogue/product-form";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
 import { FOAM_TYPE_LABELS, FOAM_TYPES, PFAS_CONTENT_UNIT_LABELS, PFAS_CONTENT_UNITS } from "~/lib/foam/vocabulary";
+import { recordIdOf } from "~/lib/record-id";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
 import { can } from "~/lib/access";
 import { UPLOAD_BODY_MAX_BYTES } from "~/lib/request-limits";
+import { conflict, refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { StorageUnavailableError } from "~/lib/storage.server";
 import { DuplicateProductNameError, getProduct, saveProduct, type SafetySheetUpload } from "~/models/product.server";
@@ -21,8 +23,8 @@ export const meta: Route.MetaFunction = ({ data }) => [
 
 function productIdOf(params: { productId?: string }): number | null {
   if (params.productId === "new") return null;
-  const id = Number(params.productId);
-  if (!Number.isInteger(id) || id <= 0) httpError(404, "No such product.");
+  const id = recordIdOf(params.productId);
+  if (id == null) httpError(404, "No such product.");
   return id;
 }
 
@@ -80,7 +82,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     savedId = await saveProduct(id, submittedVersion(formData), submission.value, sheet, user, clientAddress(request));
   } catch (error) {
     if (error instanceof StaleRecordError) {
-      return data({ result: submission.reply({ formErrors: [staleRecordMessage("product")] }) }, { status: 409 });
+      return refusalData(submission, conflict(staleRecordMessage("product")));
     }
     if (error instanceof DuplicateProductNameError) {
       return data(

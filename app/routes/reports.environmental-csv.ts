@@ -1,15 +1,10 @@
 import type { Route } from "./+types/reports.environmental-csv";
 import { requireCapability } from "~/lib/access.server";
-import { rethrowDatabaseDown } from "~/lib/http.server";
 import { generatedDownload, periodFrom, workbookRequestFor } from "~/exports/environmental-files.server";
 
 /** The workbook's tables as one CSV file each, zipped. */
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "exports.quarterly");
   const period = await periodFrom(new URL(request.url).searchParams);
-  try {
-    return await generatedDownload("zip", await workbookRequestFor(period, user));
-  } catch (error) {
-    rethrowDatabaseDown(request, error);
-  }
+  return generatedDownload("zip", await workbookRequestFor(period, user));
 }

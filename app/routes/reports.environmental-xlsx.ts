@@ -1,14 +1,9 @@
 import type { Route } from "./+types/reports.environmental-xlsx";
 import { requireCapability } from "~/lib/access.server";
-import { rethrowDatabaseDown } from "~/lib/http.server";
 import { generatedDownload, periodFrom, workbookRequestFor } from "~/exports/environmental-files.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "exports.quarterly");
   const period = await periodFrom(new URL(request.url).searchParams);
-  try {
-    return await generatedDownload("xlsx", await workbookRequestFor(period, user));
-  } catch (error) {
-    rethrowDatabaseDown(request, error);
-  }
+  return generatedDownload("xlsx", await workbookRequestFor(period, user));
 }

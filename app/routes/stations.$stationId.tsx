@@ -6,8 +6,10 @@ import { CheckboxField, FormErrors, TextField } from "~/components/form-fields";
 import { requireCapability } from "~/lib/access.server";
 import { StationFormSchema } from "~/lib/catalogue/apparatus-form";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
+import { recordIdOf } from "~/lib/record-id";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
+import { conflict, refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { DuplicateCodeError, getStation, saveStation } from "~/models/apparatus.server";
 
@@ -17,8 +19,8 @@ export const meta: Route.MetaFunction = ({ data }) => [
 
 function stationIdOf(params: { stationId?: string }): number | null {
   if (params.stationId === "new") return null;
-  const id = Number(params.stationId);
-  if (!Number.isInteger(id) || id <= 0) httpError(404, "No such station.");
+  const id = recordIdOf(params.stationId);
+  if (id == null) httpError(404, "No such station.");
   return id;
 }
 
@@ -42,7 +44,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     invariantResponse(saved, "No such station.");
   } catch (error) {
     if (error instanceof StaleRecordError) {
-      return data({ result: submission.reply({ formErrors: [staleRecordMessage("station")] }) }, { status: 409 });
+      return refusalData(submission, conflict(staleRecordMessage("station")));
     }
     if (!(error instanceof DuplicateCodeError)) throw error;
     return data(

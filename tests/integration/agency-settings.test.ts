@@ -209,6 +209,20 @@ describe("agency settings page", () => {
     expect((await db("agency_settings").where({ id: 1 }).first()).name).toBe("Second admin's name (test)");
   });
 
+  it("saves the incident number prefix in capitals, shows it, and refuses a fixed series at the field", async () => {
+    const saved = await post(admin, await validForm({ eventNumberPrefix: "nv" }));
+    expect(saved.status).toBe(302);
+    expect((await db("agency_settings").where({ id: 1 }).first()).event_number_prefix).toBe("NV");
+    expect((await readAgencySettings()).eventNumberPrefix).toBe("NV");
+    const refused = await post(admin, await validForm({ eventNumberPrefix: "TR" }));
+    expect(refused.status).toBe(400);
+    expect((await db("agency_settings").where({ id: 1 }).first()).event_number_prefix).toBe("NV");
+    // A form without the field keeps the stored prefix.
+    expect((await post(admin, await validForm({ name: "Prefix kept (test)" }))).status).toBe(302);
+    expect((await db("agency_settings").where({ id: 1 }).first()).event_number_prefix).toBe("NV");
+    await db("agency_settings").where({ id: 1 }).update({ event_number_prefix: "AB" });
+  });
+
   it("rechecks stored events when the waterway buffer changes, in the same save", async () => {
     await post(admin, await validForm({ waterwayBufferM: "91.44" }));
     await recomputeEventGeography(eventId);

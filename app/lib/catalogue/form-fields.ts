@@ -37,7 +37,7 @@ export const optionalNumber = (label: string, { max = 1_000_000, positive = fals
     if (Number.isNaN(number) || number < 0 || (positive && number === 0)) {
       return `${label} must be a number ${positive ? "above zero" : "of zero or more"}.`;
     }
-    return number > max ? `${label} is at most ${max.toLocaleString("en-US")}.` : null;
+    return number > max ? `${label} is at most ${max.toLocaleString("en-US", { maximumFractionDigits: 6 })}.` : null;
   });
 
 /** A decimal-degree coordinate from -`limit` to `limit`; blank is null. */

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { decimalColumnMax } from "../column-bounds";
 import { FOAM_CLASSES, FOAM_TYPES, PFAS_CONTENT_UNITS } from "../foam/vocabulary";
 import { checkbox, optionalNumber, optionalText } from "./form-fields";
 
@@ -41,11 +42,11 @@ export const ProductFormSchema = z
         return parsed;
       }),
     pfasContaining: checkbox,
-    pfasContent: optionalNumber("The PFAS content", { max: Infinity }),
+    pfasContent: optionalNumber("The PFAS content", { max: decimalColumnMax("foam_products.pfas_content") }),
     pfasContentUnit: z.enum(PFAS_CONTENT_UNITS, { error: "Choose a unit for the PFAS content." }).optional(),
     pfasContentBasis: optionalText(2000, "The basis"),
     pfasContentSource: optionalText(2000, "The source"),
-    unitCostPerGal: optionalNumber("The unit cost", { max: Infinity }),
+    unitCostPerGal: optionalNumber("The unit cost", { max: decimalColumnMax("foam_products.unit_cost_per_gal") }),
     active: checkbox,
     notes: optionalText(4000, "The notes"),
     safetySheet: z

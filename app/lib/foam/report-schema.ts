@@ -172,12 +172,13 @@ export const TankReadingLineSchema = z
 /** The report as filed: every rule applies. Drafts are kept as typed (see `DraftReportSchema`). */
 export const FiledReportSchema = z
   .object({
+    // Blank: the next number of the kind's series is given when the report is saved.
     number: z
-      .string({ error: "Enter the event number." })
+      .string()
       .trim()
-      .min(1, "Enter the event number.")
       .max(32, "An event number has at most 32 characters.")
-      .regex(/^[A-Za-z0-9][A-Za-z0-9._/-]*$/, "Use letters, digits, and . _ / - only."),
+      .regex(/^[A-Za-z0-9][A-Za-z0-9._/-]*$/, "Use letters, digits, and . _ / - only.")
+      .optional(),
     kind: z.enum(EVENT_KINDS, { error: "Choose what kind of event this was." }),
     startedAt: z.string({ error: "Enter when the event started." }).pipe(localDateTime("start time").unwrap()),
     clearedAt: localDateTime("clear time"),

@@ -171,7 +171,11 @@ export function validateLayer(kind: LayerKind, text: string): LayerValidation {
     };
   }
   const crs = root.crs as { properties?: { name?: unknown } } | undefined;
-  if (crs && !/CRS84|4326/i.test(String(crs.properties?.name ?? ""))) {
+  const crsName = crs?.properties?.name;
+  if (crs && crsName != null && typeof crsName !== "string") {
+    return { ok: false, errors: ['The file\'s "crs" name is not a string; GeoJSON (RFC 7946) uses WGS 84 only.'] };
+  }
+  if (crs && !/CRS84|4326/i.test(typeof crsName === "string" ? crsName : "")) {
     return {
       ok: false,
       errors: [
@@ -206,8 +210,12 @@ function validateFeatures(rule: LayerRule, items: unknown[]): LayerValidation {
       note("has no geometry");
       return;
     }
+    if (typeof geometry.type !== "string") {
+      note('has a geometry whose "type" is not a string');
+      return;
+    }
     if (!rule.geometryTypes.includes(geometry.type)) {
-      note(`is a ${String(geometry.type)}; ${rule.label.toLowerCase()} take ${rule.geometryTypes.join(", ")}`);
+      note(`is a ${geometry.type.slice(0, 40)}; ${rule.label.toLowerCase()} take ${rule.geometryTypes.join(", ")}`);
       return;
     }
     const problem = geometryProblem(geometry);
