@@ -1,14 +1,14 @@
 import type { Route } from "./+types/reports.environmental-csv";
 import { requireCapability } from "~/lib/access.server";
 import { rethrowDatabaseDown } from "~/lib/http.server";
-import { generatedDownload, periodFrom, workbookRequestFor } from "~/exports/environmental-files.server";
+import { auditedPeriodDownload, periodFrom } from "~/exports/environmental-files.server";
 
 /** The workbook's tables as one CSV file each, zipped. */
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "exports.quarterly");
   const period = await periodFrom(new URL(request.url).searchParams);
   try {
-    return await generatedDownload("zip", await workbookRequestFor(period, user));
+    return await auditedPeriodDownload("zip", period, user, request);
   } catch (error) {
     rethrowDatabaseDown(request, error);
   }

@@ -1,13 +1,13 @@
 import type { Route } from "./+types/reports.environmental-xlsx";
 import { requireCapability } from "~/lib/access.server";
 import { rethrowDatabaseDown } from "~/lib/http.server";
-import { generatedDownload, periodFrom, workbookRequestFor } from "~/exports/environmental-files.server";
+import { auditedPeriodDownload, periodFrom } from "~/exports/environmental-files.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "exports.quarterly");
   const period = await periodFrom(new URL(request.url).searchParams);
   try {
-    return await generatedDownload("xlsx", await workbookRequestFor(period, user));
+    return await auditedPeriodDownload("xlsx", period, user, request);
   } catch (error) {
     rethrowDatabaseDown(request, error);
   }

@@ -25,7 +25,7 @@ export function testKnex(): Knex {
 
 /** The test database as the app's own account, which may only read and write rows. */
 export function appAccountKnex(): Knex {
-  const config = connectionWith(testDatabaseName());
+  const config = connectionTo(testDatabaseName());
   return knexFactory({
     ...config,
     connection: {
