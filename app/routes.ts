@@ -18,6 +18,7 @@ export default [
   route("api/events/:id", "routes/api.events.$id.ts"),
   route("map", "routes/map.tsx"),
   route("geography", "routes/geography.tsx"),
+  route("geography/layers/:kind/versions/:versionId", "routes/geography.layers.$kind.versions.$versionId.ts"),
   route("tiles/:z/:x/:file", "routes/tiles.ts"),
   route("api/geo/check", "routes/api.geo.check.ts"),
   route("api/geo/addresses", "routes/api.geo.addresses.ts"),
@@ -27,6 +28,10 @@ export default [
   route("products", "routes/products.tsx"),
   route("products/:productId", "routes/products.$productId.tsx"),
   route("products/:productId/safety-sheet", "routes/products.$productId.safety-sheet.ts"),
+  route(
+    "products/:productId/safety-sheet/versions/:versionId",
+    "routes/products.$productId.safety-sheet.versions.$versionId.ts",
+  ),
   route("apparatus", "routes/apparatus.tsx"),
   route("apparatus/:apparatusId", "routes/apparatus.$apparatusId.tsx"),
   route("stations/:stationId", "routes/stations.$stationId.tsx"),
