@@ -240,6 +240,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "events/:id": { GET: "report.read", POST: "report.review" },
   // The record's status decides between report.edit and report.revise (`changeCapabilityFor`).
   "events/:id/edit": { GET: "report.edit", POST: "report.edit" },
+  "events/:id/revisions/:revision": { GET: "report.read" },
   "api/totals": { GET: "signed-in", POST: "signed-in" },
   "api/events": { GET: "report.read" },
   "api/events/:id": { GET: "report.read" },

@@ -13,7 +13,7 @@ import { ReviewSchema } from "~/lib/foam/report-schema";
 import { EVENT_STATUS_LABELS } from "~/lib/foam/vocabulary";
 import { flashHeaders } from "~/lib/session.server";
 import { reviewReport } from "~/models/event.server";
-import { getReport, reportAccessRecord, reportHistory } from "~/models/event-read.server";
+import { getReport, listRevisions, reportAccessRecord, reportHistory } from "~/models/event-read.server";
 import { deliverPendingMailSoon } from "~/models/mail-outbox.server";
 import { reviewHooks } from "~/models/report-form.server";
 
@@ -28,6 +28,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return {
     report: visible,
     history: await reportHistory(report.id),
+    revisions: await listRevisions(report.id),
     canReview: report.status === "filed" && can(user, "report.review", report),
     canEdit: can(user, changeCapabilityFor(report.status), report),
   };
@@ -64,7 +65,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function EventReport({ loaderData, actionData }: Route.ComponentProps) {
-  const { report, history, canReview, canEdit } = loaderData;
+  const { report, history, revisions, canReview, canEdit } = loaderData;
   return (
     <div className="space-y-6">
       <div className="flex flex-wrap items-start justify-between gap-3">
@@ -95,6 +96,34 @@ export default function EventReport({ loaderData, actionData }: Route.ComponentP
       <ReportSummary report={report} />
       {canReview ? (
         <ReviewPanel version={report.version} lastResult={actionData?.result} pfas={report.pfasContaining} />
+      ) : null}
+      {revisions.length > 0 ? (
+        <section className="card" aria-labelledby="revisions-title">
+          <h2 id="revisions-title" className="text-lg font-semibold">
+            Earlier revisions
+          </h2>
+          <p className="text-sm text-slate-ft">
+            Each amendment of the accepted report kept the state it replaced. Open one to read it as it stood.
+          </p>
+          <ul className="mt-3 space-y-2" data-testid="revisions">
+            {revisions.map((entry) => (
+              <li key={entry.revision} className="border-l-4 border-stone-300 pl-3">
+                <p className="font-medium">
+                  <Link to={`/events/${report.id}/revisions/${entry.revision}`} className="text-pond-700 underline">
+                    Revision {entry.revision}
+                  </Link>{" "}
+                  — superseded by {entry.changedBy}
+                </p>
+                <p className="text-sm text-slate-ft">
+                  <time dateTime={entry.changedAt}>
+                    {new Date(entry.changedAt).toLocaleString("en-US", { timeZone: "UTC" })} UTC
+                  </time>{" "}
+                  · reason: {entry.reason}
+                </p>
+              </li>
+            ))}
+          </ul>
+        </section>
       ) : null}
       <section className="card" aria-labelledby="history-title">
         <h2 id="history-title" className="text-lg font-semibold">
