@@ -149,11 +149,16 @@ async function main() {
       ["storm_inlets", "storm-inlets"],
       ["jurisdiction", "jurisdiction"],
     ] as const) {
-      await replaceLayer({ kind, text: demo(name), fileName: name }, null, null, { recheckEvents: false });
+      await replaceLayer({ kind, text: demo(name), fileName: name }, null, null, {
+        recheckEvents: false,
+        keepFile: false,
+      });
     }
     const text = demo("waterways");
     const began = performance.now();
-    const result = await replaceLayer({ kind: "waterways", text, fileName: "waterways.geojson" }, null);
+    const result = await replaceLayer({ kind: "waterways", text, fileName: "waterways.geojson" }, null, null, {
+      keepFile: false,
+    });
     if (!result.ok) throw new Error(result.errors.join(" "));
     console.log(
       `replace the waterways layer and recheck ${result.eventsRechecked} events: ${((performance.now() - began) / 1000).toFixed(1)} s`,

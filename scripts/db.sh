@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
 # Private MariaDB for Foamtally: `db.sh up` installs (when missing), initialises,
-# starts on 127.0.0.1:$DB_PORT and creates the database and user; `db.sh stop` stops it.
+# starts on 127.0.0.1:$DB_PORT and creates the database, the app's account and the migration account; `db.sh stop` stops it.
 set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 # shellcheck source=scripts/env.sh
@@ -56,18 +56,31 @@ up() {
     sleep 0.2
   done
   client -e "SELECT 1" >/dev/null 2>&1 || { echo "MariaDB did not start; see $logfile" >&2; exit 1; }
-  local user="${DB_USER:-foamtally}" password="${DB_PASSWORD:?DB_PASSWORD must be set in .env}"
-  local escaped="${password//\'/\'\'}"
-  client <<SQL
-CREATE DATABASE IF NOT EXISTS \`${DB_NAME:-foamtally}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;
-CREATE USER IF NOT EXISTS '$user'@'127.0.0.1' IDENTIFIED BY '$escaped';
-CREATE USER IF NOT EXISTS '$user'@'localhost' IDENTIFIED BY '$escaped';
-ALTER USER '$user'@'127.0.0.1' IDENTIFIED BY '$escaped';
-ALTER USER '$user'@'localhost' IDENTIFIED BY '$escaped';
-GRANT ALL PRIVILEGES ON \`foamtally%\`.* TO '$user'@'127.0.0.1';
-GRANT ALL PRIVILEGES ON \`foamtally%\`.* TO '$user'@'localhost';
-FLUSH PRIVILEGES;
-SQL
+  local app_user="${DB_USER:-foamtally}" app_password="${DB_PASSWORD:?DB_PASSWORD must be set in .env}"
+  local migration_user="${DB_MIGRATION_USER:-foamtally_migrate}"
+  local migration_password="${DB_MIGRATION_PASSWORD:?DB_MIGRATION_PASSWORD must be set in .env}"
+  if [ "$app_user" = "$migration_user" ]; then
+    echo "DB_USER and DB_MIGRATION_USER must be two different accounts." >&2
+    exit 1
+  fi
+  local app_escaped="${app_password//\'/\'\'}" migration_escaped="${migration_password//\'/\'\'}"
+  # Two accounts on every database named foamtally*: the migration account owns the schema; the app's
+  # account reads and writes rows and nothing else (no DROP, so no TRUNCATE either; no ALTER, no GRANT).
+  # Revoking first takes away what an older set-up granted the app's account.
+  local hosts=("127.0.0.1" "localhost") sql="" host
+  sql+="CREATE DATABASE IF NOT EXISTS \`${DB_NAME:-foamtally}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;"$'\n'
+  for host in "${hosts[@]}"; do
+    sql+="CREATE USER IF NOT EXISTS '$migration_user'@'$host' IDENTIFIED BY '$migration_escaped';
+ALTER USER '$migration_user'@'$host' IDENTIFIED BY '$migration_escaped';
+GRANT ALL PRIVILEGES ON \`foamtally%\`.* TO '$migration_user'@'$host';
+CREATE USER IF NOT EXISTS '$app_user'@'$host' IDENTIFIED BY '$app_escaped';
+ALTER USER '$app_user'@'$host' IDENTIFIED BY '$app_escaped';
+REVOKE ALL PRIVILEGES, GRANT OPTION FROM '$app_user'@'$host';
+GRANT SELECT, INSERT, UPDATE, DELETE ON \`foamtally%\`.* TO '$app_user'@'$host';
+"
+  done
+  sql+="FLUSH PRIVILEGES;"
+  client <<<"$sql"
   echo "MariaDB is up on 127.0.0.1:$port (data in ${datadir#"$root/"})."
 }
 

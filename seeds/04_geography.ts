@@ -19,7 +19,12 @@ export async function seed(knex: Knex): Promise<void> {
   for (const [kind, fileName] of Object.entries(DEMO_LAYER_FILES) as [LayerKind, string][]) {
     if (await knex("geo_layers").where({ kind }).first("id")) continue;
     const text = readFileSync(path.join(directory, fileName), "utf8");
-    const result = await replaceLayer({ kind, text, fileName }, null, null, { connection: knex, recheckEvents: false });
+    // The seed may run before the file store is up; the first replacement stores the seeded file as its earlier version.
+    const result = await replaceLayer({ kind, text, fileName }, null, null, {
+      connection: knex,
+      recheckEvents: false,
+      keepFile: false,
+    });
     if (!result.ok) throw new Error(`demo layer ${fileName} is invalid: ${result.errors.join(" ")}`);
   }
   // Events seeded before this file (or already present) get their stored checks now.

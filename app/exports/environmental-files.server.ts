@@ -6,6 +6,7 @@ import { httpError } from "~/lib/http.server";
 import { XLSX_TYPE, ZIP_TYPE } from "~/lib/reporting/files";
 import { parseReportPeriod, type ReportPeriod } from "~/lib/reporting/period";
 import { readAgencySettings } from "~/models/agency-settings.server";
+import { recordDownload } from "~/models/download-audit.server";
 import { latestSubmissionFor } from "~/models/quarterly-submission.server";
 import {
   privateTempFile,
@@ -74,11 +75,16 @@ export async function withGeneratedFile<T>(
 }
 
 /** A download response that streams the generated file from disk and removes it once sent. */
-export async function generatedDownload(format: ExportFormat, request: WorkbookRequest): Promise<Response> {
-  const file = await generate(format, request);
+export async function generatedDownload(
+  format: ExportFormat,
+  request: WorkbookRequest,
+  onWritten?: (file: GeneratedFile) => Promise<void>,
+): Promise<Response> {
+  const { remove, ...file } = await generate(format, request);
   try {
+    await onWritten?.(file);
     const stream = createReadStream(file.path);
-    stream.once("close", () => void file.remove());
+    stream.once("close", () => void remove());
     return new Response(createReadableStreamFromReadable(stream), {
       headers: {
         "Content-Type": file.contentType,
@@ -89,11 +95,34 @@ export async function generatedDownload(format: ExportFormat, request: WorkbookR
       },
     });
   } catch (error) {
-    await file.remove();
+    await remove();
     throw error;
   }
 }
 
 export function generatedContent(filePath: string): Promise<Buffer> {
   return readFile(filePath);
+}
+
+/** The period's workbook or zipped CSV as a download, with an audit row naming who took it, the period and the digest. */
+export async function auditedPeriodDownload(
+  format: ExportFormat,
+  period: ReportPeriod,
+  user: SessionUser,
+  httpRequest: Request,
+): Promise<Response> {
+  return generatedDownload(format, await workbookRequestFor(period, user), (file) =>
+    recordDownload(httpRequest, user, {
+      action: format === "xlsx" ? "quarterly_workbook_downloaded" : "quarterly_csv_downloaded",
+      entityType: "quarterly_period",
+      entityId: `${period.from}..${period.to}`,
+      summary: `${period.label} ${format === "xlsx" ? "workbook" : "CSV files"} downloaded`,
+      details: {
+        period: [period.from, period.to],
+        fileName: file.fileName,
+        sha256: file.sha256,
+        byteSize: file.byteSize,
+      },
+    }),
+  );
 }

@@ -56,7 +56,6 @@ export function reportRecordOf(row: {
 /** One report with its discharges, runoff, tank readings, stored totals and geography checks. */
 export async function getReport(eventId: number) {
   const { timeZone } = await readAgencySettings();
-  const wallClock = (instant: Date | null) => instantToWallClock(instant, timeZone);
   const event = await db("events")
     .leftJoin("stations", "stations.id", "events.station_id")
     .leftJoin("users as author", "author.id", "events.created_by")
@@ -92,6 +91,21 @@ export async function getReport(eventId: number) {
       .orderBy("tank_readings.id")
       .select("tank_readings.*", "apparatus.unit_id as apparatus_unit_id", "foam_products.name as product_name"),
   ]);
+  return reportDetailOf({ event, discharges, dispositions, tankReadings }, timeZone);
+}
+
+type ReportRows = {
+  event: SqlRow;
+  discharges: SqlRow[];
+  dispositions: SqlRow[];
+  tankReadings: SqlRow[];
+};
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+type SqlRow = Record<string, any>;
+
+/** A report's rows (with the names joined in) as the page and the API read them. */
+function reportDetailOf({ event, discharges, dispositions, tankReadings }: ReportRows, timeZone: string) {
+  const wallClock = (instant: Date | string | null) => instantToWallClock(instant, timeZone);
   const solutionGal = decimalOrZero(event.solution_gal);
   return {
     id: event.id as number,
@@ -171,6 +185,89 @@ export async function getReport(eventId: number) {
       levelBeforeGal: decimalOrNull(row.level_before_gal),
       levelAfterGal: decimalOrNull(row.level_after_gal),
     })),
+  };
+}
+
+export type RevisionEntry = { revision: number; reason: string; changedAt: string; changedBy: string };
+
+/** The earlier states an accepted report was amended from: each revision, who replaced it, when and why. */
+export async function listRevisions(eventId: number): Promise<RevisionEntry[]> {
+  const rows = await db("event_revisions")
+    .leftJoin("users", "users.id", "event_revisions.created_by")
+    .where("event_revisions.event_id", eventId)
+    .orderBy("event_revisions.revision", "desc")
+    .select("event_revisions.revision", "event_revisions.reason", "event_revisions.created_at", "users.name");
+  return rows.map((row) => ({
+    revision: Number(row.revision),
+    reason: row.reason,
+    changedAt: new Date(row.created_at).toISOString(),
+    changedBy: row.name ?? "unknown",
+  }));
+}
+
+/**
+ * One earlier state of a report, read from the snapshot taken when it was amended. Names of
+ * stations, apparatus, products and people are today's, looked up by the ids the snapshot stored.
+ */
+export async function getRevision(eventId: number, revision: number) {
+  const stored = await db("event_revisions").where({ event_id: eventId, revision }).first();
+  if (!stored) return null;
+  const snapshot = JSON.parse(stored.snapshot_json) as {
+    event: SqlRow;
+    discharges: SqlRow[];
+    dispositions: SqlRow[];
+    tankReadings: SqlRow[];
+  };
+  const ids = (rows: SqlRow[], column: string) => [
+    ...new Set(rows.map((row) => row[column]).filter((id): id is number => typeof id === "number")),
+  ];
+  const lines = [...snapshot.discharges, ...snapshot.tankReadings];
+  const [{ timeZone }, stations, apparatus, products, people, changer] = await Promise.all([
+    readAgencySettings(),
+    db("stations")
+      .whereIn("id", ids([snapshot.event], "station_id"))
+      .select("id", "code", "name"),
+    db("apparatus").whereIn("id", ids(lines, "apparatus_id")).select("id", "unit_id"),
+    db("foam_products").whereIn("id", ids(lines, "product_id")).select("id", "name", "foam_class", "pfas_containing"),
+    db("users")
+      .whereIn("id", ids([snapshot.event], "created_by").concat(ids([snapshot.event], "reviewed_by")))
+      .select("id", "name"),
+    db("users").where({ id: stored.created_by }).first("name"),
+  ]);
+  const byId = <T extends { id: number }>(rows: T[], id: unknown) => rows.find((row) => row.id === id);
+  const station = byId(stations, snapshot.event.station_id);
+  const event = {
+    ...snapshot.event,
+    station_code: station?.code ?? null,
+    station_name: station?.name ?? null,
+    author_name: byId(people, snapshot.event.created_by)?.name ?? null,
+    reviewer_name: byId(people, snapshot.event.reviewed_by)?.name ?? null,
+  };
+  const withNames = (row: SqlRow) => {
+    const product = byId(products, row.product_id);
+    return {
+      ...row,
+      apparatus_unit_id: byId(apparatus, row.apparatus_id)?.unit_id ?? null,
+      product_name: product?.name ?? null,
+      foam_class: product?.foam_class ?? null,
+      product_pfas: product?.pfas_containing ?? 0,
+    };
+  };
+  const { draft: _draft, ...detail } = reportDetailOf(
+    {
+      event: { ...event, draft_json: null, draft_bytes: 0 },
+      discharges: snapshot.discharges.map(withNames),
+      dispositions: snapshot.dispositions,
+      tankReadings: snapshot.tankReadings.map(withNames),
+    },
+    timeZone,
+  );
+  return {
+    ...detail,
+    revision,
+    supersededAt: new Date(stored.created_at).toISOString(),
+    supersededBy: changer?.name ?? "unknown",
+    reason: stored.reason as string,
   };
 }
 

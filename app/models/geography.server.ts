@@ -1,3 +1,4 @@
+import { randomUUID } from "node:crypto";
 import type { FeatureCollection } from "geojson";
 import type { Knex } from "knex";
 import { recordAudit } from "~/lib/audit.server";
@@ -15,7 +16,9 @@ import {
   type LocationCheck,
 } from "~/lib/geo/checks";
 import { LAYER_KINDS, LAYER_RULES, validateLayer, type LayerKind } from "~/lib/geo/layers";
+import { deleteObjectQuietly, putObject } from "~/lib/storage.server";
 import { readAgencySettings } from "./agency-settings.server";
+import { describeFile, recordNewVersion, type StoredFile } from "./file-versions.server";
 
 type Actor = { id: number; email: string } | null;
 
@@ -252,16 +255,68 @@ export async function replaceLayer(
   input: { kind: LayerKind; text: string; fileName: string },
   actor: Actor,
   clientAddress: string | null = null,
-  { connection = db, recheckEvents = true }: { connection?: Knex; recheckEvents?: boolean } = {},
+  {
+    connection = db,
+    recheckEvents = true,
+    keepFile = true,
+  }: { connection?: Knex; recheckEvents?: boolean; keepFile?: boolean } = {},
 ): Promise<ReplaceLayerResult> {
   const validation = validateLayer(input.kind, input.text);
   if (!validation.ok) return validation;
   const geojson = JSON.stringify(validation.collection);
+  // The uploaded file is kept as sent, under a key of its own, before the database changes.
+  const uploaded = keepFile ? await storeLayerFile(input.kind, input.fileName, input.text) : null;
+  const stored: string[] = uploaded ? [uploaded.key] : [];
+  try {
+    return await replaceLayerRows(input, actor, clientAddress, {
+      connection,
+      recheckEvents,
+      geojson,
+      validation,
+      uploaded,
+      stored,
+    });
+  } catch (error) {
+    for (const key of stored) await deleteObjectQuietly(key);
+    throw error;
+  }
+}
+
+async function storeLayerFile(kind: LayerKind, fileName: string, text: string): Promise<StoredFile> {
+  const body = new TextEncoder().encode(text);
+  const file = describeFile(`geo-layers/${kind}/${randomUUID()}.geojson`, fileName, "application/geo+json", body);
+  await putObject(file.key, body, file.contentType);
+  return file;
+}
+
+async function replaceLayerRows(
+  input: { kind: LayerKind; text: string; fileName: string },
+  actor: Actor,
+  clientAddress: string | null,
+  options: {
+    connection: Knex;
+    recheckEvents: boolean;
+    geojson: string;
+    validation: { featureCount: number };
+    uploaded: StoredFile | null;
+    stored: string[];
+  },
+): Promise<ReplaceLayerResult> {
+  const { connection, recheckEvents, geojson, validation, uploaded, stored } = options;
   const eventsRechecked = await connection.transaction(async (trx) => {
     const before = await trx("geo_layers")
       .where({ kind: input.kind })
       .forUpdate()
-      .first("id", "version", "feature_count", "file_name");
+      .first("id", "version", "feature_count", "file_name", "geojson");
+    const replacedFile = uploaded
+      ? await recordNewVersion("geo_layer", input.kind, uploaded, actor?.id ?? null, trx, async () => {
+          // A layer loaded before versions were kept: its text goes to the file store now, so it is kept too.
+          if (!before) return null;
+          const earlier = await storeLayerFile(input.kind, before.file_name || `${input.kind}.geojson`, before.geojson);
+          stored.push(earlier.key);
+          return earlier;
+        })
+      : null;
     const row = {
       file_name: input.fileName.slice(0, 255),
       geojson,
@@ -286,8 +341,8 @@ export async function replaceLayer(
         entityType: "geo_layer",
         entityId: input.kind,
         summary: `${LAYER_RULES[input.kind].label}: ${validation.featureCount} features from ${input.fileName}; ${rechecked} events rechecked`,
-        before: before ? { fileName: before.file_name, featureCount: before.feature_count } : null,
-        after: { fileName: input.fileName, featureCount: validation.featureCount },
+        before: before ? { fileName: before.file_name, featureCount: before.feature_count, file: replacedFile } : null,
+        after: { fileName: input.fileName, featureCount: validation.featureCount, file: uploaded },
         clientAddress,
       },
       trx,

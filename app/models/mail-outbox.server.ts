@@ -1,3 +1,4 @@
+import { recordAudit } from "~/lib/audit.server";
 import { db, type Db } from "~/lib/db.server";
 import { sendMail } from "~/lib/mail.server";
 
@@ -149,7 +150,7 @@ export type OutboxRow = {
   kind: MailKind;
   to: string;
   subject: string;
-  status: "queued" | "sending" | "sent" | "failed";
+  status: "queued" | "sending" | "sent" | "failed" | "discarded";
   attempts: number;
   lastError: string | null;
   nextAttemptAt: Date;
@@ -190,11 +191,53 @@ export async function listOutbox(limit = 100): Promise<OutboxRow[]> {
   }));
 }
 
-/** Makes a failed or waiting message due now. */
-export async function retryMailNow(id: number): Promise<boolean> {
-  const changed = await db("mail_outbox")
-    .where({ id })
-    .whereIn("status", ["queued", "failed"])
-    .update({ status: "queued", next_attempt_at: db.fn.now(3) });
-  return changed > 0;
+export type OutboxActor = { id: number; email: string; clientAddress: string | null };
+
+async function changeFromOutbox(
+  id: number,
+  actor: OutboxActor,
+  action: "outbox_mail_retried" | "outbox_mail_discarded",
+  change: Record<string, unknown>,
+): Promise<boolean> {
+  return db.transaction(async (trx) => {
+    const row = await trx("mail_outbox")
+      .where({ id })
+      .whereIn("status", ["queued", "failed"])
+      .forUpdate()
+      .first("id", "kind", "to_addresses", "subject", "status", "attempts", "event_id", "submission_id");
+    if (!row) return false;
+    await trx("mail_outbox").where({ id }).update(change);
+    await recordAudit(
+      {
+        actorUserId: actor.id,
+        actorLabel: actor.email,
+        action,
+        entityType: "mail_outbox",
+        entityId: id,
+        summary: `${action === "outbox_mail_retried" ? "Retried" : "Discarded"}: ${row.subject}`,
+        before: {
+          status: row.status,
+          attempts: row.attempts,
+          kind: row.kind,
+          to: row.to_addresses,
+          eventId: row.event_id,
+          submissionId: row.submission_id,
+        },
+        after: { status: change.status },
+        clientAddress: actor.clientAddress,
+      },
+      trx,
+    );
+    return true;
+  });
+}
+
+/** Makes a failed or waiting message due now, with an audit row naming who did it. */
+export function retryMailNow(id: number, actor: OutboxActor): Promise<boolean> {
+  return changeFromOutbox(id, actor, "outbox_mail_retried", { status: "queued", next_attempt_at: db.fn.now(3) });
+}
+
+/** Takes a failed or waiting message out of the queue for good (it is kept, marked discarded), audited. */
+export function discardMail(id: number, actor: OutboxActor): Promise<boolean> {
+  return changeFromOutbox(id, actor, "outbox_mail_discarded", { status: "discarded" });
 }

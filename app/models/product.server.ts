@@ -9,6 +9,7 @@ import type { FoamClass, FoamType, PfasContentUnit } from "~/lib/foam/vocabulary
 import { deleteObjectQuietly, putObject } from "~/lib/storage.server";
 import { productColumns } from "./catalogue-rows.server";
 import { nominalPercentsOf } from "./catalogue.server";
+import { describeFile, recordNewVersion, type StoredFile } from "./file-versions.server";
 
 export type ProductRecord = {
   id: number;
@@ -89,8 +90,10 @@ export async function saveProduct(
   clientAddress?: string,
 ): Promise<number | null> {
   let sheetKey: string | null = null;
+  let sheetFile: StoredFile | null = null;
   if (safetySheet) {
     sheetKey = `safety-sheets/${randomUUID()}.pdf`;
+    sheetFile = describeFile(sheetKey, safetySheet.name, safetySheet.contentType, safetySheet.body);
     await putObject(sheetKey, safetySheet.body, safetySheet.contentType);
   }
   try {
@@ -123,6 +126,20 @@ export async function saveProduct(
         savedId = id;
       }
       const after = recordOf((await trx("foam_products").where({ id: savedId }).first())!);
+      // Each sheet keeps its own key: the one replaced stays in the file store and is listed as earlier.
+      const replacedSheet = sheetFile
+        ? await recordNewVersion("safety_sheet", String(savedId), sheetFile, actor.id, trx, async () =>
+            current?.safety_sheet_key
+              ? {
+                  key: current.safety_sheet_key,
+                  fileName: current.safety_sheet_name ?? "safety-sheet.pdf",
+                  contentType: "application/pdf",
+                  byteSize: null,
+                  sha256: null,
+                }
+              : null,
+          )
+        : null;
       await recordAudit(
         {
           actorUserId: actor.id,
@@ -130,9 +147,11 @@ export async function saveProduct(
           action: id == null ? "product_created" : "product_updated",
           entityType: "foam_product",
           entityId: savedId,
-          summary: sheetKey ? `${value.name}; safety sheet ${safetySheet!.name}` : value.name,
-          before,
-          after,
+          summary: sheetKey
+            ? `${value.name}; safety sheet ${safetySheet!.name}${replacedSheet ? ` replaces ${replacedSheet.fileName}` : ""}`
+            : value.name,
+          before: before && sheetFile ? { ...before, safetySheetFile: replacedSheet } : before,
+          after: sheetFile ? { ...after, safetySheetFile: sheetFile } : after,
           clientAddress,
         },
         trx,

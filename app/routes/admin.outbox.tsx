@@ -4,9 +4,10 @@ import { requireCapability } from "~/lib/access.server";
 import { env } from "~/lib/env.server";
 import { fakeMailDirectory, readFakeMailbox, smtpPort } from "~/lib/fake-mailbox.server";
 import { readFormData } from "~/lib/form-data.server";
-import { httpError } from "~/lib/http.server";
+import { clientAddress, httpError } from "~/lib/http.server";
 import { recordIdOf } from "~/lib/record-id";
-import { deliverPendingMail, listOutbox, retryMailNow } from "~/models/mail-outbox.server";
+import { recordDownload } from "~/models/download-audit.server";
+import { deliverPendingMail, discardMail, listOutbox, retryMailNow } from "~/models/mail-outbox.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Outbox (demo) · Foamtally" }];
 
@@ -23,16 +24,25 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  await requireCapability(request, "outbox.view");
+  const user = await requireCapability(request, "outbox.view");
   requireDemoMode();
   const formData = await readFormData(request, [], { fields: ["intent", "id"] });
-  if (formData.get("intent") === "retry") {
+  const intent = formData.get("intent");
+  const actor = { id: user.id, email: user.email, clientAddress: clientAddress(request) };
+  if (intent === "retry" || intent === "discard") {
     const id = recordIdOf(formData.get("id"));
-    if (id == null || !(await retryMailNow(id))) {
-      return data({ message: "That message is not waiting or failed." }, { status: 400 });
-    }
+    const changed =
+      id != null && (await (intent === "retry" ? retryMailNow : discardMail)(id, actor));
+    if (!changed) return data({ message: "That message is not waiting or failed." }, { status: 400 });
+    if (intent === "discard") return { message: "The message was discarded; it stays listed and will not be sent." };
   }
   const outcome = await deliverPendingMail();
+  await recordDownload(request, user, {
+    action: "outbox_delivery_run",
+    entityType: "mail_outbox",
+    summary: "Sent what was due from the outbox",
+    details: outcome,
+  });
   return { message: `Sent ${outcome.sent}; ${outcome.retrying} will be retried; ${outcome.failed} failed for good.` };
 }
 
@@ -71,7 +81,7 @@ export default function Outbox({ loaderData, actionData }: Route.ComponentProps)
               <th scope="col">Attempts</th>
               <th scope="col">Last error / next attempt</th>
               <th scope="col">
-                <span className="sr-only">Retry</span>
+                <span className="sr-only">Retry or discard</span>
               </th>
             </tr>
           </thead>
@@ -99,13 +109,22 @@ export default function Outbox({ loaderData, actionData }: Route.ComponentProps)
                 </td>
                 <td>
                   {row.status === "queued" || row.status === "failed" ? (
-                    <Form method="post">
-                      <input type="hidden" name="intent" value="retry" />
-                      <input type="hidden" name="id" value={row.id} />
-                      <button type="submit" className="btn-quiet">
-                        Retry now
-                      </button>
-                    </Form>
+                    <div className="flex gap-2">
+                      <Form method="post">
+                        <input type="hidden" name="intent" value="retry" />
+                        <input type="hidden" name="id" value={row.id} />
+                        <button type="submit" className="btn-quiet">
+                          Retry now
+                        </button>
+                      </Form>
+                      <Form method="post">
+                        <input type="hidden" name="intent" value="discard" />
+                        <input type="hidden" name="id" value={row.id} />
+                        <button type="submit" className="btn-quiet">
+                          Discard
+                        </button>
+                      </Form>
+                    </div>
                   ) : null}
                 </td>
               </tr>

@@ -1,14 +1,22 @@
 import type { Route } from "./+types/environmental.submissions.$id";
 import { requireCapability } from "~/lib/access.server";
 import { invariantResponse, requireRecordId } from "~/lib/http.server";
+import { recordDownload } from "~/models/download-audit.server";
 import { submissionFile } from "~/models/quarterly-submission.server";
 
 /** The exact file recorded when a period was marked submitted. */
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireCapability(request, "exports.quarterly");
+  const user = await requireCapability(request, "exports.quarterly");
   const id = requireRecordId(request, params.id, "No such submission.");
   const file = await submissionFile(id);
   invariantResponse(file, "No such submission.", 404);
+  await recordDownload(request, user, {
+    action: "submission_downloaded",
+    entityType: "quarterly_submission",
+    entityId: id,
+    summary: `Submitted file ${file.fileName} downloaded`,
+    details: { fileName: file.fileName, sha256: file.sha256, byteSize: file.content.length },
+  });
   return new Response(new Uint8Array(file.content), {
     headers: {
       "Content-Type": file.contentType,

@@ -14,7 +14,7 @@ import { EVENT_STATUS_LABELS } from "~/lib/foam/vocabulary";
 import { refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { reviewReport } from "~/models/event.server";
-import { getReport, reportAccessRecord, reportHistory } from "~/models/event-read.server";
+import { getReport, listRevisions, reportAccessRecord, reportHistory } from "~/models/event-read.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.number ?? "Report"} · Foamtally` }];
 
@@ -27,6 +27,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return {
     report: visible,
     history: await reportHistory(report.id),
+    revisions: await listRevisions(report.id),
     canReview: report.status === "filed" && can(user, "report.review", report),
     canEdit: can(user, changeCapabilityFor(report.status), report),
   };
@@ -55,7 +56,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function EventReport({ loaderData, actionData }: Route.ComponentProps) {
-  const { report, history, canReview, canEdit } = loaderData;
+  const { report, history, revisions, canReview, canEdit } = loaderData;
   return (
     <div className="space-y-6">
       <div className="flex flex-wrap items-start justify-between gap-3">
@@ -86,6 +87,34 @@ export default function EventReport({ loaderData, actionData }: Route.ComponentP
       <ReportSummary report={report} />
       {canReview ? (
         <ReviewPanel version={report.version} lastResult={actionData?.result} pfas={report.pfasContaining} />
+      ) : null}
+      {revisions.length > 0 ? (
+        <section className="card" aria-labelledby="revisions-title">
+          <h2 id="revisions-title" className="text-lg font-semibold">
+            Earlier revisions
+          </h2>
+          <p className="text-sm text-slate-ft">
+            Each amendment of the accepted report kept the state it replaced. Open one to read it as it stood.
+          </p>
+          <ul className="mt-3 space-y-2" data-testid="revisions">
+            {revisions.map((entry) => (
+              <li key={entry.revision} className="border-l-4 border-stone-300 pl-3">
+                <p className="font-medium">
+                  <Link to={`/events/${report.id}/revisions/${entry.revision}`} className="text-pond-700 underline">
+                    Revision {entry.revision}
+                  </Link>{" "}
+                  — superseded by {entry.changedBy}
+                </p>
+                <p className="text-sm text-slate-ft">
+                  <time dateTime={entry.changedAt}>
+                    {new Date(entry.changedAt).toLocaleString("en-US", { timeZone: "UTC" })} UTC
+                  </time>{" "}
+                  · reason: {entry.reason}
+                </p>
+              </li>
+            ))}
+          </ul>
+        </section>
       ) : null}
       <section className="card" aria-labelledby="history-title">
         <h2 id="history-title" className="text-lg font-semibold">

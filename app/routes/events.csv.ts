@@ -3,6 +3,7 @@ import { requireCapability } from "~/lib/access.server";
 import { csvLine } from "~/lib/csv";
 import { EVENT_KIND_LABELS, EVENT_STATUS_LABELS } from "~/lib/foam/vocabulary";
 import { httpError } from "~/lib/http.server";
+import { recordDownload } from "~/models/download-audit.server";
 import { eachEvent, parseEventFilters } from "~/models/event-read.server";
 
 const HEADER = [
@@ -30,6 +31,12 @@ export async function loader({ request }: Route.LoaderArgs) {
         .map(([key, value]) => `${key}: ${value}`)
         .join(" ")}`,
     );
+  await recordDownload(request, user, {
+    action: "events_csv_downloaded",
+    entityType: "events",
+    summary: "Events list downloaded as CSV",
+    details: { filters },
+  });
   const encoder = new TextEncoder();
   const rows = eachEvent(user, filters);
   const body = new ReadableStream<Uint8Array>({

@@ -1,21 +1,28 @@
 import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/geography";
+import { EarlierFiles } from "~/components/earlier-files";
 import { EventLocationMap } from "~/components/event-location-map";
 import { requireCapability } from "~/lib/access.server";
 import { BodyRefused, formShape, readBoundedForm } from "~/lib/form-data.server";
-import { isLayerKind, LAYER_RULES, MAX_LAYER_BYTES } from "~/lib/geo/layers";
+import { isLayerKind, LAYER_KINDS, LAYER_RULES, MAX_LAYER_BYTES } from "~/lib/geo/layers";
 import { clientAddress } from "~/lib/http.server";
 import { UPLOAD_BODY_MAX_BYTES } from "~/lib/request-limits";
 import { flashHeaders } from "~/lib/session.server";
+import { StorageUnavailableError } from "~/lib/storage.server";
+import { earlierVersions, type FileVersion } from "~/models/file-versions.server";
 import { listLayers, replaceLayer, waterwayBufferMetres } from "~/models/geography.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Drainage and waterway layers · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCapability(request, "geography.edit");
-  const [layers, waterwayBufferM] = await Promise.all([listLayers(), waterwayBufferMetres()]);
-  return { layers, waterwayBufferM };
+  const [layers, waterwayBufferM, earlier] = await Promise.all([
+    listLayers(),
+    waterwayBufferMetres(),
+    Promise.all(LAYER_KINDS.map(async (kind) => [kind, await earlierVersions("geo_layer", kind)] as const)),
+  ]);
+  return { layers, waterwayBufferM, earlier: Object.fromEntries(earlier) as Record<string, FileVersion[]> };
 }
 
 const LAYER_UPLOAD_SHAPE = formShape(z.object({ kind: z.string().max(40), file: z.file() }));
@@ -50,7 +57,12 @@ export async function action({ request }: Route.ActionArgs) {
     { kind, text: await file.text(), fileName: file.name || "upload.geojson" },
     user,
     clientAddress(request),
-  );
+  ).catch((error) => {
+    if (error instanceof StorageUnavailableError) return null;
+    throw error;
+  });
+  if (!result)
+    return refuse(kind, ["The file store is not answering, so nothing was changed. Try again in a minute."], 503);
   if (!result.ok) return refuse(kind, [...result.errors, "Nothing was changed; the current layer is still in use."]);
   const label = LAYER_RULES[kind].label;
   const rechecked = kind === "address_points" ? "" : ` ${result.eventsRechecked} events were rechecked.`;
@@ -112,6 +124,11 @@ export default function Geography({ loaderData, actionData }: Route.ComponentPro
                   </a>
                 </p>
               )}
+              <EarlierFiles
+                versions={loaderData.earlier[layer.kind] ?? []}
+                hrefOf={(version) => `/geography/layers/${layer.kind}/versions/${version.id}`}
+                label={`Earlier files of ${layer.label.toLowerCase()}`}
+              />
               <Form method="post" encType="multipart/form-data" className="space-y-2">
                 <input type="hidden" name="kind" value={layer.kind} />
                 <label className="block">

@@ -2,6 +2,7 @@ import { getFormProps, getInputProps, useForm } from "@conform-to/react";
 import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/products.$productId";
+import { EarlierFiles } from "~/components/earlier-files";
 import { CheckboxField, ErrorList, FormErrors, SelectField, TextAreaField, TextField } from "~/components/form-fields";
 import { requireCapability } from "~/lib/access.server";
 import { looksLikePdf, ProductFormSchema, SAFETY_SHEET_MAX_BYTES } from "~/lib/catalogue/product-form";
@@ -15,6 +16,7 @@ import { UPLOAD_BODY_MAX_BYTES } from "~/lib/request-limits";
 import { conflict, refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { StorageUnavailableError } from "~/lib/storage.server";
+import { earlierVersions } from "~/models/file-versions.server";
 import { DuplicateProductNameError, getProduct, saveProduct, type SafetySheetUpload } from "~/models/product.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [
@@ -34,11 +36,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const canEdit = can(user, "catalogue.edit");
   if (id == null) {
     invariantResponse(canEdit, "Only an environmental officer adds foam products.", 403);
-    return { product: null, canEdit };
+    return { product: null, canEdit, earlierSheets: [] };
   }
   const product = await getProduct(id);
   invariantResponse(product, "No such product.");
-  return { product, canEdit };
+  return { product, canEdit, earlierSheets: await earlierVersions("safety_sheet", String(id)) };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -227,8 +229,15 @@ export default function ProductPage({ loaderData, actionData }: Route.ComponentP
                 <a href={`/products/${product.id}/safety-sheet`} className="text-pond-700 underline">
                   {product.safetySheetName}
                 </a>
-                {readOnly ? null : " — choose a file to replace it."}
+                {readOnly ? null : " — choose a file to replace it; the current one is kept as an earlier sheet."}
               </p>
+            ) : null}
+            {product ? (
+              <EarlierFiles
+                versions={loaderData.earlierSheets}
+                hrefOf={(version) => `/products/${product.id}/safety-sheet/versions/${version.id}`}
+                label="Earlier safety sheets"
+              />
             ) : null}
             <input {...sheetProps} key={sheetProps.key} accept="application/pdf,.pdf" className="field-input" />
             <ErrorList id={fields.safetySheet.errorId} errors={fields.safetySheet.errors} />

@@ -1,9 +1,9 @@
 import type { Route } from "./+types/reports.environmental-xlsx";
 import { requireCapability } from "~/lib/access.server";
-import { generatedDownload, periodFrom, workbookRequestFor } from "~/exports/environmental-files.server";
+import { auditedPeriodDownload, periodFrom } from "~/exports/environmental-files.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "exports.quarterly");
   const period = await periodFrom(new URL(request.url).searchParams);
-  return generatedDownload("xlsx", await workbookRequestFor(period, user));
+  return auditedPeriodDownload("xlsx", period, user, request);
 }

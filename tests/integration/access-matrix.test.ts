@@ -80,6 +80,19 @@ beforeAll(async () => {
       stationId: station[at],
       startedAt: new Date("2026-02-01T12:00:00Z"),
     });
+    // Every report has an earlier state, so the revision page answers where the report may be read.
+    await db("event_revisions").insert({
+      event_id: created.id,
+      revision: 0,
+      reason: "Matrix revision",
+      snapshot_json: JSON.stringify({
+        event: await db("events").where({ id: created.id }).first(),
+        discharges: [],
+        dispositions: [],
+        tankReadings: [],
+      }),
+      created_by: otherOfficer.id,
+    });
     reports.push({
       label: `${status} by ${by} officer at ${at} station`,
       id: created.id,
@@ -115,11 +128,16 @@ beforeAll(async () => {
 function targetsOf(
   key: string,
 ): Array<{ label: string; url: string; params: Record<string, string>; record?: ReportRecord }> {
-  if (key === "events/:id" || key === "events/:id/edit" || key === "api/events/:id") {
+  if (
+    key === "events/:id" ||
+    key === "events/:id/edit" ||
+    key === "api/events/:id" ||
+    key === "events/:id/revisions/:revision"
+  ) {
     return reports.map((report) => ({
       label: report.label,
-      url: `/${key.replace(":id", String(report.id))}`,
-      params: { id: String(report.id) },
+      url: `/${key.replace(":id", String(report.id)).replace(":revision", "0")}`,
+      params: { id: String(report.id), revision: "0" },
       record: report.record,
     }));
   }

@@ -58,6 +58,7 @@ beforeAll(async () => {
     const text = readFileSync("tiles/sources/alder-bend/waterways.geojson", "utf8");
     const result = await replaceLayer({ kind: "waterways", text, fileName: "waterways.geojson" }, null, null, {
       recheckEvents: false,
+      keepFile: false,
     });
     expect(result.ok).toBe(true);
   }

@@ -137,6 +137,8 @@ describe("release alerts and notices by e-mail", () => {
     });
     await db.transaction((trx) => queueReturnedReportNotice(event.id, "Please add the receiving water.", trx));
     const deadUrl = `smtp://127.0.0.1:${await closedPort()}`;
+    const admin = await makeUser(["admin"], "Retry Administrator");
+    const actor = { id: admin.id, email: admin.email, clientAddress: null };
 
     await deliverPendingMail({ smtpUrl: deadUrl });
     let row = await db("mail_outbox").where({ event_id: event.id }).first();
@@ -149,13 +151,13 @@ describe("release alerts and notices by e-mail", () => {
     expect(await db("events").where({ id: event.id }).first()).toMatchObject({ status: "returned" });
 
     for (let attempt = 2; attempt <= MAX_ATTEMPTS; attempt++) {
-      await retryMailNow(row.id);
+      await retryMailNow(row.id, actor);
       await deliverPendingMail({ smtpUrl: deadUrl });
     }
     row = await db("mail_outbox").where({ id: row.id }).first();
     expect(row).toMatchObject({ status: "failed", attempts: MAX_ATTEMPTS });
 
-    expect(await retryMailNow(row.id)).toBe(true);
+    expect(await retryMailNow(row.id, actor)).toBe(true);
     await deliverPendingMail({ smtpUrl });
     row = await db("mail_outbox").where({ id: row.id }).first();
     expect(row).toMatchObject({ status: "sent", last_error: null });

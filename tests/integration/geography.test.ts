@@ -12,6 +12,7 @@ import { loader as summaryLoader } from "~/routes/api.summary";
 import { action as geographyAction } from "~/routes/geography";
 import { loader as tileLoader } from "~/routes/tiles";
 import { makeUser } from "../support/factories";
+import { startFileStore } from "../support/file-store";
 import { getRequest, routeArgs, settle } from "../support/requests";
 import { signIn } from "../support/session";
 
@@ -46,11 +47,15 @@ async function status(run: () => Promise<unknown>): Promise<number> {
   return value instanceof Response ? value.status : (value.init?.status ?? 200);
 }
 
+let closeFileStore: () => Promise<void>;
+
 beforeAll(async () => {
+  closeFileStore = await startFileStore("geography");
   for (const kind of Object.keys(DEMO_FILES) as LayerKind[]) {
     if (await db("geo_layers").where({ kind }).first("id")) continue;
     const result = await replaceLayer({ kind, text: demoText(kind), fileName: DEMO_FILES[kind] }, null, null, {
       recheckEvents: false,
+      keepFile: false,
     });
     expect(result.ok).toBe(true);
   }
@@ -139,6 +144,7 @@ beforeAll(async () => {
 afterAll(async () => {
   // Put the demo basins back for the test files that run after this one.
   await replaceLayer({ kind: "drainage_basins", text: demoText("drainage_basins"), fileName: "restore" }, null);
+  await closeFileStore();
 });
 
 const PERIOD = "from=2019-03-01&to=2019-04-30";
