@@ -129,6 +129,63 @@ export const FLOW_BASIS_EXPORT_LABELS: Record<FlowBasis, string> = {
   solution: "Foam solution",
 };
 
+/**
+ * What a percentage setting is a share of. NFPA 11 (2021) §12.6.5 states the proportioning rate as a
+ * percentage of the foam solution flow; direct-injection controllers meter water and inject the set
+ * share of the water flow (common practice, no source).
+ */
+export const PERCENT_OF = ["solution", "water"] as const;
+export type PercentOf = (typeof PERCENT_OF)[number];
+export const PERCENT_OF_LABELS: Record<PercentOf, string> = {
+  solution: "% of the foam solution",
+  water: "% of the water flow",
+};
+/** The same, in an export's column. */
+export const PERCENT_OF_EXPORT_LABELS: Record<PercentOf, string> = {
+  solution: "Of foam solution",
+  water: "Of water",
+};
+
+export const PROPORTIONER_TYPES = [
+  "direct_injection",
+  "eductor",
+  "around_the_pump",
+  "balanced_pressure",
+  "premix",
+] as const;
+export type ProportionerType = (typeof PROPORTIONER_TYPES)[number];
+export const PROPORTIONER_TYPE_LABELS: Record<ProportionerType, string> = {
+  direct_injection: "Direct injection",
+  eductor: "Eductor (in-line inductor)",
+  around_the_pump: "Around-the-pump",
+  balanced_pressure: "Balanced pressure",
+  premix: "Premix",
+};
+/**
+ * A direct-injection controller sets a share of the water it meters; the others set a share of the
+ * solution they make (NFPA 11 §12.6.5 convention; direct injection: common practice, no source).
+ */
+export const PROPORTIONER_PERCENT_OF: Record<ProportionerType, PercentOf> = {
+  direct_injection: "water",
+  eductor: "solution",
+  around_the_pump: "solution",
+  balanced_pressure: "solution",
+  premix: "solution",
+};
+
+export function isProportionerType(value: unknown): value is ProportionerType {
+  return (PROPORTIONER_TYPES as readonly unknown[]).includes(value);
+}
+
+/**
+ * The convention a line takes when none was chosen: its apparatus's proportioner, else the flow basis
+ * (a water figure with a share of water, a solution rating with a share of solution).
+ */
+export function defaultPercentOf(basis: FlowBasis, proportionerType?: ProportionerType | null): PercentOf {
+  if (proportionerType) return PROPORTIONER_PERCENT_OF[proportionerType];
+  return basis === "water" ? "water" : "solution";
+}
+
 export const APPLICATION_METHODS = ["compressed_air", "aspirated", "non_aspirated", "monitor", "wetting"] as const;
 export type ApplicationMethod = (typeof APPLICATION_METHODS)[number];
 export const APPLICATION_METHOD_LABELS: Record<ApplicationMethod, string> = {
