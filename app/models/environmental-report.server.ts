@@ -488,7 +488,7 @@ export async function pfasRows(period: ReportPeriod, thresholdLb: number, connec
       ),
       connection.raw(`(SELECT COUNT(*) FROM runoff_dispositions r WHERE r.event_id = e.id) AS disposition_count`),
     )
-    .sum({ concentrate: "d.concentrate_gal" })
+    .sum({ concentrate: "d.concentrate_gal", solution: "d.solution_gal" })
     .groupBy("e.id", "p.id")
     .orderBy(["e.started_at", "e.id", "p.name"]);
   const result: PfasRow[] = rows.map((row) => {
@@ -498,7 +498,9 @@ export async function pfasRows(period: ReportPeriod, thresholdLb: number, connec
     const content = numOrNull(row.pfas_content);
     const unit = row.pfas_content_unit;
     const known = content !== null && isPfasContentUnit(unit);
-    const gramsInConcentrate = known ? pfasGrams(num(row.concentrate), content, unit) : null;
+    const gramsInConcentrate = known
+      ? pfasGrams({ concentrateGal: num(row.concentrate), solutionGal: num(row.solution) }, content, unit)
+      : null;
     const gramsReleased = gramsInConcentrate === null ? null : gramsInConcentrate * notContained;
     return {
       eventId: row.id,

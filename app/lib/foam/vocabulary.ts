@@ -91,12 +91,45 @@ export const FOAM_TYPE_LABELS: Record<FoamType, string> = {
   other: "Other",
 };
 
-export const PFAS_CONTENT_UNITS = ["g_per_l", "mg_per_l", "percent_w_w"] as const;
+export const PFAS_CONTENT_UNITS = [
+  "g_per_l",
+  "mg_per_l",
+  "percent_w_w",
+  "mg_per_kg",
+  "mg_per_l_solution",
+  "ng_per_l_solution",
+] as const;
 export type PfasContentUnit = (typeof PFAS_CONTENT_UNITS)[number];
 export const PFAS_CONTENT_UNIT_LABELS: Record<PfasContentUnit, string> = {
   g_per_l: "g per litre of concentrate",
   mg_per_l: "mg per litre of concentrate",
   percent_w_w: "% by weight of concentrate (w/w)",
+  mg_per_kg: "mg per kg of concentrate",
+  mg_per_l_solution: "mg per litre of foam solution",
+  ng_per_l_solution: "ng per litre of foam solution",
+};
+/** Content units measured on foam solution (a lab result on solution is not read as concentrate). */
+export const PFAS_SOLUTION_UNITS: readonly PfasContentUnit[] = ["mg_per_l_solution", "ng_per_l_solution"];
+
+/**
+ * The substances a CERCLA reportable quantity counts: PFOA and PFOS, each with its salts and
+ * structural isomers (89 FR 39124, 40 CFR 302.4). Total PFAS is a screening figure only.
+ */
+export const RQ_SUBSTANCES = ["pfoa", "pfos"] as const;
+export type RqSubstance = (typeof RQ_SUBSTANCES)[number];
+export const RQ_SUBSTANCE_LABELS: Record<RqSubstance, string> = {
+  pfoa: "PFOA (with its salts and structural isomers)",
+  pfos: "PFOS (with its salts and structural isomers)",
+};
+export const RQ_SUBSTANCE_SHORT_LABELS: Record<RqSubstance, string> = { pfoa: "PFOA", pfos: "PFOS" };
+
+/** The answer to "does this reach the reportable quantity?": never "No" when it cannot be known. */
+export const RQ_ANSWERS = ["yes", "no", "unknown"] as const;
+export type RqAnswer = (typeof RQ_ANSWERS)[number];
+export const RQ_ANSWER_LABELS: Record<RqAnswer, string> = {
+  yes: "Yes",
+  no: "No",
+  unknown: "Unknown — content not known (mixture rule, 40 CFR 302.6(b)(1)(ii))",
 };
 
 export function isPfasContentUnit(value: unknown): value is PfasContentUnit {
