@@ -86,6 +86,10 @@ export type ProductSpec = {
   pfasContaining?: boolean;
   pfasContent?: number | null;
   pfasContentUnit?: PfasContentUnit | null;
+  pfoaContent?: number | null;
+  pfoaContentUnit?: PfasContentUnit | null;
+  pfosContent?: number | null;
+  pfosContentUnit?: PfasContentUnit | null;
   pfasContentBasis?: string | null;
   pfasContentSource?: string | null;
   unitCostPerGal?: number | null;
@@ -106,6 +110,10 @@ export function productColumns(spec: ProductSpec) {
     pfas_containing: spec.pfasContaining ?? false,
     pfas_content: spec.pfasContent ?? null,
     pfas_content_unit: spec.pfasContent == null ? null : (spec.pfasContentUnit ?? null),
+    pfoa_content: spec.pfoaContent ?? null,
+    pfoa_content_unit: spec.pfoaContent == null ? null : (spec.pfoaContentUnit ?? null),
+    pfos_content: spec.pfosContent ?? null,
+    pfos_content_unit: spec.pfosContent == null ? null : (spec.pfosContentUnit ?? null),
     pfas_content_basis: spec.pfasContentBasis ?? null,
     pfas_content_source: spec.pfasContentSource ?? null,
     unit_cost_per_gal: spec.unitCostPerGal ?? null,
