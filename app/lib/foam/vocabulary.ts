@@ -228,3 +228,18 @@ export const APPLICATION_METHOD_LABELS: Record<ApplicationMethod, string> = {
   monitor: "Monitor",
   wetting: "Wetting agent",
 };
+
+/** Who was told of a release: a notification record kept beside the report (the report is not one). */
+export const NOTIFIED_PARTIES = [
+  "national_response_center",
+  "state_spill_line",
+  "local_sewer_authority",
+  "other",
+] as const;
+export type NotifiedParty = (typeof NOTIFIED_PARTIES)[number];
+export const NOTIFIED_PARTY_LABELS: Record<NotifiedParty, string> = {
+  national_response_center: "National Response Center (federal)",
+  state_spill_line: "State spill line",
+  local_sewer_authority: "Local sewer authority (treatment works)",
+  other: "Other",
+};
