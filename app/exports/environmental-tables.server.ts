@@ -138,6 +138,12 @@ export function releaseTable(wall: WallClock): DetailTable<ReleaseExportRow> {
       { key: "disposal", header: "Disposal reference (contained)", width: 24, value: (r) => r.disposalReference },
       { key: "sewer", header: "Notice to treatment works (sewer)", width: 26, value: (r) => r.sewerNotice },
       { key: "notes", header: "Notes", width: 30, value: (r) => r.notes },
+      {
+        key: "notifications",
+        header: "Notifications recorded (this record is not one)",
+        width: 34,
+        value: (r) => r.notifications,
+      },
     ],
   };
 }

@@ -21,6 +21,8 @@ import {
   FOAM_TYPE_LABELS,
   foamClassLabel,
   isPfasContentUnit,
+  NOTIFIED_PARTY_LABELS,
+  type NotifiedParty,
   type RqAnswer,
   WATER_ONLY_LABEL,
   type Disposition,
@@ -352,6 +354,8 @@ export type ReleaseExportRow = {
   disposalReference: string;
   sewerNotice: string;
   notes: string;
+  /** Notifications recorded for the event (who, when in UTC, case number); empty when none. */
+  notifications: string;
 };
 
 export async function* streamReleaseRows(period: ReportPeriod, connection: Db = db): AsyncGenerator<ReleaseExportRow> {
@@ -371,6 +375,10 @@ export async function* streamReleaseRows(period: ReportPeriod, connection: Db = 
       "r.disposal_reference",
       "r.sewer_notice",
       "r.notes",
+      connection.raw(
+        `(SELECT GROUP_CONCAT(CONCAT(n.party, '|', DATE_FORMAT(n.notified_at, '%Y-%m-%d %H:%i'), '|', n.case_number)
+            ORDER BY n.notified_at SEPARATOR ';') FROM release_notifications n WHERE n.event_id = e.id) AS notifications`,
+      ),
     )
     .orderBy(["e.started_at", "e.id", "r.id"]);
   for await (const row of query.stream()) {
@@ -388,8 +396,22 @@ export async function* streamReleaseRows(period: ReportPeriod, connection: Db = 
       disposalReference: row.disposal_reference ?? "",
       sewerNotice: row.sewer_notice ?? "",
       notes: row.notes ?? "",
+      notifications: notificationsText(row.notifications),
     };
   }
+}
+
+/** "party|when|case;…" from the query, in words: "State spill line, 2026-05-01 15:20 UTC, case X". */
+function notificationsText(stored: string | null): string {
+  if (!stored) return "None recorded";
+  return stored
+    .split(";")
+    .map((entry) => {
+      const [party, when, caseNumber] = entry.split("|");
+      const label = NOTIFIED_PARTY_LABELS[party as NotifiedParty] ?? party;
+      return `${label}, ${when} UTC${caseNumber ? `, case ${caseNumber}` : ""}`;
+    })
+    .join("; ");
 }
 
 export type NonIncidentExportRow = {

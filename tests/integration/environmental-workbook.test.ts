@@ -257,6 +257,8 @@ describe("the quarterly environmental workbook", () => {
     expect(summaryRow(book, "Test Basin North", "Test Creek").value("C")).toBeCloseTo(0.6 * 4003, 6);
     const stormRelease = releases.find((row) => row["Where the runoff went"] === "To a storm drain");
     expect(stormRelease?.["Event number"]).toBe(stormEventNumber);
+    // No notification was recorded for this release; the sheet says so rather than leaving it blank.
+    expect(stormRelease?.["Notifications recorded (this record is not one)"]).toBe("None recorded");
 
     expect(summaryRow(book, "Incident").value("C")).toBe(2);
     expect(summaryRow(book, "Incident").formula("C")).toMatch(/^COUNTIFS\(Events!/);
