@@ -1,8 +1,16 @@
 import { recordAudit } from "~/lib/audit.server";
 import type { SessionUser } from "~/lib/auth.server";
+import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
+import { gramsToPoundsMass, pfasGrams } from "~/lib/foam/pfas";
 import type { ReleaseNotificationValue } from "~/lib/foam/notification-schema";
-import { NOTIFIED_PARTY_LABELS, type NotifiedParty } from "~/lib/foam/vocabulary";
+import {
+  DISPOSITIONS_TO_WATER,
+  isPfasContentUnit,
+  NOTIFIED_PARTY_LABELS,
+  type Disposition,
+  type NotifiedParty,
+} from "~/lib/foam/vocabulary";
 import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
 
@@ -71,4 +79,45 @@ export async function recordReleaseNotification(input: {
     );
     return id;
   });
+}
+
+/**
+ * Why this filed report's release needs a notification record, or null: runoff to a storm drain or
+ * surface water, or PFAS-containing foam whose PFOA or PFOS alone reaches the agency's threshold
+ * (default 1 lb, 40 CFR 302.4) or whose content is not known (mixture rule, 40 CFR 302.6(b)(1)(ii)).
+ */
+export async function notificationReason(eventId: number, connection: Db = db): Promise<string | null> {
+  const toWater = await connection("runoff_dispositions")
+    .where({ event_id: eventId })
+    .whereIn("disposition", DISPOSITIONS_TO_WATER as Disposition[])
+    .first("id");
+  const pfasLines: Record<string, unknown>[] = await connection("discharges as d")
+    .join("foam_products as p", "p.id", "d.product_id")
+    .where({ "d.event_id": eventId, "p.pfas_containing": true })
+    .groupBy("p.id")
+    .select("p.pfoa_content", "p.pfoa_content_unit", "p.pfos_content", "p.pfos_content_unit")
+    .sum({ concentrate: "d.concentrate_gal", solution: "d.solution_gal" });
+  const { pfasReportableLb } = await readAgencySettings(connection);
+  let unknown = false;
+  let reached = false;
+  for (const substance of ["pfoa", "pfos"] as const) {
+    let pounds = 0;
+    for (const line of pfasLines) {
+      const content = decimalOrNull(line[`${substance}_content`]);
+      const unit = line[`${substance}_content_unit`];
+      if (content === null || !isPfasContentUnit(unit)) {
+        unknown = true;
+        continue;
+      }
+      const volumes = { concentrateGal: decimalOrZero(line.concentrate), solutionGal: decimalOrZero(line.solution) };
+      pounds += gramsToPoundsMass(pfasGrams(volumes, content, unit));
+    }
+    if (pounds >= pfasReportableLb) reached = true;
+  }
+  const reasons = [
+    reached ? "its PFOA or PFOS reaches the reportable quantity" : "",
+    !reached && unknown ? "whether its PFOA or PFOS reaches the reportable quantity is unknown" : "",
+    toWater ? "runoff reached a storm drain or surface water" : "",
+  ].filter(Boolean);
+  return reasons.length ? reasons.join(" and ") : null;
 }

@@ -20,6 +20,7 @@ import {
   rethrowDatabaseDown,
 } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
+import { notificationReason } from "./release-notification.server";
 import { reviewReport, saveReport, type SaveHooks } from "~/models/event.server";
 import { reportAccessRecord } from "~/models/event-read.server";
 import { recomputeEventGeography } from "~/models/geography.server";
@@ -109,11 +110,16 @@ export async function handleReportSubmission(request: Request, guard: () => Prom
     );
     if (outcome.kind === "saved" && outcome.status === "filed") deliverPendingMailSoon();
     if (outcome.kind === "saved" || outcome.kind === "repeat") {
+      const reason =
+        outcome.kind === "saved" && outcome.status === "filed" ? await notificationReason(outcome.eventId) : null;
+      const notice = reason
+        ? ` Notification needed: ${reason}. Notify immediately (CERCLA §103, EPCRA §304; state rules add their own) and record it on this page — this report is not a notification.`
+        : "";
       const message =
         outcome.kind === "repeat"
           ? "This form was already sent; here is the report it made."
           : outcome.status === "filed"
-            ? "Report filed. The environmental officer will review it."
+            ? `Report filed. The environmental officer will review it.${notice}`
             : "Draft saved. You can come back to it at any time.";
       const target =
         outcome.kind === "saved" && outcome.status !== "filed"

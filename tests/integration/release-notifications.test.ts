@@ -3,11 +3,12 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/lib/db.server";
 import { loader as eventLoader } from "~/routes/events.$id";
+import { notificationReason } from "~/models/release-notification.server";
 import { action as notifyAction } from "~/routes/events.$id.notifications";
 import { makeUser, TEST_PASSWORD } from "../support/factories";
 import { formRequest, getRequest, routeArgs, settle } from "../support/requests";
 import { signIn } from "../support/session";
-import { ensureAgency, makeEvent, makeStation } from "../support/usage-fixtures";
+import { ensureAgency, makeEvent, makeProduct, makeStation } from "../support/usage-fixtures";
 
 let eventId: number;
 let officerCookie: string;
@@ -98,5 +99,30 @@ describe("release notifications", () => {
     expect(reply.init.status).toBe(400);
     expect(Object.keys(reply.data.notification.error).sort()).toEqual(["notifiedAt", "notifiedBy"]);
     expect(await db("release_notifications").where({ event_id: eventId }).count({ n: "*" })).toEqual(before);
+  });
+
+  it("asks for a notification at filing for surface water, and for PFAS foam of unknown PFOA/PFOS content (mixture rule, 40 CFR 302.6(b)(1)(ii))", async () => {
+    expect(await notificationReason(eventId)).toBe("runoff reached a storm drain or surface water");
+    const officer = await makeUser(["officer"], "Reason Officer");
+    const unknown = await makeProduct({ foamClass: "B", foamType: "afff", pfasContaining: true });
+    const pfasEvent = await makeEvent({
+      createdBy: officer.id,
+      status: "filed",
+      startedAt: new Date("2026-05-02T15:00:00Z"),
+      discharges: [{ productId: unknown.id, percent: 3, water: 97, concentrate: 3 }],
+      dispositions: [{ disposition: "contained", sharePercent: 100, disposalReference: "Drum N-1" }],
+      pfasContaining: true,
+    });
+    expect(await notificationReason(pfasEvent.id)).toBe(
+      "whether its PFOA or PFOS reaches the reportable quantity is unknown",
+    );
+    const quiet = await makeEvent({
+      createdBy: officer.id,
+      status: "filed",
+      startedAt: new Date("2026-05-03T15:00:00Z"),
+      discharges: [{ percent: null, water: 50, concentrate: 0 }],
+      dispositions: [{ disposition: "soil", sharePercent: 100 }],
+    });
+    expect(await notificationReason(quiet.id)).toBeNull();
   });
 });
