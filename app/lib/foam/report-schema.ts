@@ -142,6 +142,13 @@ export const DispositionLineSchema = z
         message: "Give the disposal record (manifest, ticket or drum number) for contained runoff.",
       });
     }
+    if (line.disposition === "surface_water" && !line.receivingWater) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["receivingWater"],
+        message: "Name the creek, pond or river the runoff reached.",
+      });
+    }
     if (line.disposition === "sanitary_sewer" && !line.sewerNotice) {
       ctx.addIssue({
         code: "custom",
