@@ -597,7 +597,7 @@ function DischargeLine({ name, index, listName, full, result, ...props }: Discha
           hint={product ? `Nominal ${product.nominalPercents.join(" or ") || "—"} %` : "Blank for water only."}
         />
         <SelectField
-          label="Percent is a share of"
+          label="Share of (solution or water)"
           field={row.percentOf}
           placeholder={`As the proportioner sets it: ${PERCENT_OF_LABELS[defaultPercentOf(values.basis === "solution" ? "solution" : "water", unit?.proportionerType)]}`}
           options={choices(PERCENT_OF.map((option) => [option, PERCENT_OF_LABELS[option]]))}
