@@ -14,6 +14,7 @@ export default [
   route("events/:id", "routes/events.$id.tsx"),
   route("events/:id/edit", "routes/events.$id.edit.tsx"),
   route("events/:id/revisions/:revision", "routes/events.$id.revisions.$revision.tsx"),
+  route("events/:id/notifications", "routes/events.$id.notifications.ts"),
   route("api/totals", "routes/api.totals.ts"),
   route("api/events", "routes/api.events.ts"),
   route("api/events/:id", "routes/api.events.$id.ts"),

@@ -398,8 +398,9 @@ export function LocationCheckPanel({
       {checks.withinWaterwayBuffer ? (
         <p className="caution" role="status">
           Within {Math.round(checks.waterwayBufferM)} m of {checks.nearestWaterway}. Keep foam and runoff out of the
-          water: contain and collect where you can. Class A surfactants harm aquatic life, and PFAS-containing foam may
-          need a release report within days. Local rules, permits and licensed practice govern.
+          water: contain and collect where you can. Class A surfactants harm aquatic life, and a PFAS-containing foam
+          release at or above a reportable quantity must be reported immediately (CERCLA §103, EPCRA §304); this record
+          is not a notification. Local rules, permits and licensed practice govern.
         </p>
       ) : null}
       {checks.nearestInletM != null && checks.nearestInletM < 50 ? (

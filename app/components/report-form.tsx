@@ -33,11 +33,15 @@ import {
   FLOW_BASIS_LABELS,
   FLOW_UNIT_LABELS,
   FOAM_CLASS_LABELS,
+  defaultPercentOf,
+  PERCENT_OF,
+  PERCENT_OF_LABELS,
   VOLUME_LABELS,
   VOLUMES,
   WATER_ONLY_LABEL,
   type EventStatus,
   type FlowBasis,
+  type ProportionerType,
   type FoamClass,
 } from "~/lib/foam/vocabulary";
 import { EventLocationMap } from "./event-location-map";
@@ -63,6 +67,7 @@ export type ApparatusOption = {
   unitId: string;
   description: string;
   compressedAirCfm: number | null;
+  proportionerType?: ProportionerType | null;
   outlets: OutletOption[];
 };
 export type StationOption = { id: number; code: string; name: string };
@@ -88,6 +93,7 @@ type TotalsResponse = {
     concentrate: TotalsVolume;
     solution: TotalsVolume;
     effectivePercent: number | null;
+    effectivePercentOfSolution: number | null;
     warnings: UsageWarning[];
   }>;
   totals?: { water: TotalsVolume; concentrate: TotalsVolume; solution: TotalsVolume };
@@ -106,7 +112,10 @@ const number = (value: unknown) => {
 };
 
 /** The lines complete enough for the server to compute, with their place in the form. */
-function computableLines(lines: unknown): Array<{ index: number; line: Record<string, unknown> }> {
+function computableLines(
+  lines: unknown,
+  apparatusById: ReadonlyMap<number, ApparatusOption>,
+): Array<{ index: number; line: Record<string, unknown> }> {
   if (!Array.isArray(lines)) return [];
   return lines.flatMap((raw, index) => {
     const line = (raw ?? {}) as Record<string, string | undefined>;
@@ -116,14 +125,21 @@ function computableLines(lines: unknown): Array<{ index: number; line: Record<st
     const percent = number(line.percent);
     if (!flow || flow <= 0 || !minutes || minutes <= 0 || minutes > MAX_DISCHARGE_MINUTES) return [];
     if (productId && (!percent || percent <= 0 || percent >= 100)) return [];
+    const basis = line.basis === "solution" ? "solution" : "water";
+    const unit = apparatusById.get(number(line.apparatusId) ?? 0);
+    const percentOf =
+      line.percentOf === "solution" || line.percentOf === "water"
+        ? line.percentOf
+        : defaultPercentOf(basis, unit?.proportionerType);
     return [
       {
         index,
         line: {
           flow,
           flowUnit: line.flowUnit === "lpm" ? "lpm" : "gpm",
-          basis: line.basis === "solution" ? "solution" : "water",
+          basis,
           percent: productId ? percent : null,
+          percentOf,
           minutes,
           productId: productId ?? null,
           apparatusId: number(line.apparatusId) ?? null,
@@ -160,7 +176,10 @@ export function ReportForm(props: ReportFormProps) {
   const apparatusById = useMemo(() => new Map(props.apparatus.map((unit) => [unit.id, unit])), [props.apparatus]);
 
   // Live totals from the server, debounced while the officer types.
-  const lines = useMemo(() => computableLines(form.value?.discharges), [form.value?.discharges]);
+  const lines = useMemo(
+    () => computableLines(form.value?.discharges, apparatusById),
+    [form.value?.discharges, apparatusById],
+  );
   const request = JSON.stringify({ discharges: lines.map((entry) => entry.line) });
   const submitTotals = totalsFetcher.submit;
   const lastRequest = useRef<string>("");
@@ -587,6 +606,12 @@ function DischargeLine({ name, index, listName, full, result, ...props }: Discha
           inputMode="decimal"
           hint={product ? `Nominal ${product.nominalPercents.join(" or ") || "—"} %` : "Blank for water only."}
         />
+        <SelectField
+          label="Share of (solution or water)"
+          field={row.percentOf}
+          placeholder={`As the proportioner sets it: ${PERCENT_OF_LABELS[defaultPercentOf(values.basis === "solution" ? "solution" : "water", unit?.proportionerType)]}`}
+          options={choices(PERCENT_OF.map((option) => [option, PERCENT_OF_LABELS[option]]))}
+        />
         <TextField label="Flow" field={row.flow} inputMode="decimal" />
         <SelectField
           label="Flow unit"
@@ -623,6 +648,9 @@ function LineResult({ result }: { result?: NonNullable<TotalsResponse["discharge
       <p className="text-slate-ft">
         Water {formatGallons(result.water.gal)} gal · concentrate {formatGallons(result.concentrate.gal)} gal · solution{" "}
         {formatGallons(result.solution.gal)} gal
+        {result.effectivePercentOfSolution != null
+          ? ` · ${Number(result.effectivePercentOfSolution.toFixed(3))} % of the foam solution`
+          : ""}
       </p>
       {result.warnings.length ? (
         <ul className="mt-1 space-y-1" aria-label="Warnings for this discharge">

@@ -10,6 +10,8 @@ import {
   WATER_ONLY_LABEL,
   type Disposition,
   type EventKind,
+  PERCENT_OF_LABELS,
+  type PercentOf,
 } from "~/lib/foam/vocabulary";
 import type { UsageWarning } from "~/lib/foam/totals";
 import type { GeographyChecks } from "~/lib/geo/checks";
@@ -25,6 +27,8 @@ type Line = {
   pfasContaining: boolean;
   percent: number | null;
   effectivePercent: number | null;
+  percentOf?: PercentOf;
+  effectivePercentOfSolution?: number | null;
   flow: number;
   flowUnit: "gpm" | "lpm";
   basis: "water" | "solution";
@@ -203,12 +207,12 @@ export function ReportSummary({ report }: { report: SummaryReport }) {
                   ) : null}
                 </td>
                 <td>
-                  {line.percent != null ? `${line.percent} %` : "—"}
-                  {line.effectivePercent != null &&
+                  {line.percent != null ? `${line.percent} ${PERCENT_OF_LABELS[line.percentOf ?? "water"]}` : "—"}
+                  {line.effectivePercentOfSolution != null &&
                   line.percent != null &&
-                  Math.abs(line.effectivePercent - line.percent) > 1e-6 ? (
-                    <span className="block text-xs text-danger-700">
-                      achieved ≈ {line.effectivePercent.toFixed(3)} %
+                  (line.percentOf === "water" || Math.abs(line.effectivePercentOfSolution - line.percent) > 1e-6) ? (
+                    <span className="block text-xs text-slate-ft">
+                      achieved ≈ {Number(line.effectivePercentOfSolution.toFixed(3))} % of the foam solution
                     </span>
                   ) : null}
                 </td>

@@ -130,7 +130,15 @@ export function methodLines(agency: AgencySettings): [string, string][] {
     ],
     [
       "24-hour threshold",
-      `For each release, the PFAS mass released in the 24 hours starting with it (all PFAS products together) is compared with the agency's reportable threshold of ${agency.pfasReportableLb} lb. Default 1 lb: CERCLA reportable quantity for PFOA and PFOS (40 CFR 302.4; 89 FR 39124), reported under CERCLA §103 and EPCRA §304. The content figures are usually for all PFAS or all fluorosurfactants, not PFOA/PFOS alone, so this check leans high; it does not decide whether a report is owed.`,
+      `The CERCLA reportable quantity is 1 lb in any 24 hours for PFOA and for PFOS, each with its salts and structural isomers (40 CFR 302.4; 89 FR 39124); the agency's threshold is ${agency.pfasReportableLb} lb. Each substance is checked on its own and never added to the other (40 CFR 302.6). The mass compared is gross: all that reached a surface, land included (40 CFR 302.3); the mass not recovered (net) stands beside it. Any span shorter than 24 h is checked, reaching 24 h before and after the period, timed by the discharges where given, and counting filed and returned reports as well as accepted ones. Where a PFAS-containing product has no PFOA or PFOS content recorded, the answer is Unknown: by the mixture rule (40 CFR 302.6(b)(1)(ii)) the whole mixture released is compared with the RQ. Total PFAS is shown as a screening figure only.`,
+    ],
+    [
+      "Percentages",
+      "Each discharge records whether its percentage is a share of the foam solution (NFPA 11 (2021) §12.6.5) or of the water flow (direct injection, common practice, no source). Class B concentrations are checked on the achieved percentage of foam solution, concentrate ÷ solution.",
+    ],
+    [
+      "Not a notification",
+      "This workbook is a record kept after the event. It is not a notification to any authority: a release at or above a reportable quantity must be reported immediately once the person in charge knows of it (CERCLA §103, EPCRA §304; 40 CFR 302.6(a), 355.40), and many states add their own notice, e.g. Colorado within 24 hours to its spill line (C.R.S. 25-5-1303.5).",
     ],
     [
       "Estimates",
@@ -138,7 +146,7 @@ export function methodLines(agency: AgencySettings): [string, string][] {
     ],
     [
       "Cautions",
-      "Local codes, permits, state and federal reporting law and licensed professionals govern what must be reported, when and to whom; several states require reports of PFAS foam releases within 24 hours or a few business days. Keep foam concentrate and foam solution out of storm drains and waterways; contain and collect runoff; handle PFAS-containing foam and its runoff as your disposal rules require. Class A concentrates are also harmful to aquatic life.",
+      "Local codes, permits, state and federal reporting law and licensed professionals govern what must be reported, when and to whom; several states require their own reports of PFAS foam releases (Colorado: within 24 hours, C.R.S. 25-5-1303.5). Keep foam concentrate and foam solution out of storm drains and waterways; contain and collect runoff; handle PFAS-containing foam and its runoff as your disposal rules require. Class A concentrates are also harmful to aquatic life.",
     ],
   ];
 }

@@ -138,6 +138,12 @@ export function releaseTable(wall: WallClock): DetailTable<ReleaseExportRow> {
       { key: "disposal", header: "Disposal reference (contained)", width: 24, value: (r) => r.disposalReference },
       { key: "sewer", header: "Notice to treatment works (sewer)", width: 26, value: (r) => r.sewerNotice },
       { key: "notes", header: "Notes", width: 30, value: (r) => r.notes },
+      {
+        key: "notifications",
+        header: "Notifications recorded (this record is not one)",
+        width: 34,
+        value: (r) => r.notifications,
+      },
     ],
   };
 }
@@ -162,13 +168,21 @@ export function nonIncidentTable(wall: WallClock): DetailTable<NonIncidentExport
   };
 }
 
+const RQ_WORDS: Record<PfasRow["pfoaAnswer"], string> = { yes: "Yes", no: "No", unknown: "Unknown" };
+
 export function pfasColumns(wall: WallClock, thresholdLb: number): Column<PfasRow>[] {
   return [
     { key: "event", header: "Event number", width: 16, value: (r) => r.eventNumber },
     { key: "kind", header: "Kind", width: 11, value: (r) => r.kind },
     { key: "started", header: "Started (local)", width: 17, numFmt: DATE_TIME, value: (r) => wall(r.startedAt) },
     { key: "product", header: "Product", width: 28, value: (r) => r.product },
-    { key: "content", header: "PFAS content", width: 10, numFmt: "#,##0.####", value: (r) => r.content },
+    {
+      key: "content",
+      header: "Total PFAS content (screening)",
+      width: 10,
+      numFmt: "#,##0.####",
+      value: (r) => r.content,
+    },
     {
       key: "unit",
       header: "Content unit",
@@ -220,8 +234,26 @@ export function pfasColumns(wall: WallClock, thresholdLb: number): Column<PfasRo
       value: (r) => r.poundsReleased,
     },
     {
+      key: "pfoaGross",
+      header: "PFOA reaching a surface, gross (lb)",
+      width: 12,
+      numFmt: POUNDS,
+      value: (r) => r.pfoaGrossLb,
+    },
+    { key: "pfoaNet", header: "PFOA not recovered, net (lb)", width: 12, numFmt: POUNDS, value: (r) => r.pfoaNetLb },
+    {
+      key: "pfosGross",
+      header: "PFOS reaching a surface, gross (lb)",
+      width: 12,
+      numFmt: POUNDS,
+      value: (r) => r.pfosGrossLb,
+    },
+    { key: "pfosNet", header: "PFOS not recovered, net (lb)", width: 12, numFmt: POUNDS, value: (r) => r.pfosNetLb },
+    { key: "pfoaAnswer", header: "PFOA at or above the RQ", width: 10, value: (r) => RQ_WORDS[r.pfoaAnswer] },
+    { key: "pfosAnswer", header: "PFOS at or above the RQ", width: 10, value: (r) => RQ_WORDS[r.pfosAnswer] },
+    {
       key: "window",
-      header: "Released in the 24 h from this release (lb)",
+      header: "Heaviest 24 h holding this use, PFOA or PFOS, gross (lb)",
       width: 14,
       numFmt: POUNDS,
       value: (r) => r.windowPounds,
@@ -233,14 +265,23 @@ export function pfasColumns(wall: WallClock, thresholdLb: number): Column<PfasRo
       numFmt: POUNDS,
       value: () => thresholdLb,
     },
-    { key: "reached", header: "Threshold reached", width: 10, value: (r) => r.thresholdReached },
+    { key: "reached", header: "Reportable quantity reached", width: 10, value: (r) => r.thresholdReached },
+    {
+      key: "unaccepted",
+      header: "Reports not yet accepted in the 24 h",
+      width: 20,
+      value: (r) => r.unacceptedInWindow,
+    },
     {
       key: "note",
       header: "Note",
       width: 36,
       value: (r) =>
         [
-          r.content === null ? "PFAS content not recorded in the catalogue: mass unknown." : "",
+          r.pfoaGrossLb === null || r.pfosGrossLb === null
+            ? "PFOA or PFOS content not recorded: whether the reportable quantity was reached is unknown (mixture rule, 40 CFR 302.6(b)(1)(ii))."
+            : "",
+          r.content === null ? "Total PFAS content not recorded." : "",
           r.dispositionsRecorded ? "" : "No runoff dispositions recorded: all of it counted as released.",
         ]
           .filter(Boolean)

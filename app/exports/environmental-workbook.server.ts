@@ -359,7 +359,8 @@ function writeSummary(
   heading("PFAS-containing foam (from the PFAS sheet)");
   const releasedLb = pfas.reduce((total, row) => total + (row.poundsReleased ?? 0), 0);
   const windowMax = heaviestWindowPounds(pfas);
-  const unknown = pfas.some((row) => row.poundsReleased === null);
+  const unknown = pfas.some((row) => row.thresholdReached === "Unknown");
+  const answer = pfas.some((row) => row.thresholdReached === "Yes") ? "Yes" : unknown ? "Unknown" : "No";
   add(["Estimated PFAS released (lb)", "", { formula: `SUM(${pRange("releasedLb")})`, result: releasedLb }], (r) => {
     r.getCell(3).numFmt = POUNDS;
   });
@@ -380,11 +381,13 @@ function writeSummary(
   );
   add(
     [
-      "Threshold reached in some 24-hour period",
-      unknown ? "Some PFAS products have no content recorded: their mass is unknown and not included." : "",
+      "Reportable quantity reached in some 24-hour period (PFOA or PFOS, each on its own)",
+      unknown
+        ? "Unknown: a PFAS-containing product has no PFOA or PFOS content recorded, so by the mixture rule (40 CFR 302.6(b)(1)(ii)) the answer cannot be No."
+        : "",
       {
-        formula: `IF(C${windowRow}>=C${thresholdRow},"Yes","No")`,
-        result: windowMax >= agency.pfasReportableLb ? "Yes" : "No",
+        formula: `IF(OR(C${windowRow}>=C${thresholdRow},COUNTIF(${pRange("reached")},"Yes")>0),"Yes",IF(COUNTIF(${pRange("reached")},"Unknown")>0,"Unknown","No"))`,
+        result: answer,
       },
     ],
     (r) => (r.font = BOLD),

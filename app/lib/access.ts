@@ -57,6 +57,10 @@ export const REPORT_RULES = {
     says: "accepted reports",
     holds: (_principal, report) => report.status === "accepted",
   },
+  filedOfOwnStation: {
+    says: "filed, returned or accepted reports of their own station",
+    holds: (principal, report) => report.status !== "draft" && sameStation(principal, report),
+  },
   acceptedOfOwnStation: {
     says: "accepted reports of their own station",
     holds: (principal, report) => report.status === "accepted" && sameStation(principal, report),
@@ -114,6 +118,14 @@ export const CAPABILITIES = {
   "report.review": report({
     does: "accept a filed report or return it with a comment",
     grants: [{ roles: ["environmental", "chief"] }],
+    hiddenUnless: "report.read",
+  }),
+  "report.notify": report({
+    does: "record who was notified of a release, when, and the case number",
+    grants: [
+      { roles: ["officer"], rule: REPORT_RULES.filedOfOwnStation },
+      { roles: ["environmental", "chief"], rule: REPORT_RULES.notADraftOfOthers },
+    ],
     hiddenUnless: "report.read",
   }),
   "usage.map": plain({ does: "see usage on the map and its totals", grants: [{ roles: ["environmental", "chief"] }] }),
@@ -241,6 +253,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   // The record's status decides between report.edit and report.revise (`changeCapabilityFor`).
   "events/:id/edit": { GET: "report.edit", POST: "report.edit" },
   "events/:id/revisions/:revision": { GET: "report.read" },
+  "events/:id/notifications": { GET: "report.notify", POST: "report.notify" },
   "api/totals": { GET: "signed-in", POST: "signed-in" },
   "api/events": { GET: "report.read" },
   "api/events/:id": { GET: "report.read" },

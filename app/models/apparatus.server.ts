@@ -4,6 +4,7 @@ import type { ApparatusFormValue, StationFormValue } from "~/lib/catalogue/appar
 import { StaleRecordError } from "~/lib/catalogue/record-version";
 import { decimalOrNull } from "~/lib/decimal";
 import { db } from "~/lib/db.server";
+import { isProportionerType, type ProportionerType } from "~/lib/foam/vocabulary";
 import { apparatusRow, outletRow, stationRow } from "./catalogue-rows.server";
 import type { OutletDefaults } from "./catalogue.server";
 
@@ -39,6 +40,7 @@ export type ApparatusRecord = {
   stationCode: string | null;
   concentrateTankGal: number | null;
   proportionerMaxConcentrateGpm: number | null;
+  proportionerType: ProportionerType | null;
   waterFlowMinGpm: number | null;
   waterFlowMaxGpm: number | null;
   compressedAirCfm: number | null;
@@ -56,6 +58,7 @@ function apparatusOf(row: Record<string, unknown>, outlets: Array<Record<string,
     stationCode: (row.station_code as string | null) ?? null,
     concentrateTankGal: decimalOrNull(row.concentrate_tank_gal),
     proportionerMaxConcentrateGpm: decimalOrNull(row.proportioner_max_concentrate_gpm),
+    proportionerType: isProportionerType(row.proportioner_type) ? row.proportioner_type : null,
     waterFlowMinGpm: decimalOrNull(row.water_flow_min_gpm),
     waterFlowMaxGpm: decimalOrNull(row.water_flow_max_gpm),
     compressedAirCfm: decimalOrNull(row.compressed_air_cfm),

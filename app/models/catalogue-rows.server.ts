@@ -1,6 +1,13 @@
 // The columns of a catalogue record (station, apparatus and its outlets, foam product), built once
 // for the app's saves, the seeds and the test factories alike.
-import type { ApplicationMethod, FlowBasis, FoamClass, FoamType, PfasContentUnit } from "../lib/foam/vocabulary";
+import type {
+  ApplicationMethod,
+  FlowBasis,
+  FoamClass,
+  FoamType,
+  PfasContentUnit,
+  ProportionerType,
+} from "../lib/foam/vocabulary";
 
 export type StationSpec = {
   code: string;
@@ -36,6 +43,7 @@ export type ApparatusSpec = {
   stationId?: number | null;
   concentrateTankGal?: number | null;
   proportionerMaxConcentrateGpm?: number | null;
+  proportionerType?: ProportionerType | null;
   waterFlowMinGpm?: number | null;
   waterFlowMaxGpm?: number | null;
   compressedAirCfm?: number | null;
@@ -50,6 +58,7 @@ export function apparatusRow(spec: ApparatusSpec) {
     station_id: spec.stationId ?? null,
     concentrate_tank_gal: spec.concentrateTankGal ?? null,
     proportioner_max_concentrate_gpm: spec.proportionerMaxConcentrateGpm ?? null,
+    proportioner_type: spec.proportionerType ?? null,
     water_flow_min_gpm: spec.waterFlowMinGpm ?? null,
     water_flow_max_gpm: spec.waterFlowMaxGpm ?? null,
     compressed_air_cfm: spec.compressedAirCfm ?? null,
@@ -77,6 +86,10 @@ export type ProductSpec = {
   pfasContaining?: boolean;
   pfasContent?: number | null;
   pfasContentUnit?: PfasContentUnit | null;
+  pfoaContent?: number | null;
+  pfoaContentUnit?: PfasContentUnit | null;
+  pfosContent?: number | null;
+  pfosContentUnit?: PfasContentUnit | null;
   pfasContentBasis?: string | null;
   pfasContentSource?: string | null;
   unitCostPerGal?: number | null;
@@ -97,6 +110,10 @@ export function productColumns(spec: ProductSpec) {
     pfas_containing: spec.pfasContaining ?? false,
     pfas_content: spec.pfasContent ?? null,
     pfas_content_unit: spec.pfasContent == null ? null : (spec.pfasContentUnit ?? null),
+    pfoa_content: spec.pfoaContent ?? null,
+    pfoa_content_unit: spec.pfoaContent == null ? null : (spec.pfoaContentUnit ?? null),
+    pfos_content: spec.pfosContent ?? null,
+    pfos_content_unit: spec.pfosContent == null ? null : (spec.pfosContentUnit ?? null),
     pfas_content_basis: spec.pfasContentBasis ?? null,
     pfas_content_source: spec.pfasContentSource ?? null,
     unit_cost_per_gal: spec.unitCostPerGal ?? null,

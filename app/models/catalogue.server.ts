@@ -2,7 +2,14 @@ import { parseNominalPercents } from "~/lib/catalogue/product-form";
 import { decimalOrNull } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
 import type { ApparatusFacts, ProductFacts } from "~/lib/foam/totals";
-import type { ApplicationMethod, FlowBasis, FoamClass, FoamType } from "~/lib/foam/vocabulary";
+import {
+  isProportionerType,
+  type ApplicationMethod,
+  type FlowBasis,
+  type FoamClass,
+  type FoamType,
+  type ProportionerType,
+} from "~/lib/foam/vocabulary";
 
 export function nominalPercentsOf(stored: string | null | undefined): number[] {
   return parseNominalPercents(stored ?? "") ?? [];
@@ -47,6 +54,7 @@ export type ActiveApparatus = {
   description: string;
   stationId: number | null;
   proportionerMaxConcentrateGpm: number | null;
+  proportionerType: ProportionerType | null;
   waterFlowMinGpm: number | null;
   waterFlowMaxGpm: number | null;
   compressedAirCfm: number | null;
@@ -81,6 +89,7 @@ export async function listActiveApparatus(connection: Db = db): Promise<ActiveAp
     description: row.description,
     stationId: row.station_id ?? null,
     proportionerMaxConcentrateGpm: decimalOrNull(row.proportioner_max_concentrate_gpm),
+    proportionerType: isProportionerType(row.proportioner_type) ? row.proportioner_type : null,
     waterFlowMinGpm: decimalOrNull(row.water_flow_min_gpm),
     waterFlowMaxGpm: decimalOrNull(row.water_flow_max_gpm),
     compressedAirCfm: decimalOrNull(row.compressed_air_cfm),
@@ -106,6 +115,7 @@ const APPARATUS_FACT_COLUMNS = [
   "id",
   "unit_id",
   "proportioner_max_concentrate_gpm",
+  "proportioner_type",
   "water_flow_min_gpm",
   "water_flow_max_gpm",
 ];
@@ -125,6 +135,7 @@ function apparatusFactsOf(row: Record<string, unknown>): ApparatusFacts {
     id: row.id as number,
     unitId: row.unit_id as string,
     proportionerMaxConcentrateGpm: decimalOrNull(row.proportioner_max_concentrate_gpm),
+    proportionerType: isProportionerType(row.proportioner_type) ? row.proportioner_type : null,
     waterFlowMinGpm: decimalOrNull(row.water_flow_min_gpm),
     waterFlowMaxGpm: decimalOrNull(row.water_flow_max_gpm),
   };

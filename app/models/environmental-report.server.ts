@@ -1,7 +1,15 @@
 import type { Knex } from "knex";
 import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
-import { pfasGrams, gramsToPoundsMass, rollingWindowTotals } from "~/lib/foam/pfas";
+import {
+  gramsToPoundsMass,
+  pfasGrams,
+  reportableQuantityAnswers,
+  substanceMass,
+  worseAnswer,
+  type PfasUse,
+  type SubstanceContent,
+} from "~/lib/foam/pfas";
 import { releasedGallonsSql, shareNotContained } from "~/lib/foam/released-volume";
 import {
   DISPOSITION_LABELS,
@@ -13,6 +21,9 @@ import {
   FOAM_TYPE_LABELS,
   foamClassLabel,
   isPfasContentUnit,
+  NOTIFIED_PARTY_LABELS,
+  type NotifiedParty,
+  type RqAnswer,
   WATER_ONLY_LABEL,
   type Disposition,
   type EventKind,
@@ -343,6 +354,8 @@ export type ReleaseExportRow = {
   disposalReference: string;
   sewerNotice: string;
   notes: string;
+  /** Notifications recorded for the event (who, when in UTC, case number); empty when none. */
+  notifications: string;
 };
 
 export async function* streamReleaseRows(period: ReportPeriod, connection: Db = db): AsyncGenerator<ReleaseExportRow> {
@@ -362,6 +375,10 @@ export async function* streamReleaseRows(period: ReportPeriod, connection: Db = 
       "r.disposal_reference",
       "r.sewer_notice",
       "r.notes",
+      connection.raw(
+        `(SELECT GROUP_CONCAT(CONCAT(n.party, '|', DATE_FORMAT(n.notified_at, '%Y-%m-%d %H:%i'), '|', n.case_number)
+            ORDER BY n.notified_at SEPARATOR ';') FROM release_notifications n WHERE n.event_id = e.id) AS notifications`,
+      ),
     )
     .orderBy(["e.started_at", "e.id", "r.id"]);
   for await (const row of query.stream()) {
@@ -379,8 +396,22 @@ export async function* streamReleaseRows(period: ReportPeriod, connection: Db = 
       disposalReference: row.disposal_reference ?? "",
       sewerNotice: row.sewer_notice ?? "",
       notes: row.notes ?? "",
+      notifications: notificationsText(row.notifications),
     };
   }
+}
+
+/** "party|when|case;…" from the query, in words: "State spill line, 2026-05-01 15:20 UTC, case X". */
+function notificationsText(stored: string | null): string {
+  if (!stored) return "None recorded";
+  return stored
+    .split(";")
+    .map((entry) => {
+      const [party, when, caseNumber] = entry.split("|");
+      const label = NOTIFIED_PARTY_LABELS[party as NotifiedParty] ?? party;
+      return `${label}, ${when} UTC${caseNumber ? `, case ${caseNumber}` : ""}`;
+    })
+    .join("; ");
 }
 
 export type NonIncidentExportRow = {
@@ -454,20 +485,44 @@ export type PfasRow = {
   /** Share of the event's foam solution not contained and collected, 0–1. */
   shareNotContained: number;
   dispositionsRecorded: boolean;
+  /** Total PFAS (a screening figure; the reportable quantity counts PFOA and PFOS). */
   gramsInConcentrate: number | null;
   gramsReleased: number | null;
   poundsReleased: number | null;
-  /** Pounds released in the 24 hours starting with this release, all PFAS products together. */
+  /** PFOA and PFOS, pounds that reached any surface (gross) and not recovered (net); null = not known. */
+  pfoaGrossLb: number | null;
+  pfoaNetLb: number | null;
+  pfosGrossLb: number | null;
+  pfosNetLb: number | null;
+  pfoaAnswer: RqAnswer;
+  pfosAnswer: RqAnswer;
+  /** Heaviest known gross pounds of PFOA or of PFOS (never their sum) in a 24-hour period holding this use. */
   windowPounds: number | null;
+  /** The worse of the PFOA and PFOS answers, as the sheets show it. */
   thresholdReached: "Yes" | "No" | "Unknown";
+  /** Filed or returned reports (not yet accepted) within 24 hours of this one, counted in the window. */
+  unacceptedInWindow: string;
 };
 
+const RQ_ANSWER_WORDS: Record<RqAnswer, PfasRow["thresholdReached"]> = { yes: "Yes", no: "No", unknown: "Unknown" };
+
+function substanceContent(content: unknown, unit: unknown): SubstanceContent {
+  const value = numOrNull(content);
+  return value !== null && isPfasContentUnit(unit) ? { content: value, unit } : null;
+}
+
 /**
- * PFAS-containing concentrate used in the period, one row per event and product. Held in memory:
- * one row per PFAS event, which the rolling 24-hour check needs side by side.
+ * PFAS-containing concentrate used in the period, one row per accepted event and product, with the
+ * reportable-quantity answer for PFOA and for PFOS. The 24-hour window looks 24 h before the period's
+ * start and after its end, uses the earliest discharge time where one is given (else the event's
+ * start), and counts filed and returned reports too: a release does not wait for review.
  */
 export async function pfasRows(period: ReportPeriod, thresholdLb: number, connection: Db = db): Promise<PfasRow[]> {
-  const rows: SqlRow[] = await countedEvents(period, connection)
+  const day = 24 * 3_600_000;
+  const rows: SqlRow[] = await connection("events as e")
+    .whereIn("e.status", ["filed", "returned", "accepted"])
+    .where("e.started_at", ">=", new Date(period.startUtc.getTime() - day))
+    .where("e.started_at", "<", new Date(period.endUtc.getTime() + day))
     .join("discharges as d", "d.event_id", "e.id")
     .join("foam_products as p", "p.id", "d.product_id")
     .where("p.pfas_containing", true)
@@ -475,11 +530,16 @@ export async function pfasRows(period: ReportPeriod, thresholdLb: number, connec
       "e.id",
       "e.number",
       "e.kind",
+      "e.status",
       "e.started_at",
       "e.solution_gal as event_solution_gal",
       "p.name",
       "p.pfas_content",
       "p.pfas_content_unit",
+      "p.pfoa_content",
+      "p.pfoa_content_unit",
+      "p.pfos_content",
+      "p.pfos_content_unit",
       "p.pfas_content_basis",
       "p.pfas_content_source",
       connection.raw(
@@ -488,48 +548,75 @@ export async function pfasRows(period: ReportPeriod, thresholdLb: number, connec
       ),
       connection.raw(`(SELECT COUNT(*) FROM runoff_dispositions r WHERE r.event_id = e.id) AS disposition_count`),
     )
-    .sum({ concentrate: "d.concentrate_gal" })
+    .min({ first_discharge_at: "d.started_at" })
+    .sum({ concentrate: "d.concentrate_gal", solution: "d.solution_gal" })
     .groupBy("e.id", "p.id")
     .orderBy(["e.started_at", "e.id", "p.name"]);
-  const result: PfasRow[] = rows.map((row) => {
+  const uses: PfasUse[] = rows.map((row) => {
     const solution = num(row.event_solution_gal);
-    const contained = num(row.contained_gal);
-    const notContained = shareNotContained(contained, solution);
+    return {
+      at: (row.first_discharge_at as Date | null) ?? (row.started_at as Date),
+      concentrateGal: num(row.concentrate),
+      solutionGal: num(row.solution),
+      // Every discharge reached some surface, land included (40 CFR 302.3); net leaves out what was contained.
+      grossShare: 1,
+      netShare: shareNotContained(num(row.contained_gal), solution),
+      content: {
+        pfoa: substanceContent(row.pfoa_content, row.pfoa_content_unit),
+        pfos: substanceContent(row.pfos_content, row.pfos_content_unit),
+      },
+    };
+  });
+  const answers = {
+    pfoa: reportableQuantityAnswers(uses, "pfoa", thresholdLb),
+    pfos: reportableQuantityAnswers(uses, "pfos", thresholdLb),
+  };
+  const result: PfasRow[] = [];
+  rows.forEach((row, index) => {
+    const startedAt = row.started_at as Date | null;
+    const inPeriod = startedAt && startedAt >= period.startUtc && startedAt < period.endUtc;
+    if (row.status !== "accepted" || !inPeriod) return;
+    const use = uses[index];
     const content = numOrNull(row.pfas_content);
     const unit = row.pfas_content_unit;
     const known = content !== null && isPfasContentUnit(unit);
-    const gramsInConcentrate = known ? pfasGrams(num(row.concentrate), content, unit) : null;
-    const gramsReleased = gramsInConcentrate === null ? null : gramsInConcentrate * notContained;
-    return {
+    const gramsInConcentrate = known ? pfasGrams(use, content, unit) : null;
+    const gramsReleased = gramsInConcentrate === null ? null : gramsInConcentrate * use.netShare;
+    const pfoa = substanceMass(use, "pfoa");
+    const pfos = substanceMass(use, "pfos");
+    const unaccepted = rows
+      .filter(
+        (other, otherIndex) =>
+          other.status !== "accepted" && Math.abs(uses[otherIndex].at.getTime() - use.at.getTime()) < day,
+      )
+      .map((other) => `${other.number} (${String(other.status)})`);
+    result.push({
       eventId: row.id,
       eventNumber: row.number,
       kind: EVENT_KIND_LABELS[row.kind as EventKind],
-      startedAt: row.started_at,
+      startedAt,
       product: row.name,
       content,
       contentUnit: unit ?? "",
       contentBasis: row.pfas_content_basis ?? "",
       contentSource: row.pfas_content_source ?? "",
       concentrateGallons: num(row.concentrate),
-      shareNotContained: notContained,
+      shareNotContained: use.netShare,
       dispositionsRecorded: num(row.disposition_count) > 0,
       gramsInConcentrate,
       gramsReleased,
       poundsReleased: gramsReleased === null ? null : gramsToPoundsMass(gramsReleased),
-      windowPounds: null,
-      thresholdReached: "Unknown",
-    };
+      pfoaGrossLb: pfoa.grossPounds,
+      pfoaNetLb: pfoa.netPounds,
+      pfosGrossLb: pfos.grossPounds,
+      pfosNetLb: pfos.netPounds,
+      pfoaAnswer: answers.pfoa[index].answer,
+      pfosAnswer: answers.pfos[index].answer,
+      windowPounds: Math.max(answers.pfoa[index].windowPounds, answers.pfos[index].windowPounds),
+      thresholdReached: RQ_ANSWER_WORDS[worseAnswer(answers.pfoa[index].answer, answers.pfos[index].answer)],
+      unacceptedInWindow: [...new Set(unaccepted)].join(", "),
+    });
   });
-  const timed = result.filter((row) => row.poundsReleased !== null && row.startedAt);
-  const windows = rollingWindowTotals(
-    timed.map((row) => ({ at: row.startedAt as Date, pounds: row.poundsReleased ?? 0 })),
-  );
-  timed.forEach((row, index) => {
-    row.windowPounds = windows[index];
-  });
-  for (const row of result) {
-    if (row.windowPounds !== null) row.thresholdReached = row.windowPounds >= thresholdLb ? "Yes" : "No";
-  }
   return result;
 }
 

@@ -14,6 +14,7 @@ import {
   type EventKind,
   type EventStatus,
   type FoamClass,
+  type PercentOf,
 } from "~/lib/foam/vocabulary";
 import { readStoredDraft } from "~/lib/foam/report-draft.server";
 import { endOfLocalDay, instantToWallClock, startOfLocalDay } from "~/lib/time-zone";
@@ -150,6 +151,8 @@ function reportDetailOf({ event, discharges, dispositions, tankReadings }: Repor
       pfasContaining: Boolean(row.product_pfas),
       percent: decimalOrNull(row.percent),
       effectivePercent: decimalOrNull(row.effective_percent),
+      percentOf: (row.percent_of === "solution" ? "solution" : "water") as PercentOf,
+      effectivePercentOfSolution: decimalOrNull(row.effective_percent_of_solution),
       flow: decimalOrZero(row.flow),
       flowUnit: row.flow_unit as "gpm" | "lpm",
       basis: row.flow_basis as "water" | "solution",

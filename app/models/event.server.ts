@@ -46,6 +46,7 @@ function storedDischarges(lines: DischargeLine[], timeZone: string): ReportDisch
     flow: line.flow,
     flowUnit: line.flowUnit,
     basis: line.basis,
+    percentOf: line.percentOf ?? null,
     minutes: lineMinutes(line),
     startedAt: wallClockToInstant(line.startedAt, timeZone),
     endedAt: wallClockToInstant(line.endedAt, timeZone),

@@ -21,6 +21,10 @@ export type ProductRecord = {
   pfasContaining: boolean;
   pfasContent: number | null;
   pfasContentUnit: PfasContentUnit | null;
+  pfoaContent: number | null;
+  pfoaContentUnit: PfasContentUnit | null;
+  pfosContent: number | null;
+  pfosContentUnit: PfasContentUnit | null;
   pfasContentBasis: string | null;
   pfasContentSource: string | null;
   unitCostPerGal: number | null;
@@ -43,6 +47,10 @@ function recordOf(row: Record<string, unknown>): ProductRecord {
     pfasContaining: Boolean(row.pfas_containing),
     pfasContent: decimalOrNull(row.pfas_content),
     pfasContentUnit: (row.pfas_content_unit as PfasContentUnit | null) ?? null,
+    pfoaContent: decimalOrNull(row.pfoa_content),
+    pfoaContentUnit: (row.pfoa_content_unit as PfasContentUnit | null) ?? null,
+    pfosContent: decimalOrNull(row.pfos_content),
+    pfosContentUnit: (row.pfos_content_unit as PfasContentUnit | null) ?? null,
     pfasContentBasis: (row.pfas_content_basis as string | null) ?? null,
     pfasContentSource: (row.pfas_content_source as string | null) ?? null,
     unitCostPerGal: decimalOrNull(row.unit_cost_per_gal),

@@ -21,6 +21,7 @@ import {
 import { flashHeaders } from "~/lib/session.server";
 import { refusalData } from "~/lib/refusal";
 import { saveReport } from "~/models/event.server";
+import { notificationReason } from "./release-notification.server";
 import { reportAccessRecord } from "~/models/event-read.server";
 
 /**
@@ -90,11 +91,16 @@ export async function handleReportSubmission(request: Request, guard: () => Prom
       clientAddress: clientAddress(request),
     });
     if (outcome.kind === "saved" || outcome.kind === "repeat") {
+      const reason =
+        outcome.kind === "saved" && outcome.status === "filed" ? await notificationReason(outcome.eventId) : null;
+      const notice = reason
+        ? ` Notification needed: ${reason}. Notify immediately (CERCLA §103, EPCRA §304; state rules add their own) and record it on this page — this report is not a notification.`
+        : "";
       const message =
         outcome.kind === "repeat"
           ? "This form was already sent; here is the report it made."
           : outcome.status === "filed"
-            ? "Report filed. The environmental officer will review it."
+            ? `Report filed. The environmental officer will review it.${notice}`
             : "Draft saved. You can come back to it at any time.";
       const target =
         outcome.kind === "saved" && outcome.status !== "filed"

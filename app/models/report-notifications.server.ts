@@ -52,12 +52,13 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
     pfas_content_unit: string | null;
     pfas_content_source: string | null;
     concentrate: string;
+    solution: string;
   }[] = await trx("discharges as d")
     .join("foam_products as p", "p.id", "d.product_id")
     .where({ "d.event_id": eventId, "p.pfas_containing": true })
     .groupBy("p.id")
     .select("p.name", "p.pfas_content", "p.pfas_content_unit", "p.pfas_content_source")
-    .sum({ concentrate: "d.concentrate_gal" });
+    .sum({ concentrate: "d.concentrate_gal", solution: "d.solution_gal" });
   const dispositions: (RunoffLine & { receivingWater: string; disposalReference: string; sewerNotice: string })[] = (
     await trx("runoff_dispositions").where({ event_id: eventId }).orderBy("id")
   ).map((row) => ({
@@ -102,10 +103,17 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
       const content = decimalOrNull(line.pfas_content);
       if (content === null || !isPfasContentUnit(line.pfas_content_unit)) {
         unknown = true;
-        lines.push(`- ${line.name}: ${galAndLitres(concentrate)} of concentrate; PFAS content not recorded`);
+        lines.push(
+          `- ${line.name}: ${galAndLitres(concentrate)} of concentrate; PFAS content not recorded: whether the reportable quantity is reached is UNKNOWN (mixture rule, 40 CFR 302.6(b)(1)(ii)), not "no"`,
+        );
         continue;
       }
-      const grams = pfasGrams(concentrate, content, line.pfas_content_unit) * notContained;
+      const grams =
+        pfasGrams(
+          { concentrateGal: concentrate, solutionGal: decimalOrZero(line.solution) },
+          content,
+          line.pfas_content_unit,
+        ) * notContained;
       pounds += gramsToPoundsMass(grams);
       lines.push(
         `- ${line.name}: ${galAndLitres(concentrate)} of concentrate; estimated PFAS released ${grams.toLocaleString(
@@ -122,10 +130,12 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
       `Share of the foam solution not contained: ${(notContained * 100).toFixed(1)} %${dispositions.length === 0 ? " (no runoff recorded: all counted as released)" : ""}`,
       `Estimated PFAS released by this report: ${pounds.toLocaleString("en-US", { maximumFractionDigits: 3 })} lb` +
         `${unknown ? " plus products with no content recorded" : ""}; the agency's threshold is ${agency.pfasReportableLb} lb in any 24 hours ` +
-        `(default 1 lb: CERCLA reportable quantity for PFOA/PFOS, 40 CFR 302.4). ${
+        `(default 1 lb: the CERCLA reportable quantity for PFOA and for PFOS each, 40 CFR 302.4). ${
           pounds >= agency.pfasReportableLb
             ? "This report alone reaches it."
-            : "Other releases within 24 hours add to it."
+            : unknown
+              ? "Reportable quantity reached: UNKNOWN, because a product's content is not recorded."
+              : "Other releases within 24 hours add to it."
         }`,
     );
   }
@@ -141,7 +151,7 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
   }
   lines.push(
     "",
-    "These figures are estimates from the report as filed. State and local law decide whether and when a release must be reported — some states require a report of a PFAS foam release within 24 hours. Contain and collect what remains and keep it out of drains and waterways.",
+    "This alert and the report it describes are not a notification to any authority. A release at or above a reportable quantity must be reported immediately once the person in charge knows of it (CERCLA §103, EPCRA §304; 40 CFR 302.6(a), 355.40); many states add their own notice, e.g. Colorado within 24 hours to its spill line (C.R.S. 25-5-1303.5). These figures are estimates from the report as filed. Contain and collect what remains and keep it out of drains and waterways.",
   );
   const reasons = [
     pfasLines.length > 0 ? "PFAS-containing foam" : "",

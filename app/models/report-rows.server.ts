@@ -5,7 +5,13 @@
 import type { Knex } from "knex";
 import type { DischargeInput, TankReading, UsageWarning } from "../lib/foam/totals";
 import type { FlowUnit } from "../lib/foam/units";
-import type { ApplicationMethod, Disposition, FlowBasis } from "../lib/foam/vocabulary";
+import {
+  defaultPercentOf,
+  type ApplicationMethod,
+  type Disposition,
+  type FlowBasis,
+  type PercentOf,
+} from "../lib/foam/vocabulary";
 
 /** One discharge as stored: instants, not wall-clock times; minutes worked out. */
 export type ReportDischarge = {
@@ -16,6 +22,8 @@ export type ReportDischarge = {
   flow: number;
   flowUnit?: FlowUnit;
   basis?: FlowBasis;
+  /** What the percentage is a share of; absent: the apparatus's proportioner or the basis decides. */
+  percentOf?: PercentOf | null;
   minutes: number;
   startedAt?: Date | null;
   endedAt?: Date | null;
@@ -56,6 +64,9 @@ export type ComputedDischarge = {
   concentrate: Gallons;
   solution: Gallons;
   effectivePercent: number | null;
+  /** The convention the computation read the percentage in (a `DischargeResult` carries it). */
+  percentOf?: PercentOf;
+  effectivePercentOfSolution?: number | null;
   warnings: UsageWarning[];
 };
 
@@ -74,6 +85,7 @@ export function dischargeInputs(discharges: readonly ReportDischarge[]): Dischar
     flowUnit: line.flowUnit ?? "gpm",
     basis: line.basis ?? "water",
     percent: line.productId == null ? null : line.percent,
+    percentOf: line.percentOf ?? null,
     minutes: line.minutes,
     productId: line.productId,
     apparatusId: line.apparatusId,
@@ -118,6 +130,7 @@ export function dischargeRows(eventId: number, discharges: readonly ReportDischa
       flow: line.flow,
       flow_unit: line.flowUnit ?? "gpm",
       flow_basis: line.basis ?? "water",
+      percent_of: result.percentOf ?? line.percentOf ?? defaultPercentOf(line.basis ?? "water"),
       started_at: line.startedAt ?? null,
       ended_at: line.endedAt ?? null,
       minutes: line.minutes,
@@ -127,6 +140,12 @@ export function dischargeRows(eventId: number, discharges: readonly ReportDischa
       concentrate_gal: result.concentrate.gal,
       solution_gal: result.solution.gal,
       effective_percent: result.effectivePercent,
+      effective_percent_of_solution:
+        result.effectivePercentOfSolution !== undefined
+          ? result.effectivePercentOfSolution
+          : result.effectivePercent != null && result.solution.gal > 0
+            ? (result.concentrate.gal / result.solution.gal) * 100
+            : null,
       warnings: JSON.stringify(result.warnings),
     };
   });

@@ -23,18 +23,26 @@ export async function action({ request }: Route.ActionArgs) {
     parsed.data.discharges.map((line) => ({
       ...line,
       percent: line.percent ?? null,
+      percentOf: line.percentOf ?? (line.basis === "water" ? "water" : "solution"),
       productId: line.productId ?? null,
       apparatusId: line.apparatusId ?? null,
     })),
   );
-  const totals = (item: { water: { gal: number }; concentrate: { gal: number }; solution: { gal: number } }) => ({
+  const totals = (item: {
+    water: { gal: number };
+    concentrate: { gal: number };
+    solution: { gal: number };
+    effectivePercentOfSolution: number | null;
+  }) => ({
     water: apiVolume(item.water.gal),
     concentrate: apiVolume(item.concentrate.gal),
     solution: apiVolume(item.solution.gal),
+    effectivePercentOfSolution: item.effectivePercentOfSolution,
   });
   return Response.json({
     discharges: usage.discharges.map((line) => ({
       ...totals(line),
+      percentOf: line.percentOf,
       effectivePercent: line.effectivePercent,
       warnings: line.warnings,
     })),

@@ -5,7 +5,16 @@ import type { Route } from "./+types/apparatus.$apparatusId";
 import { CheckboxField, FormErrors, SelectField, TextField } from "~/components/form-fields";
 import { requireCapability } from "~/lib/access.server";
 import { ApparatusFormSchema } from "~/lib/catalogue/apparatus-form";
-import { APPLICATION_METHOD_LABELS, APPLICATION_METHODS, FLOW_BASES, FLOW_BASIS_LABELS } from "~/lib/foam/vocabulary";
+import {
+  APPLICATION_METHOD_LABELS,
+  APPLICATION_METHODS,
+  FLOW_BASES,
+  FLOW_BASIS_LABELS,
+  PERCENT_OF_LABELS,
+  PROPORTIONER_PERCENT_OF,
+  PROPORTIONER_TYPE_LABELS,
+  PROPORTIONER_TYPES,
+} from "~/lib/foam/vocabulary";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
 import { recordIdOf } from "~/lib/record-id";
 import { readFormData } from "~/lib/form-data.server";
@@ -89,6 +98,7 @@ export default function ApparatusPage({ loaderData, actionData }: Route.Componen
           stationId: apparatus.stationId?.toString(),
           concentrateTankGal: apparatus.concentrateTankGal?.toString(),
           proportionerMaxConcentrateGpm: apparatus.proportionerMaxConcentrateGpm?.toString(),
+          proportionerType: apparatus.proportionerType ?? undefined,
           waterFlowMinGpm: apparatus.waterFlowMinGpm?.toString(),
           waterFlowMaxGpm: apparatus.waterFlowMaxGpm?.toString(),
           compressedAirCfm: apparatus.compressedAirCfm?.toString(),
@@ -150,6 +160,16 @@ export default function ApparatusPage({ loaderData, actionData }: Route.Componen
           </p>
           <div className="grid gap-4 sm:grid-cols-2">
             <TextField label="Concentrate tank (gal)" field={fields.concentrateTankGal} inputMode="decimal" />
+            <SelectField
+              label="Proportioner type"
+              field={fields.proportionerType}
+              placeholder="Not recorded (the flow basis decides)"
+              options={PROPORTIONER_TYPES.map((type) => ({
+                value: type,
+                label: `${PROPORTIONER_TYPE_LABELS[type]}: sets a ${PERCENT_OF_LABELS[PROPORTIONER_PERCENT_OF[type]]}`,
+              }))}
+              hint="Gives the report form its default for what a percentage setting is a share of."
+            />
             <TextField
               label="Proportioner maximum concentrate rate (gpm)"
               field={fields.proportionerMaxConcentrateGpm}

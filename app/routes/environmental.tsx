@@ -8,7 +8,7 @@ import { lastCompleteQuarter, parseReportPeriod, periodQuery, type ReportPeriod 
 import { localDateTime } from "~/lib/time-zone";
 import { can } from "~/lib/access";
 import { flashHeaders } from "~/lib/session.server";
-import { FOAM_CLASS_LABELS } from "~/lib/foam/vocabulary";
+import { FOAM_CLASS_LABELS, RQ_ANSWER_LABELS } from "~/lib/foam/vocabulary";
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { eventsChangedSince, periodAggregates, pfasRows } from "~/models/environmental-report.server";
 import { latestSubmissionFor, listSubmissions } from "~/models/quarterly-submission.server";
@@ -78,7 +78,8 @@ export async function loader({ request }: Route.LoaderArgs) {
         surfaceWater: aggregates.byDisposition.surface_water,
         pfasEvents: new Set(pfas.map((row) => row.eventId)).size,
         pfasHeaviestLb: heaviest,
-        pfasUnknown: pfas.some((row) => row.poundsReleased === null),
+        pfasUnknown: pfas.some((row) => row.thresholdReached === "Unknown"),
+        pfasReached: pfas.some((row) => row.thresholdReached === "Yes"),
       },
       submission: submission && {
         id: submission.id,
@@ -252,21 +253,27 @@ export default function Environmental({ loaderData, actionData }: Route.Componen
           <Figure label="To storm drains" value={galText(figures.stormDrain)} />
           <Figure label="To surface water" value={galText(figures.surfaceWater)} />
           <Figure
-            label="PFAS: heaviest 24 hours"
+            label="PFOA or PFOS: heaviest 24 hours"
             value={`${roundForDisplay(figures.pfasHeaviestLb, 3)} lb of ${agency.thresholdLb} lb threshold (${figures.pfasEvents} ${figures.pfasEvents === 1 ? "event" : "events"})`}
+          />
+          <Figure
+            label="Reportable quantity reached"
+            value={figures.pfasReached ? "Yes" : figures.pfasUnknown ? RQ_ANSWER_LABELS.unknown : "No"}
           />
         </dl>
         {figures.accepted === 0 ? <p>No accepted reports fall in this period; the workbook will say so.</p> : null}
-        {figures.pfasHeaviestLb >= agency.thresholdLb ? (
+        {figures.pfasReached ? (
           <p className="caution" role="note">
-            The estimated PFAS released reaches the {agency.thresholdLb} lb threshold within 24 hours. The default is
-            the CERCLA reportable quantity for PFOA and PFOS (40 CFR 302.4); state law may require a report sooner or
-            for less. Check with your state and local agencies.
+            The estimated PFOA or PFOS reaching a surface reaches the {agency.thresholdLb} lb threshold within 24 hours.
+            The default is the CERCLA reportable quantity for PFOA and for PFOS (40 CFR 302.4); notice is due
+            immediately once known (CERCLA §103, EPCRA §304), and state law may add its own. This page is not that
+            notice.
           </p>
         ) : null}
         {figures.pfasUnknown ? (
-          <p className="caution">
-            Some PFAS-containing products have no PFAS content in the catalogue: their mass is unknown.
+          <p className="caution" role="note">
+            Some PFAS-containing products have no PFOA or PFOS content in the catalogue: whether the reportable quantity
+            was reached is unknown, not &ldquo;no&rdquo; (mixture rule, 40 CFR 302.6(b)(1)(ii)).
           </p>
         ) : null}
         <p className="caution">

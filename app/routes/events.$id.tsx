@@ -4,6 +4,7 @@ import { data, Form, Link, redirect } from "react-router";
 import type { z } from "zod";
 import type { Route } from "./+types/events.$id";
 import { ErrorList, FormErrors } from "~/components/form-fields";
+import { ReleaseNotifications } from "~/components/release-notifications";
 import { ReportSummary } from "~/components/report-summary";
 import { can, changeCapabilityFor } from "~/lib/access";
 import { authorize, requireCapability } from "~/lib/access.server";
@@ -15,6 +16,8 @@ import { refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { reviewReport } from "~/models/event.server";
 import { getReport, listRevisions, reportAccessRecord, reportHistory } from "~/models/event-read.server";
+import { readAgencySettings } from "~/models/agency-settings.server";
+import { listReleaseNotifications } from "~/models/release-notification.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.number ?? "Report"} · Foamtally` }];
 
@@ -30,6 +33,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     revisions: await listRevisions(report.id),
     canReview: report.status === "filed" && can(user, "report.review", report),
     canEdit: can(user, changeCapabilityFor(report.status), report),
+    notifications: (await listReleaseNotifications(report.id)).map(
+      ({ notifiedAtInstant: _instant, party: _party, ...entry }) => entry,
+    ),
+    canNotify: report.status !== "draft" && can(user, "report.notify", report),
+    timeZone: (await readAgencySettings()).timeZone,
   };
 }
 
@@ -56,7 +64,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function EventReport({ loaderData, actionData }: Route.ComponentProps) {
-  const { report, history, revisions, canReview, canEdit } = loaderData;
+  const { report, history, revisions, canReview, canEdit, notifications, canNotify, timeZone } = loaderData;
   return (
     <div className="space-y-6">
       <div className="flex flex-wrap items-start justify-between gap-3">
@@ -107,7 +115,7 @@ export default function EventReport({ loaderData, actionData }: Route.ComponentP
                 </p>
                 <p className="text-sm text-slate-ft">
                   <time dateTime={entry.changedAt}>
-                    {new Date(entry.changedAt).toLocaleString("en-US", { timeZone: "UTC" })} UTC
+                    {new Date(entry.changedAt).toLocaleString("en-US", { timeZone })}
                   </time>{" "}
                   · reason: {entry.reason}
                 </p>
@@ -115,6 +123,14 @@ export default function EventReport({ loaderData, actionData }: Route.ComponentP
             ))}
           </ul>
         </section>
+      ) : null}
+      {report.status !== "draft" ? (
+        <ReleaseNotifications
+          eventId={report.id}
+          notifications={notifications}
+          canRecord={canNotify}
+          timeZone={timeZone}
+        />
       ) : null}
       <section className="card" aria-labelledby="history-title">
         <h2 id="history-title" className="text-lg font-semibold">

@@ -102,8 +102,9 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
       <h1 className="text-2xl font-bold">Usage map</h1>
       <p className="caution">
         Figures are estimates computed from what officers entered. Circles are sized by concentrate used; a red ring
-        marks PFAS-containing foam, whose releases may have to be reported within days under state and federal law.
-        Local codes, permits and licensed practice govern reporting and clean-up.
+        marks PFAS-containing foam. A release at or above a reportable quantity must be reported immediately (CERCLA
+        §103, EPCRA §304; states add their own, e.g. Colorado within 24 hours, C.R.S. 25-5-1303.5); this map is not a
+        notification. Local codes, permits and licensed practice govern reporting and clean-up.
       </p>
       <Form method="get" className="card flex flex-wrap items-end gap-3" aria-label="Map filters">
         <label>

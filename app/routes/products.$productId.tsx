@@ -132,6 +132,10 @@ export default function ProductPage({ loaderData, actionData }: Route.ComponentP
           pfasContaining: product.pfasContaining ? "on" : undefined,
           pfasContent: product.pfasContent?.toString(),
           pfasContentUnit: product.pfasContentUnit ?? undefined,
+          pfoaContent: product.pfoaContent?.toString(),
+          pfoaContentUnit: product.pfoaContentUnit ?? undefined,
+          pfosContent: product.pfosContent?.toString(),
+          pfosContentUnit: product.pfosContentUnit ?? undefined,
           pfasContentBasis: product.pfasContentBasis ?? undefined,
           pfasContentSource: product.pfasContentSource ?? undefined,
           unitCostPerGal: product.unitCostPerGal?.toString(),
@@ -155,9 +159,10 @@ export default function ProductPage({ loaderData, actionData }: Route.ComponentP
         <p>
           Legacy AFFF and other fluorinated concentrates contain PFAS, which persist in soil and water. Keep them out of
           drains, ditches and waterways; contain and collect runoff; store held stock sealed and labelled; dispose of it
-          only through a licensed route. Many states restrict their use and require release reports within days. Local
-          codes, permits and your licensed advisers govern; the PFAS content you enter is only as good as its source —
-          say whether it is measured or estimated.
+          only through a licensed route. Many states restrict their use; a release at or above a reportable quantity
+          must be reported immediately (CERCLA §103, EPCRA §304), and this record is not that notice. Local codes,
+          permits and your licensed advisers govern; the PFAS content you enter is only as good as its source — say
+          whether it is measured or estimated.
         </p>
       </div>
       <Form method="post" encType="multipart/form-data" className="card space-y-4" {...getFormProps(form)}>
@@ -204,6 +209,27 @@ export default function ProductPage({ loaderData, actionData }: Route.ComponentP
               <SelectField
                 label="Unit of the PFAS content"
                 field={fields.pfasContentUnit}
+                placeholder="Choose a unit"
+                options={PFAS_CONTENT_UNITS.map((unit) => ({ value: unit, label: PFAS_CONTENT_UNIT_LABELS[unit] }))}
+              />
+            </div>
+            <p className="text-sm text-slate-ft">
+              Total PFAS is a screening figure. The federal reportable quantity counts PFOA and PFOS, each on its own
+              (40 CFR 302.4): leave a figure empty when it is not known, and every report of this product answers
+              &ldquo;unknown&rdquo; to whether the quantity was reached (40 CFR 302.6(b)(1)(ii)).
+            </p>
+            <div className="grid gap-4 sm:grid-cols-2">
+              <TextField label="PFOA content" field={fields.pfoaContent} inputMode="decimal" autoComplete="off" />
+              <SelectField
+                label="Unit of the PFOA content"
+                field={fields.pfoaContentUnit}
+                placeholder="Choose a unit"
+                options={PFAS_CONTENT_UNITS.map((unit) => ({ value: unit, label: PFAS_CONTENT_UNIT_LABELS[unit] }))}
+              />
+              <TextField label="PFOS content" field={fields.pfosContent} inputMode="decimal" autoComplete="off" />
+              <SelectField
+                label="Unit of the PFOS content"
+                field={fields.pfosContentUnit}
                 placeholder="Choose a unit"
                 options={PFAS_CONTENT_UNITS.map((unit) => ({ value: unit, label: PFAS_CONTENT_UNIT_LABELS[unit] }))}
               />

@@ -297,6 +297,7 @@ describe("stations and apparatus", () => {
               stationId: String(station.id),
               concentrateTankGal: "30",
               proportionerMaxConcentrateGpm: "1.5",
+              proportionerType: "direct_injection",
               waterFlowMinGpm: "5",
               waterFlowMaxGpm: "300",
               compressedAirCfm: "150",
@@ -326,6 +327,7 @@ describe("stations and apparatus", () => {
       description: "Test engine (test)",
       stationId: station.id,
       proportionerMaxConcentrateGpm: 1.5,
+      proportionerType: "direct_injection",
       waterFlowMinGpm: 5,
       waterFlowMaxGpm: 300,
       compressedAirCfm: 150,
@@ -356,6 +358,7 @@ describe("stations and apparatus", () => {
       id: row.id,
       unitId,
       proportionerMaxConcentrateGpm: 1.5,
+      proportionerType: "direct_injection",
       waterFlowMinGpm: 5,
       waterFlowMaxGpm: 300,
     });

@@ -131,6 +131,17 @@ describe("the demo seed", () => {
     expect(audits.every((row) => row.actor_label === "demo seed")).toBe(true);
   });
 
+  it("shows a recorded notification and an Unknown PFAS answer (the legacy product has no PFOA/PFOS content)", async () => {
+    await knex.seed.run({ specific: "07_release_notifications.ts" });
+    const [notification] = await knex("release_notifications");
+    expect(notification).toMatchObject({ party: "state_spill_line", case_number: "DEMO-SPILL-0001" });
+    const legacy = await knex("foam_products").where({ pfas_containing: true }).first();
+    expect(legacy.pfoa_content).toBeNull();
+    expect(legacy.pfos_content).toBeNull();
+    const event = await knex("events").where({ id: notification.event_id }).first();
+    expect(Boolean(event.pfas_containing)).toBe(true);
+  });
+
   it("covers every kind and status, the cases the reports must show, inside the district", async () => {
     const events = await knex("events");
     expect(new Set(events.map((event) => event.kind))).toEqual(new Set(["incident", "training", "test", "flush"]));

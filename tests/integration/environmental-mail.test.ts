@@ -93,8 +93,29 @@ describe("release alerts and notices by e-mail", () => {
     expect(alert.text).toContain("estimated PFAS released 3,406.9 g (7.511 lb)");
     expect(alert.text).toContain("To a storm drain: 3,000 US gal (11,356.2 L) to Test Creek");
     expect(alert.text).toContain("This report alone reaches it.");
+    // 40 CFR 302.6(a), 355.40: notice is due immediately; a record kept afterwards is not one.
+    expect(alert.text).toContain("not a notification to any authority");
+    expect(alert.text).toContain("reported immediately");
+    expect(alert.text).not.toMatch(/within days/);
     const row = await db("mail_outbox").where({ event_id: event.id }).first();
     expect(row).toMatchObject({ kind: "release_alert", status: "sent", attempts: 1 });
+  });
+
+  it("says UNKNOWN, never no, for PFAS foam whose content is not recorded (mixture rule, 40 CFR 302.6(b)(1)(ii))", async () => {
+    const officer = await makeUser(["officer"], "Unknown Officer");
+    const product = await makeProduct({ foamClass: "B", foamType: "afff", pfasContaining: true });
+    const event = await makeEvent({
+      createdBy: officer.id,
+      status: "filed",
+      startedAt: new Date("2032-03-05T15:00:00Z"),
+      discharges: [{ productId: product.id, percent: 3, water: 97, concentrate: 3 }],
+      dispositions: [{ disposition: "soil", sharePercent: 100 }],
+      pfasContaining: true,
+    });
+    await db.transaction((trx) => queueFiledReportAlerts(event.id, trx));
+    const row = await db("mail_outbox").where({ event_id: event.id, kind: "release_alert" }).first();
+    expect(row.text_body).toMatch(/reportable quantity is reached is UNKNOWN/);
+    expect(row.text_body).toMatch(/Reportable quantity reached: UNKNOWN/);
   });
 
   it("sends nothing for a report without PFAS foam whose runoff was contained", async () => {

@@ -41,9 +41,11 @@ function summaryRow(book: XLSX.WorkBook, label: string, second?: string) {
   throw new Error(`no Summary row ${label} / ${second}`);
 }
 
+const REACHED = "Reportable quantity reached in some 24-hour period (PFOA or PFOS, each on its own)";
 let dir: string;
 let pfasProductName: string;
 let stormEventNumber: string;
+let boundaryFiledNumber: string;
 
 beforeAll(async () => {
   dir = mkdtempSync(path.join(tmpdir(), "foamtally-workbook-"));
@@ -60,10 +62,45 @@ beforeAll(async () => {
     pfasContaining: true,
     pfasContent: 10,
     pfasContentUnit: "g_per_l",
+    // Test figures: all of it PFOS, none PFOA, so the reportable-quantity check has known amounts.
+    pfoaContent: 0,
+    pfoaContentUnit: "g_per_l",
+    pfosContent: 10,
+    pfosContentUnit: "g_per_l",
     pfasContentBasis: "perfluoroalkyl sulfonates",
     pfasContentSource: "middle of 5–15 g/L for legacy PFOS AFFF (an old product safety sheet)",
   });
   pfasProductName = legacy.name;
+  // A PFAS-containing product whose PFOA and PFOS content nobody knows.
+  const unknownContent = await makeProduct({ foamClass: "B", foamType: "afff", pfasContaining: true });
+  await makeEvent({
+    createdBy: officer.id,
+    startedAt: new Date("2034-02-01T15:00:00Z"),
+    discharges: [{ productId: unknownContent.id, percent: 3, water: 97, concentrate: 3 }],
+    dispositions: [{ disposition: "soil", sharePercent: 100 }],
+    pfasContaining: true,
+  });
+  // Across the Q1/Q2 2032 boundary in Chicago: 23:00 on 31 March (04:00Z) and 01:00 on 1 April (06:00Z),
+  // 7.19 gal each of the 10 g/L PFOS product = 0.60003 lb each, 1.2 lb together.
+  for (const startedAt of ["2032-04-01T04:00:00Z", "2032-04-01T06:00:00Z"]) {
+    await makeEvent({
+      createdBy: officer.id,
+      startedAt: new Date(startedAt),
+      discharges: [{ productId: legacy.id, percent: 3, water: 232.48, concentrate: 7.19 }],
+      dispositions: [{ disposition: "contained", sharePercent: 100, disposalReference: "Drum T-9" }],
+      pfasContaining: true,
+    });
+  }
+  boundaryFiledNumber = (
+    await makeEvent({
+      createdBy: officer.id,
+      status: "filed",
+      startedAt: new Date("2032-04-01T12:00:00Z"),
+      discharges: [{ productId: legacy.id, percent: 3, water: 10, concentrate: 0.1 }],
+      dispositions: [{ disposition: "contained", sharePercent: 100, disposalReference: "Drum T-10" }],
+      pfasContaining: true,
+    })
+  ).number;
   // 2031 Q2 in Chicago: 2031-04-01T05:00Z up to 2031-07-01T05:00Z. Test years keep clear of other tests' rows.
   const storm = await makeEvent({
     createdBy: officer.id,
@@ -153,7 +190,14 @@ describe("the quarterly environmental workbook", () => {
       expect.arrayContaining(["Water (US gal)", "Concentrate (US gal)", "Foam solution (US gal)", "Foam solution (L)"]),
     );
     expect(header("PFAS")).toEqual(
-      expect.arrayContaining(["Estimated PFAS released (g)", "Estimated PFAS released (lb)", "Threshold reached"]),
+      expect.arrayContaining([
+        "Estimated PFAS released (g)",
+        "Estimated PFAS released (lb)",
+        "PFOS reaching a surface, gross (lb)",
+        "PFOS not recovered, net (lb)",
+        "PFOA at or above the RQ",
+        "Reportable quantity reached",
+      ]),
     );
     // The filter spans the header and the five discharge rows of Q2 (A to U: 21 columns).
     expect(book.Sheets.Discharges["!autofilter"]?.ref).toBe("A1:U6");
@@ -213,6 +257,8 @@ describe("the quarterly environmental workbook", () => {
     expect(summaryRow(book, "Test Basin North", "Test Creek").value("C")).toBeCloseTo(0.6 * 4003, 6);
     const stormRelease = releases.find((row) => row["Where the runoff went"] === "To a storm drain");
     expect(stormRelease?.["Event number"]).toBe(stormEventNumber);
+    // No notification was recorded for this release; the sheet says so rather than leaving it blank.
+    expect(stormRelease?.["Notifications recorded (this record is not one)"]).toBe("None recorded");
 
     expect(summaryRow(book, "Incident").value("C")).toBe(2);
     expect(summaryRow(book, "Incident").formula("C")).toMatch(/^COUNTIFS\(Events!/);
@@ -236,19 +282,50 @@ describe("the quarterly environmental workbook", () => {
     expect(storm["Estimated PFAS released (lb)"]).toBeCloseTo(2044.12236336 / 453.59237, 9);
     expect(storm["Estimated PFAS released (lb)"]).toBeCloseTo(4.5065184, 6);
     // Reportable threshold 1 lb in 24 h: CERCLA RQ for PFOA/PFOS, 40 CFR 302.4 (89 FR 39124).
-    expect(storm["Threshold reached"]).toBe("Yes");
+    // PFOS gross: all 3,406.87 g reached a surface (40 CFR 302.3) = 7.5108640 lb; net 60 % = 4.5065184 lb.
+    expect(storm["PFOS reaching a surface, gross (lb)"]).toBeCloseTo(3406.8706056 / 453.59237, 9);
+    expect(storm["PFOS not recovered, net (lb)"]).toBeCloseTo(4.5065184, 6);
+    expect(storm["PFOS at or above the RQ"]).toBe("Yes");
+    expect(storm["PFOA at or above the RQ"]).toBe("No");
+    expect(storm["Reportable quantity reached"]).toBe("Yes");
     // The flush: 10 gal × 3.785411784 × 10 g/L = 378.5411784 g, all to the sewer (not contained) = 0.834540 lb.
     const flush = pfas[1];
     expect(flush["Estimated PFAS released (lb)"]).toBeCloseTo(378.5411784 / GRAMS_PER_POUND, 9);
-    expect(flush["Released in the 24 h from this release (lb)"]).toBeCloseTo(0.83454, 5);
-    expect(flush["Threshold reached"]).toBe("No");
-    const reached = summaryRow(book, "Threshold reached in some 24-hour period");
+    expect(flush["Heaviest 24 h holding this use, PFOA or PFOS, gross (lb)"]).toBeCloseTo(0.83454, 5);
+    expect(flush["Reportable quantity reached"]).toBe("No");
+    const reached = summaryRow(book, REACHED);
     expect(reached.value("C")).toBe("Yes");
-    expect(reached.formula("C")).toMatch(/^IF\(C\d+>=C\d+,"Yes","No"\)$/);
+    expect(reached.formula("C")).toMatch(/^IF\(OR\(C\d+>=C\d+,COUNTIF\(/);
     expect(summaryRow(book, "Estimated PFAS released (lb)").value("C")).toBeCloseTo(
       (2044.12236336 + 378.5411784) / 453.59237,
       9,
     );
+  });
+
+  it("answers Unknown, never No, for a PFAS product without PFOA/PFOS content (mixture rule, 40 CFR 302.6(b)(1)(ii))", async () => {
+    const { book } = await build(quarter(2034, 1), "q1-unknown.xlsx");
+    const [row] = rowsOf(book, "PFAS");
+    expect(row["Reportable quantity reached"]).toBe("Unknown");
+    expect(row["PFOS reaching a surface, gross (lb)"]).toBeUndefined();
+    expect(String(row.Note)).toMatch(/unknown \(mixture rule, 40 CFR 302\.6\(b\)\(1\)\(ii\)\)/);
+    const summary = summaryRow(book, REACHED);
+    expect(summary.value("C")).toBe("Unknown");
+    expect(summary.value("B")).toMatch(/cannot be No/);
+  });
+
+  it("finds a 24-hour pair across a quarter boundary and counts a filed report beside it (40 CFR 302.4: 1 lb in any 24 h)", async () => {
+    const { book } = await build(quarter(2032, 2), "q2-boundary.xlsx");
+    const rows = rowsOf(book, "PFAS");
+    // Only the 1 April use is in Q2; the 31 March one (Q1) is found by looking 24 h back.
+    expect(rows).toHaveLength(1);
+    expect(rows[0]["PFOS reaching a surface, gross (lb)"]).toBeCloseTo((7.19 * 3.785411784 * 10) / 453.59237, 9);
+    expect(rows[0]["Heaviest 24 h holding this use, PFOA or PFOS, gross (lb)"]).toBeGreaterThan(1.2);
+    expect(rows[0]["Reportable quantity reached"]).toBe("Yes");
+    expect(rows[0]["Reports not yet accepted in the 24 h"]).toBe(`${boundaryFiledNumber} (filed)`);
+    // Contained runoff is never "released": its net mass is 0.
+    expect(rows[0]["PFOS not recovered, net (lb)"]).toBe(0);
+    const q1 = rowsOf((await build(quarter(2032, 1), "q1-boundary.xlsx")).book, "PFAS");
+    expect(q1.map((row) => row["Reportable quantity reached"])).toEqual(["Yes"]);
   });
 
   it("gives a valid workbook that says so for a period without data", async () => {
@@ -256,7 +333,7 @@ describe("the quarterly environmental workbook", () => {
     expect(book.SheetNames).toEqual(SHEETS);
     expect(summaryRow(book, "No data").value("B")).toMatch(/No accepted reports/);
     expect(summaryRow(book, "All discharges").value("C")).toBe(0);
-    expect(summaryRow(book, "Threshold reached in some 24-hour period").value("C")).toBe("No");
+    expect(summaryRow(book, REACHED).value("C")).toBe("No");
     expect(XLSX.utils.sheet_to_json<string[]>(book.Sheets.Discharges, { header: 1 })[1]).toEqual([
       "No discharges in this period.",
     ]);

@@ -344,13 +344,51 @@ describe("POST /api/totals", () => {
       ),
     )) as Response;
     const body = await response.json();
-    expect(body.totals).toEqual({
+    expect(body.totals).toMatchObject({
       water: { gal: 2000, L: 7570.82 },
       concentrate: { gal: 6, L: 22.71 },
       solution: { gal: 2006, L: 7593.54 },
     });
+    // Without percentOf a water figure takes its percentage of the water (today's meaning; direct
+    // injection, common practice, no source): 6 ÷ 2,006 of the solution.
+    expect(body.discharges[0].percentOf).toBe("water");
+    expect(body.discharges[0].effectivePercentOfSolution).toBeCloseTo((6 / 2006) * 100, 9);
+    expect(body.totals.effectivePercentOfSolution).toBeCloseTo((6 / 2006) * 100, 9);
     expect(body.discharges[0].warnings).toEqual([]);
     expect(await db("events").count({ n: "*" })).toEqual(before);
+  });
+
+  it("takes percentOf: 97 gpm water × 10 min at 3 % of solution → 30 gal concentrate, 1,000 gal solution (computed from the definition, W ÷ (1 − p))", async () => {
+    const response = (await totalsAction(
+      routeArgs(
+        jsonRequest(
+          "/api/totals",
+          {
+            discharges: [{ flow: 97, flowUnit: "gpm", basis: "water", percent: 3, percentOf: "solution", minutes: 10 }],
+          },
+          { Cookie: officerCookie },
+        ),
+      ),
+    )) as Response;
+    const body = await response.json();
+    expect(body.totals.concentrate.gal).toBe(30);
+    expect(body.totals.solution.gal).toBe(1000);
+    expect(body.discharges[0].effectivePercentOfSolution).toBeCloseTo(3, 9);
+    const refused = (await totalsAction(
+      routeArgs(
+        jsonRequest(
+          "/api/totals",
+          {
+            discharges: [
+              { flow: 97, flowUnit: "gpm", basis: "water", percent: 3, percentOf: "concentrate", minutes: 10 },
+            ],
+          },
+          { Cookie: officerCookie },
+        ),
+      ),
+    )) as Response;
+    expect(refused.status).toBe(400);
+    expect(Object.keys((await refused.json()).errors)).toEqual(["discharges.0.percentOf"]);
   });
 
   it("warns about a line above the proportioner's maximum", async () => {

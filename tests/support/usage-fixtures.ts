@@ -45,6 +45,10 @@ export type ProductFixture = {
   pfasContentUnit?: PfasContentUnit | null;
   pfasContentBasis?: string | null;
   pfasContentSource?: string | null;
+  pfoaContent?: number | null;
+  pfoaContentUnit?: PfasContentUnit | null;
+  pfosContent?: number | null;
+  pfosContentUnit?: PfasContentUnit | null;
 };
 
 export async function makeProduct(spec: ProductFixture, connection: Knex = db) {

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { APPLICATION_METHODS, FLOW_BASES } from "../foam/vocabulary";
+import { APPLICATION_METHODS, FLOW_BASES, PROPORTIONER_TYPES } from "../foam/vocabulary";
 import { checkbox, coordinate, optionalNumber } from "./form-fields";
 
 export const StationFormSchema = z.object({
@@ -54,6 +54,7 @@ export const ApparatusFormSchema = z
       .transform((value) => value ?? ""),
     stationId: z.coerce.number({ error: "Choose a station." }).int().positive("Choose a station.").optional(),
     concentrateTankGal: optionalNumber("The concentrate tank size", { max: 100_000 }),
+    proportionerType: z.enum(PROPORTIONER_TYPES, { error: "Choose a proportioner type from the list." }).optional(),
     proportionerMaxConcentrateGpm: optionalNumber("The proportioner's maximum concentrate rate", {
       max: 1_000,
       positive: true,

@@ -44,6 +44,10 @@ export const ProductFormSchema = z
     pfasContaining: checkbox,
     pfasContent: optionalNumber("The PFAS content", { max: decimalColumnMax("foam_products.pfas_content") }),
     pfasContentUnit: z.enum(PFAS_CONTENT_UNITS, { error: "Choose a unit for the PFAS content." }).optional(),
+    pfoaContent: optionalNumber("The PFOA content", { max: Infinity }),
+    pfoaContentUnit: z.enum(PFAS_CONTENT_UNITS, { error: "Choose a unit for the PFOA content." }).optional(),
+    pfosContent: optionalNumber("The PFOS content", { max: Infinity }),
+    pfosContentUnit: z.enum(PFAS_CONTENT_UNITS, { error: "Choose a unit for the PFOS content." }).optional(),
     pfasContentBasis: optionalText(2000, "The basis"),
     pfasContentSource: optionalText(2000, "The source"),
     unitCostPerGal: optionalNumber("The unit cost", { max: decimalColumnMax("foam_products.unit_cost_per_gal") }),
@@ -78,6 +82,32 @@ export const ProductFormSchema = z
         path: ["pfasContaining"],
         message: "A product with a PFAS content above zero is PFAS-containing.",
       });
+    }
+    for (const substance of ["pfoa", "pfos"] as const) {
+      const content = value[`${substance}Content`];
+      const label = substance.toUpperCase();
+      if (content == null) continue;
+      if (!value[`${substance}ContentUnit`]) {
+        ctx.addIssue({
+          code: "custom",
+          path: [`${substance}ContentUnit`],
+          message: `Choose a unit for the ${label} content.`,
+        });
+      }
+      if (!value.pfasContentSource) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["pfasContentSource"],
+          message: `Name where the ${label} figure comes from (safety sheet, lab report, estimate).`,
+        });
+      }
+      if (content > 0 && !value.pfasContaining) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["pfasContaining"],
+          message: `A product with ${label} above zero is PFAS-containing.`,
+        });
+      }
     }
     if (value.pfasContentUnit === "percent_w_w" && value.pfasContent != null && value.pfasContent > 100) {
       ctx.addIssue({ code: "custom", path: ["pfasContent"], message: "A share by weight is at most 100 %." });

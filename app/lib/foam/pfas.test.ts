@@ -1,14 +1,25 @@
 import { describe, expect, it } from "vitest";
-import { pfasGrams, pfasGramsPerLitre, rollingWindowTotals } from "./pfas";
+import {
+  pfasGrams,
+  pfasGramsPerLitre,
+  reportableQuantityAnswers,
+  rollingWindowTotals,
+  substanceMass,
+  worseAnswer,
+  type PfasUse,
+} from "./pfas";
 import { GRAMS_PER_POUND } from "./units";
 
 describe("PFAS mass estimates", () => {
   it("turns a g/L content into grams for a volume of concentrate", () => {
     // 10 g/L: the middle of the legacy PFOS AFFF range 5–15 g/L (an old product safety sheet;
     // academic measurements from memory). 90 US gal × 3.785411784 L/gal (NIST Handbook 44) = 340.68706056 L.
-    expect(pfasGrams(90, 10, "g_per_l")).toBeCloseTo(3406.8706056, 6);
+    expect(pfasGrams({ concentrateGal: 90, solutionGal: 3000 }, 10, "g_per_l")).toBeCloseTo(3406.8706056, 6);
     // 1 lb = 453.59237 g (NIST Handbook 44): about 7.51 lb, well over the 1 lb CERCLA RQ (40 CFR 302.4).
-    expect(pfasGrams(90, 10, "g_per_l") / GRAMS_PER_POUND).toBeCloseTo(7.510864, 5);
+    expect(pfasGrams({ concentrateGal: 90, solutionGal: 3000 }, 10, "g_per_l") / GRAMS_PER_POUND).toBeCloseTo(
+      7.510864,
+      5,
+    );
   });
 
   it("reads mg/L and % w/w (at 1 kg/L) the same way", () => {
@@ -29,5 +40,82 @@ describe("PFAS mass estimates", () => {
     expect(totals[2]).toBeCloseTo(0.7, 12); // 23.5 h and 30 h; 47.5 h is exactly 24 h later, outside
     expect(totals[0]).toBeCloseTo(0.6, 12); // 30 h and 47.5 h
     expect(totals[3]).toBeCloseTo(0.2, 12);
+  });
+});
+
+describe("the reportable-quantity answer, PFOA and PFOS each (40 CFR 302.4 as amended by 89 FR 39124)", () => {
+  const at = (iso: string) => new Date(iso);
+  const use = (iso: string, content: PfasUse["content"], concentrateGal = 10): PfasUse => ({
+    at: at(iso),
+    concentrateGal,
+    solutionGal: concentrateGal * 33,
+    grossShare: 1,
+    netShare: 0.5,
+    content,
+  });
+  // 10 g/L PFOS: the middle of the legacy PFOS AFFF range 5–15 g/L (old product safety sheet; from memory).
+  const pfos10 = { pfoa: { content: 0, unit: "g_per_l" as const }, pfos: { content: 10, unit: "g_per_l" as const } };
+
+  it("a PFAS product with no known content answers Unknown, never No, by the mixture rule (40 CFR 302.6(b)(1)(ii))", () => {
+    const [answer] = reportableQuantityAnswers([use("2026-05-01T10:00:00Z", { pfoa: null, pfos: null })], "pfos", 1);
+    expect(answer.answer).toBe("unknown");
+    expect(answer.unknownInWindow).toBe(1);
+    expect(substanceMass(use("2026-05-01T10:00:00Z", { pfoa: null, pfos: null }), "pfos").grossPounds).toBeNull();
+  });
+
+  it("an unknown use within 24 h makes a known small release Unknown too", () => {
+    const answers = reportableQuantityAnswers(
+      [use("2026-05-01T10:00:00Z", pfos10, 1), use("2026-05-02T09:00:00Z", { pfoa: null, pfos: null })],
+      "pfos",
+      1,
+    );
+    // 1 gal × 3.785411784 L × 10 g/L = 37.85 g = 0.083 lb (NIST Handbook 44): below 1 lb on its own.
+    expect(answers[0].windowPounds).toBeCloseTo(37.85411784 / 453.59237, 9);
+    expect(answers.map((answer) => answer.answer)).toEqual(["unknown", "unknown"]);
+  });
+
+  it("PFOA and PFOS are run separately and not added (40 CFR 302.6): 0.6 lb of each is No for both", () => {
+    const grams = 0.6 * 453.59237;
+    const perLitre = grams / (10 * 3.785411784);
+    const both = use("2026-05-01T10:00:00Z", {
+      pfoa: { content: perLitre, unit: "g_per_l" },
+      pfos: { content: perLitre, unit: "g_per_l" },
+    });
+    for (const substance of ["pfoa", "pfos"] as const) {
+      const [answer] = reportableQuantityAnswers([both], substance, 1);
+      expect(answer.windowPounds).toBeCloseTo(0.6, 9);
+      expect(answer.answer).toBe("no");
+    }
+  });
+
+  it("finds a pair across a quarter boundary: 31 March 23:00 and 1 April 01:00 share one 24-hour period", () => {
+    // 0.6 lb each: together 1.2 lb ≥ 1 lb RQ.
+    const perLitre = (0.6 * 453.59237) / (10 * 3.785411784);
+    const content = { pfoa: null, pfos: { content: perLitre, unit: "g_per_l" as const } };
+    const answers = reportableQuantityAnswers(
+      [use("2026-03-31T23:00:00Z", content), use("2026-04-01T01:00:00Z", content)],
+      "pfos",
+      1,
+    );
+    expect(answers.map((answer) => answer.answer)).toEqual(["yes", "yes"]);
+    expect(answers[0].windowPounds).toBeCloseTo(1.2, 9);
+  });
+
+  it("gross counts what reached any surface, land included (40 CFR 302.3); net what was not recovered", () => {
+    const mass = substanceMass(use("2026-05-01T10:00:00Z", pfos10), "pfos");
+    const pounds = (10 * 3.785411784 * 10) / 453.59237;
+    expect(mass.grossPounds).toBeCloseTo(pounds, 9);
+    expect(mass.netPounds).toBeCloseTo(pounds * 0.5, 9);
+  });
+
+  it("reads a lab result on foam solution against the solution, not the concentrate", () => {
+    // 1,000 ng/L of solution on 330 gal of solution: 330 × 3.785411784 L × 1e-6 g/L.
+    expect(pfasGrams({ concentrateGal: 10, solutionGal: 330 }, 1000, "ng_per_l_solution")).toBeCloseTo(
+      330 * 3.785411784 * 1e-6,
+      12,
+    );
+    expect(pfasGramsPerLitre(1000, "mg_per_kg")).toBe(1); // 1,000 mg/kg at the assumed 1 kg/L
+    expect(worseAnswer("no", "unknown")).toBe("unknown");
+    expect(worseAnswer("unknown", "yes")).toBe("yes");
   });
 });

@@ -1,5 +1,5 @@
 import { GRAMS_PER_POUND, LITRES_PER_US_GALLON } from "./units";
-import type { PfasContentUnit } from "./vocabulary";
+import type { PfasContentUnit, RqAnswer, RqSubstance } from "./vocabulary";
 
 /**
  * Density assumed when a content is given as % w/w: 1 kg per litre of concentrate. The legacy
@@ -8,8 +8,8 @@ import type { PfasContentUnit } from "./vocabulary";
  */
 export const ASSUMED_CONCENTRATE_KG_PER_L = 1;
 
-/** Grams of PFAS per litre of concentrate for a content stated in `unit`. */
-export function pfasGramsPerLitre(content: number, unit: PfasContentUnit): number {
+/** Grams per litre of concentrate for a content stated on concentrate; null for a foam-solution unit. */
+export function pfasGramsPerLitre(content: number, unit: PfasContentUnit): number | null {
   switch (unit) {
     case "g_per_l":
       return content;
@@ -17,12 +17,27 @@ export function pfasGramsPerLitre(content: number, unit: PfasContentUnit): numbe
       return content / 1000;
     case "percent_w_w":
       return (content / 100) * ASSUMED_CONCENTRATE_KG_PER_L * 1000;
+    case "mg_per_kg":
+      return (content / 1000) * ASSUMED_CONCENTRATE_KG_PER_L;
+    case "mg_per_l_solution":
+    case "ng_per_l_solution":
+      return null;
   }
 }
 
-/** Estimated PFAS mass in grams in `concentrateGal` US gallons of concentrate. */
-export function pfasGrams(concentrateGal: number, content: number, unit: PfasContentUnit): number {
-  return concentrateGal * LITRES_PER_US_GALLON * pfasGramsPerLitre(content, unit);
+/**
+ * Estimated mass in grams for a content stated in `unit`: a unit on concentrate applies to the
+ * concentrate, a unit on foam solution (a lab result on the solution) to the solution.
+ */
+export function pfasGrams(
+  volumes: { concentrateGal: number; solutionGal: number },
+  content: number,
+  unit: PfasContentUnit,
+): number {
+  const perLitreOfConcentrate = pfasGramsPerLitre(content, unit);
+  if (perLitreOfConcentrate !== null) return volumes.concentrateGal * LITRES_PER_US_GALLON * perLitreOfConcentrate;
+  const perLitreOfSolution = unit === "mg_per_l_solution" ? content / 1000 : content / 1e9;
+  return volumes.solutionGal * LITRES_PER_US_GALLON * perLitreOfSolution;
 }
 
 export function gramsToPoundsMass(grams: number): number {
@@ -53,4 +68,92 @@ export function rollingWindowTotals(releases: readonly TimedMass[], hours = 24):
     running -= order[start].pounds;
   }
   return totals;
+}
+
+/** A substance's content in a product, or null where it is not known. */
+export type SubstanceContent = { content: number; unit: PfasContentUnit } | null;
+
+/** One PFAS-containing product's use in one event, as the reportable-quantity check takes it. */
+export type PfasUse = {
+  /** The discharge's start where given, else the event's start. */
+  at: Date;
+  concentrateGal: number;
+  solutionGal: number;
+  /** Share of the foam solution that reached any surface, land included (40 CFR 302.3), 0–1. */
+  grossShare: number;
+  /** Share not contained and recovered, 0–1. */
+  netShare: number;
+  content: Record<RqSubstance, SubstanceContent>;
+};
+
+export type SubstanceMass = {
+  /** Pounds that reached a surface; null when the content is not known. */
+  grossPounds: number | null;
+  /** Pounds not recovered; null when the content is not known. */
+  netPounds: number | null;
+};
+
+/** Gross and net pounds of one substance in one use. */
+export function substanceMass(use: PfasUse, substance: RqSubstance): SubstanceMass {
+  const stated = use.content[substance];
+  if (!stated) return { grossPounds: null, netPounds: null };
+  const pounds = gramsToPoundsMass(pfasGrams(use, stated.content, stated.unit));
+  return { grossPounds: pounds * use.grossShare, netPounds: pounds * use.netShare };
+}
+
+export type WindowAnswer = {
+  answer: RqAnswer;
+  /** Heaviest known gross pounds in a 24-hour period holding this use. */
+  windowPounds: number;
+  /** Uses of unknown content in such a period (the mixture rule makes the answer Unknown). */
+  unknownInWindow: number;
+};
+
+/**
+ * The reportable-quantity answer for each use and one substance: the RQ (1 lb in any 24-hour period,
+ * 40 CFR 302.4 as amended by 89 FR 39124) is run for PFOA and for PFOS separately and never added
+ * across them (40 CFR 302.6). A 24-hour period is any span shorter than 24 h: every span holding a use
+ * can slide to start at one of the uses it holds. Where a use in such a span has no known content,
+ * its amount cannot be compared: by the mixture rule (40 CFR 302.6(b)(1)(ii)) the whole mixture
+ * released is compared with the RQ, so the answer is "unknown", never "no", unless the known mass
+ * alone reaches the RQ. Gross mass is compared: runoff onto land is a release even if recovered
+ * later (40 CFR 302.3).
+ */
+export function reportableQuantityAnswers(
+  uses: readonly PfasUse[],
+  substance: RqSubstance,
+  thresholdLb: number,
+  hours = 24,
+): WindowAnswer[] {
+  const span = hours * 3_600_000;
+  const masses = uses.map((use) => substanceMass(use, substance).grossPounds);
+  const starts = uses.map((use) => use.at.getTime());
+  // Every 24-hour span worth checking starts at a use: its known pounds and its unknown uses.
+  const windows = starts.map((start) => {
+    let pounds = 0;
+    let unknown = 0;
+    const members: number[] = [];
+    starts.forEach((at, index) => {
+      if (at >= start && at - start < span) {
+        members.push(index);
+        if (masses[index] === null) unknown++;
+        else pounds += masses[index]!;
+      }
+    });
+    return { pounds, unknown, members };
+  });
+  return uses.map((_use, index) => {
+    const holding = windows.filter((window) => window.members.includes(index));
+    const windowPounds = Math.max(0, ...holding.map((window) => window.pounds));
+    const unknownInWindow = Math.max(0, ...holding.map((window) => window.unknown));
+    const answer: RqAnswer = windowPounds >= thresholdLb ? "yes" : unknownInWindow > 0 ? "unknown" : "no";
+    return { answer, windowPounds, unknownInWindow };
+  });
+}
+
+/** The worse of two answers: yes before unknown before no. */
+export function worseAnswer(a: RqAnswer, b: RqAnswer): RqAnswer {
+  if (a === "yes" || b === "yes") return "yes";
+  if (a === "unknown" || b === "unknown") return "unknown";
+  return "no";
 }

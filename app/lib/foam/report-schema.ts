@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { FLOW_UNITS } from "./units";
-import { APPLICATION_METHODS, DISPOSITIONS, EVENT_KINDS, FLOW_BASES } from "./vocabulary";
+import { APPLICATION_METHODS, DISPOSITIONS, EVENT_KINDS, FLOW_BASES, PERCENT_OF } from "./vocabulary";
 
 export const MAX_DISCHARGE_MINUTES = 24 * 60;
 export const MAX_LINES = 200;
@@ -28,6 +28,7 @@ const percent = z
 
 const flowUnit = z.enum(FLOW_UNITS, { error: "Choose gpm or L/min." });
 const flowBasis = z.enum(FLOW_BASES, { error: "Choose whether the flow is water or foam solution." });
+const percentOf = z.enum(PERCENT_OF, { error: "Choose whether the percent is of the foam solution or of the water." });
 const id = z.number().int().positive();
 
 /** One discharge as the totals API takes it. */
@@ -36,6 +37,8 @@ export const TotalsDischargeSchema = z.object({
   flowUnit,
   basis: flowBasis,
   percent: percent.nullable().optional(),
+  /** Absent: a share of water on a water basis, of solution on a solution basis. */
+  percentOf: percentOf.optional(),
   minutes: positiveNumber("duration in minutes", MAX_DISCHARGE_MINUTES),
   productId: id.nullable().optional(),
   apparatusId: id.nullable().optional(),
@@ -80,6 +83,7 @@ export const DischargeLineSchema = z
     outlet: text(60, "outlet name"),
     productId: id.optional(),
     percent: percent.optional(),
+    percentOf: percentOf.optional(),
     flow: positiveNumber("flow", 100_000),
     flowUnit,
     basis: flowBasis,
@@ -136,6 +140,13 @@ export const DispositionLineSchema = z
         code: "custom",
         path: ["disposalReference"],
         message: "Give the disposal record (manifest, ticket or drum number) for contained runoff.",
+      });
+    }
+    if (line.disposition === "surface_water" && !line.receivingWater) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["receivingWater"],
+        message: "Name the creek, pond or river the runoff reached.",
       });
     }
     if (line.disposition === "sanitary_sewer" && !line.sewerNotice) {

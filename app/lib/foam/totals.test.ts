@@ -242,3 +242,167 @@ describe("computeUsage", () => {
     expect(levels.eventWarnings).toEqual([]);
   });
 });
+
+describe("the percentage convention: of foam solution or of water", () => {
+  const at = (input: Partial<Parameters<typeof computeDischarge>[0]>) =>
+    computeDischarge({ flow: 100, flowUnit: "gpm", basis: "water", percent: 3, minutes: 10, ...input });
+
+  it("water basis, % of solution: 97 gpm water × 10 min at 3 % → 30 gal concentrate, 1,000 gal solution (W ÷ (1 − p); reference check value computed from the definition)", () => {
+    const result = at({ flow: 97, percentOf: "solution" });
+    expect(result.concentrateGpm).toBeCloseTo(3, 12);
+    expect(result.concentrate.gal).toBeCloseTo(30, 10);
+    expect(result.solution.gal).toBeCloseTo(1000, 10);
+    expect(result.water.gal).toBeCloseTo(970, 10);
+    expect(result.effectivePercentOfSolution).toBeCloseTo(3, 12);
+  });
+
+  it("water basis, % of water: 200 gpm at 0.3 % → 0.6 gpm (direct injection; common practice, no source)", () => {
+    const result = at({ flow: 200, percent: 0.3, percentOf: "water" });
+    expect(result.concentrateGpm).toBeCloseTo(0.6, 12);
+    expect(result.effectivePercentOfSolution).toBeCloseTo((0.6 / 200.6) * 100, 12);
+  });
+
+  it("solution basis, % of solution: 600 gpm × 3 % × 15 min → 270 gal concentrate, 8,730 gal water (NFPA 11 method training example)", () => {
+    const result = at({ flow: 600, basis: "solution", percentOf: "solution", minutes: 15 });
+    expect(result.concentrate.gal).toBeCloseTo(270, 10);
+    expect(result.water.gal).toBeCloseTo(8730, 10);
+    expect(result.effectivePercentOfSolution).toBeCloseTo(3, 12);
+  });
+
+  it("solution basis, % of water: concentrate = S·p ÷ (1 + p) (issue arithmetic; 103 gpm solution at 3 % of water → 3 gpm)", () => {
+    const result = at({ flow: 103, basis: "solution", percentOf: "water" });
+    expect(result.concentrateGpm).toBeCloseTo(3, 12);
+    expect(result.water.gal).toBeCloseTo(1000, 10);
+  });
+
+  it("defaults keep today's meaning: water basis → % of water, solution basis → % of solution", () => {
+    expect(at({}).percentOf).toBe("water");
+    expect(at({ basis: "solution" }).percentOf).toBe("solution");
+  });
+
+  it("the apparatus's proportioner gives the default: direct injection → water, eductor → solution", () => {
+    const unit = (proportionerType: ApparatusFacts["proportionerType"]) =>
+      new Map([[9, { ...engine, id: 9, proportionerMaxConcentrateGpm: null, proportionerType }]]);
+    expect(at({ apparatusId: 9 }).percentOf).toBe("water");
+    expect(computeDischarge({ ...baseLine, apparatusId: 9 }, { apparatus: unit("eductor") }).percentOf).toBe(
+      "solution",
+    );
+    expect(computeDischarge({ ...baseLine, apparatusId: 9 }, { apparatus: unit("direct_injection") }).percentOf).toBe(
+      "water",
+    );
+    // A choice on the line wins over the apparatus.
+    expect(
+      computeDischarge({ ...baseLine, apparatusId: 9, percentOf: "water" }, { apparatus: unit("premix") }).percentOf,
+    ).toBe("water");
+  });
+
+  it("the two conventions differ by 3.1 % of concentrate at 3 % and 6.4 % at 6 % (reference values: NFPA 11 §12.6.5 vs. common practice)", () => {
+    for (const [percent, expected] of [
+      [3, 3.1],
+      [6, 6.4],
+    ]) {
+      const ofWater = at({ percent, percentOf: "water" }).concentrate.gal;
+      const ofSolution = at({ percent, percentOf: "solution" }).concentrate.gal;
+      expect((ofSolution / ofWater - 1) * 100).toBeCloseTo(expected, 1);
+    }
+  });
+
+  it("a capped line: the effective percentage of solution follows from the capped rate over the solution", () => {
+    const result = computeDischarge(
+      { flow: 1000, flowUnit: "gpm", basis: "water", percent: 3, percentOf: "solution", minutes: 10, apparatusId: 7 },
+      { apparatus },
+    );
+    expect(result.concentrateGpm).toBe(20);
+    expect(result.effectivePercentOfSolution).toBeCloseTo((20 / 1020) * 100, 12);
+    expect(result.warnings[0].message).toMatch(/about 1.961 % of the foam solution/);
+  });
+
+  it("Class B: 3 % of the water flow gives 2.913 % of solution, below the rated 3 % — its own warning (NFPA 11 §12.6.5 band on the achieved share)", () => {
+    const result = computeDischarge(
+      { flow: 100, flowUnit: "gpm", basis: "water", percent: 3, percentOf: "water", minutes: 1, productId: 2 },
+      { products },
+    );
+    expect(result.effectivePercentOfSolution).toBeCloseTo(2.9126, 3);
+    expect(result.warnings.map((warning) => warning.code)).toEqual(["below_rated"]);
+    expect(result.warnings[0].message).toMatch(/below the rated 3 % .*foam may not perform/);
+    const ofSolution = computeDischarge(
+      { flow: 100, flowUnit: "gpm", basis: "water", percent: 3, percentOf: "solution", minutes: 1, productId: 2 },
+      { products },
+    );
+    expect(ofSolution.warnings).toEqual([]);
+  });
+
+  it("Class B above the band names the band and the percentage of solution it was checked on", () => {
+    const result = computeDischarge(
+      { flow: 100, flowUnit: "gpm", basis: "solution", percent: 4.5, minutes: 1, productId: 2 },
+      { products },
+    );
+    expect(result.warnings[0].code).toBe("percent_unusual_for_class");
+    expect(result.warnings[0].message).toMatch(
+      /3–3\.9 % band .*NFPA 11 §12\.6\.5, checked on the percentage of foam solution/,
+    );
+  });
+
+  it("totals report the effective percentage of solution: concentrate ÷ solution × 100", () => {
+    const usage = computeUsage([
+      { ...baseLine, flow: 97, percentOf: "solution" },
+      { ...baseLine, flow: 600, basis: "solution", percentOf: "solution" },
+    ]);
+    expect(usage.totals.effectivePercentOfSolution).toBeCloseTo(3, 10);
+    expect(computeUsage([{ ...baseLine, percent: null }]).totals.effectivePercentOfSolution).toBeNull();
+  });
+
+  it("round trips (property): concentrate ÷ solution is p under % of solution and p ÷ (1 + p) under % of water, on either basis", () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0.1, max: 5000, noNaN: true }),
+        fc.double({ min: 0.01, max: 50, noNaN: true }),
+        fc.constantFrom("water" as const, "solution" as const),
+        fc.constantFrom("water" as const, "solution" as const),
+        (flow, percent, basis, percentOf) => {
+          const result = computeDischarge({ flow, flowUnit: "gpm", basis, percent, percentOf, minutes: 1 });
+          const share = percent / 100;
+          expect(result.water.gal + result.concentrate.gal).toBeCloseTo(result.solution.gal, 6);
+          const expected = percentOf === "solution" ? share : share / (1 + share);
+          expect(result.effectivePercentOfSolution! / 100).toBeCloseTo(expected, 9);
+          // Back to the setting: concentrate over its own denominator gives the set percentage.
+          const denominator = percentOf === "water" ? result.water.gal : result.solution.gal;
+          expect((result.concentrate.gal / denominator) * 100).toBeCloseTo(percent, 7);
+          expect(result.effectivePercent).toBeCloseTo(percent, 9);
+        },
+      ),
+    );
+  });
+
+  it("round trip (property): recomputing from the solution a water-basis line made gives back the same concentrate", () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0.1, max: 5000, noNaN: true }),
+        fc.double({ min: 0.01, max: 50, noNaN: true }),
+        fc.constantFrom("water" as const, "solution" as const),
+        (water, percent, percentOf) => {
+          const fromWater = computeDischarge({
+            flow: water,
+            flowUnit: "gpm",
+            basis: "water",
+            percent,
+            percentOf,
+            minutes: 1,
+          });
+          const fromSolution = computeDischarge({
+            flow: fromWater.solution.gal,
+            flowUnit: "gpm",
+            basis: "solution",
+            percent,
+            percentOf,
+            minutes: 1,
+          });
+          expect(fromSolution.concentrate.gal).toBeCloseTo(fromWater.concentrate.gal, 6);
+          expect(fromSolution.water.gal).toBeCloseTo(water, 6);
+        },
+      ),
+    );
+  });
+});
+
+const baseLine = { flow: 100, flowUnit: "gpm" as const, basis: "water" as const, percent: 3, minutes: 10 };

@@ -1,6 +1,14 @@
 import { DEFAULT_DRAWDOWN_TOLERANCE_SHARE } from "../agency-settings-form";
 import { flowInGpm, volumeFromGallons, type FlowUnit, type Volume } from "./units";
-import { FOAM_CLASS_LABELS, type FlowBasis, type FoamClass } from "./vocabulary";
+import {
+  defaultPercentOf,
+  FOAM_CLASS_LABELS,
+  PERCENT_OF_LABELS,
+  type FlowBasis,
+  type FoamClass,
+  type PercentOf,
+  type ProportionerType,
+} from "./vocabulary";
 
 export type DischargeInput = {
   flow: number;
@@ -9,6 +17,8 @@ export type DischargeInput = {
   basis: FlowBasis;
   /** Concentrate as a percentage (3 means 3 %); null for a water-only line. */
   percent: number | null;
+  /** What the percentage is a share of; when absent, the apparatus's proportioner or the basis decides. */
+  percentOf?: PercentOf | null;
   minutes: number;
   productId?: number | null;
   apparatusId?: number | null;
@@ -28,6 +38,7 @@ export type ApparatusFacts = {
   id: number;
   unitId: string;
   proportionerMaxConcentrateGpm: number | null;
+  proportionerType?: ProportionerType | null;
   waterFlowMinGpm: number | null;
   waterFlowMaxGpm: number | null;
 };
@@ -42,6 +53,7 @@ export type TankReading = {
 
 export type WarningCode =
   | "percent_unusual_for_class"
+  | "below_rated"
   | "proportioner_limit"
   | "flow_out_of_range"
   | "outside_event_window"
@@ -49,14 +61,25 @@ export type WarningCode =
 
 export type UsageWarning = { code: WarningCode; message: string; field?: string };
 
-export type Totals = { water: Volume; concentrate: Volume; solution: Volume };
+export type Totals = {
+  water: Volume;
+  concentrate: Volume;
+  solution: Volume;
+  /** Concentrate ÷ foam solution × 100; null where no concentrate flowed. */
+  effectivePercentOfSolution: number | null;
+};
 
 export type DischargeResult = Totals & {
   /** Water flow through the proportioner, gpm. */
   waterGpm: number;
   concentrateGpm: number;
   setPercent: number | null;
-  /** The percentage achieved: lower than set when the proportioner's maximum rate was reached. */
+  /** The convention the set percentage was read in. */
+  percentOf: PercentOf;
+  /**
+   * The percentage achieved in the setting's own convention (of water or of solution): lower than set
+   * when the proportioner's maximum rate was reached.
+   */
   effectivePercent: number | null;
   foamClass: FoamClass | null;
   pfasContaining: boolean;
@@ -89,46 +112,116 @@ function formatNumber(value: number, places = 2): string {
   return Number(value.toFixed(places)).toString();
 }
 
+/**
+ * The concentrate rate a setting asks for, p as a share (3 % → 0.03):
+ * - water flow, % of water: concentrate = W·p (direct injection; common practice, no source);
+ * - water flow, % of solution: solution = W ÷ (1 − p), concentrate = solution − W;
+ * - solution flow, % of solution: concentrate = S·p (API RP 2021 App. K; NFPA 11 §12.6.5 convention);
+ * - solution flow, % of water: concentrate = S·p ÷ (1 + p).
+ */
+export function neededConcentrateGpm(flowGpm: number, basis: FlowBasis, percentOf: PercentOf, share: number): number {
+  if (share <= 0) return 0;
+  if (basis === "water") return percentOf === "water" ? flowGpm * share : flowGpm / (1 - share) - flowGpm;
+  return percentOf === "solution" ? flowGpm * share : (flowGpm * share) / (1 + share);
+}
+
+/** The rating a setting aims at: the largest rated percentage not above it, else the lowest. */
+function ratingFor(setPercent: number, rated: number[]): number {
+  const below = rated.filter((percent) => percent <= setPercent + EPSILON);
+  return below.length ? Math.max(...below) : Math.min(...rated);
+}
+
+/**
+ * Class A: the set percentage against 0.1–1.0 % (fire-service training material; NFPA 1145 ranges,
+ * from memory). Class B: the concentration achieved, as a percentage of foam solution, against the
+ * acceptance band of NFPA 11 (2021) §12.6.5 — not less than the rated percentage, nor more than 30 %
+ * above it or 1 point above it, whichever is less.
+ */
+function classWarnings(
+  product: ProductFacts,
+  setPercent: number,
+  percentOf: PercentOf,
+  ofSolution: number,
+): UsageWarning[] {
+  if (product.foamClass === "A") {
+    const [[low, high]] = usualPercentRange("A", product.nominalPercents);
+    if (setPercent >= low - EPSILON && setPercent <= high + EPSILON) return [];
+    return [
+      {
+        code: "percent_unusual_for_class",
+        field: "percent",
+        message: `${formatNumber(setPercent)} % is outside the usual ${formatNumber(low)}–${formatNumber(high)} % for ${product.name} (${FOAM_CLASS_LABELS.A}).`,
+      },
+    ];
+  }
+  const rated = product.nominalPercents.length ? product.nominalPercents : [1, 3, 6];
+  const rating = ratingFor(setPercent, rated);
+  const [, high] = usualPercentRange("B", [rating])[0];
+  const achieved = `${formatNumber(setPercent)} ${PERCENT_OF_LABELS[percentOf]} gives ${formatNumber(ofSolution, 3)} % of the foam solution`;
+  if (ofSolution < rating - EPSILON) {
+    return [
+      {
+        code: "below_rated",
+        field: "percent",
+        message: `${achieved}, below the rated ${formatNumber(rating)} % for ${product.name} — foam may not perform.`,
+      },
+    ];
+  }
+  if (ofSolution > high + EPSILON) {
+    return [
+      {
+        code: "percent_unusual_for_class",
+        field: "percent",
+        message:
+          `${achieved}, above the ${formatNumber(rating)}–${formatNumber(high)} % band for ${product.name} ` +
+          `(${FOAM_CLASS_LABELS.B}; NFPA 11 §12.6.5, checked on the percentage of foam solution).`,
+      },
+    ];
+  }
+  return [];
+}
+
 export function computeDischarge(input: DischargeInput, context: UsageContext = {}): DischargeResult {
   const product = input.productId != null ? context.products?.get(input.productId) : undefined;
   const apparatus = input.apparatusId != null ? context.apparatus?.get(input.apparatusId) : undefined;
   const warnings: UsageWarning[] = [];
   const flowGpm = flowInGpm(input.flow, input.flowUnit);
+  const percentOf = input.percentOf ?? defaultPercentOf(input.basis, apparatus?.proportionerType);
   const setShare = input.percent ? input.percent / 100 : 0;
+  const needed = neededConcentrateGpm(flowGpm, input.basis, percentOf, setShare);
 
-  let concentrateGpm = flowGpm * setShare;
-  let effectivePercent = input.percent ? input.percent : null;
+  let concentrateGpm = needed;
   const maximum = apparatus?.proportionerMaxConcentrateGpm;
-  if (maximum != null && setShare > 0 && concentrateGpm > maximum + EPSILON) {
-    concentrateGpm = maximum;
-    effectivePercent = (maximum / flowGpm) * 100;
+  const capped = maximum != null && setShare > 0 && needed > maximum + EPSILON;
+  if (capped) concentrateGpm = maximum;
+
+  // The flow figure is fixed; the other side follows from the concentrate actually injected.
+  const waterGpm = input.basis === "water" ? flowGpm : flowGpm - concentrateGpm;
+  const solutionGpm = input.basis === "water" ? flowGpm + concentrateGpm : flowGpm;
+  const ofSolution = setShare > 0 && solutionGpm > 0 ? (concentrateGpm / solutionGpm) * 100 : null;
+  const effectivePercent =
+    setShare > 0
+      ? capped
+        ? (concentrateGpm / (percentOf === "water" ? waterGpm : solutionGpm)) * 100
+        : input.percent
+      : null;
+  if (capped) {
     warnings.push({
       code: "proportioner_limit",
       field: "percent",
       message:
-        `${formatNumber(flowGpm)} gpm at ${formatNumber(input.percent!)} % needs ${formatNumber(flowGpm * setShare, 3)} gpm of ` +
+        `${formatNumber(flowGpm)} gpm at ${formatNumber(input.percent!)} ${PERCENT_OF_LABELS[percentOf]} needs ${formatNumber(needed, 3)} gpm of ` +
         `concentrate, above ${apparatus!.unitId}'s proportioner maximum of ${formatNumber(maximum, 3)} gpm: ` +
-        `the effective percentage was about ${formatNumber(effectivePercent, 3)} %.`,
+        `the effective percentage was about ${formatNumber(effectivePercent ?? 0, 3)} ${PERCENT_OF_LABELS[percentOf]}` +
+        (percentOf === "water" ? ` (${formatNumber(ofSolution ?? 0, 3)} % of the foam solution).` : "."),
     });
   }
 
-  const waterGpm = input.basis === "water" ? flowGpm : flowGpm - concentrateGpm;
   const waterGal = waterGpm * input.minutes;
   const concentrateGal = concentrateGpm * input.minutes;
-  const solutionGal = input.basis === "water" ? waterGal + concentrateGal : flowGpm * input.minutes;
+  const solutionGal = solutionGpm * input.minutes;
 
-  if (product && input.percent) {
-    const ranges = usualPercentRange(product.foamClass, product.nominalPercents);
-    const usual = ranges.some(([low, high]) => input.percent! >= low - EPSILON && input.percent! <= high + EPSILON);
-    if (!usual) {
-      const described = ranges.map(([low, high]) => `${formatNumber(low)}–${formatNumber(high)} %`).join(" or ");
-      warnings.push({
-        code: "percent_unusual_for_class",
-        field: "percent",
-        message: `${formatNumber(input.percent)} % is outside the usual ${described} for ${product.name} (${FOAM_CLASS_LABELS[product.foamClass]}).`,
-      });
-    }
-  }
+  if (product && input.percent) warnings.push(...classWarnings(product, input.percent, percentOf, ofSolution ?? 0));
 
   if (apparatus) {
     const { waterFlowMinGpm: low, waterFlowMaxGpm: high } = apparatus;
@@ -161,7 +254,9 @@ export function computeDischarge(input: DischargeInput, context: UsageContext = 
     waterGpm,
     concentrateGpm,
     setPercent: input.percent ? input.percent : null,
+    percentOf,
     effectivePercent,
+    effectivePercentOfSolution: ofSolution,
     foamClass: product?.foamClass ?? null,
     pfasContaining: product?.pfasContaining ?? false,
     warnings,
@@ -181,6 +276,7 @@ export function sumTotals(items: Totals[]): Totals {
     water: volumeFromGallons(water),
     concentrate: volumeFromGallons(concentrate),
     solution: volumeFromGallons(solution),
+    effectivePercentOfSolution: concentrate > 0 && solution > 0 ? (concentrate / solution) * 100 : null,
   };
 }
 

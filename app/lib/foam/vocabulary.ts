@@ -91,12 +91,45 @@ export const FOAM_TYPE_LABELS: Record<FoamType, string> = {
   other: "Other",
 };
 
-export const PFAS_CONTENT_UNITS = ["g_per_l", "mg_per_l", "percent_w_w"] as const;
+export const PFAS_CONTENT_UNITS = [
+  "g_per_l",
+  "mg_per_l",
+  "percent_w_w",
+  "mg_per_kg",
+  "mg_per_l_solution",
+  "ng_per_l_solution",
+] as const;
 export type PfasContentUnit = (typeof PFAS_CONTENT_UNITS)[number];
 export const PFAS_CONTENT_UNIT_LABELS: Record<PfasContentUnit, string> = {
   g_per_l: "g per litre of concentrate",
   mg_per_l: "mg per litre of concentrate",
   percent_w_w: "% by weight of concentrate (w/w)",
+  mg_per_kg: "mg per kg of concentrate",
+  mg_per_l_solution: "mg per litre of foam solution",
+  ng_per_l_solution: "ng per litre of foam solution",
+};
+/** Content units measured on foam solution (a lab result on solution is not read as concentrate). */
+export const PFAS_SOLUTION_UNITS: readonly PfasContentUnit[] = ["mg_per_l_solution", "ng_per_l_solution"];
+
+/**
+ * The substances a CERCLA reportable quantity counts: PFOA and PFOS, each with its salts and
+ * structural isomers (89 FR 39124, 40 CFR 302.4). Total PFAS is a screening figure only.
+ */
+export const RQ_SUBSTANCES = ["pfoa", "pfos"] as const;
+export type RqSubstance = (typeof RQ_SUBSTANCES)[number];
+export const RQ_SUBSTANCE_LABELS: Record<RqSubstance, string> = {
+  pfoa: "PFOA (with its salts and structural isomers)",
+  pfos: "PFOS (with its salts and structural isomers)",
+};
+export const RQ_SUBSTANCE_SHORT_LABELS: Record<RqSubstance, string> = { pfoa: "PFOA", pfos: "PFOS" };
+
+/** The answer to "does this reach the reportable quantity?": never "No" when it cannot be known. */
+export const RQ_ANSWERS = ["yes", "no", "unknown"] as const;
+export type RqAnswer = (typeof RQ_ANSWERS)[number];
+export const RQ_ANSWER_LABELS: Record<RqAnswer, string> = {
+  yes: "Yes",
+  no: "No",
+  unknown: "Unknown — content not known (mixture rule, 40 CFR 302.6(b)(1)(ii))",
 };
 
 export function isPfasContentUnit(value: unknown): value is PfasContentUnit {
@@ -129,6 +162,63 @@ export const FLOW_BASIS_EXPORT_LABELS: Record<FlowBasis, string> = {
   solution: "Foam solution",
 };
 
+/**
+ * What a percentage setting is a share of. NFPA 11 (2021) §12.6.5 states the proportioning rate as a
+ * percentage of the foam solution flow; direct-injection controllers meter water and inject the set
+ * share of the water flow (common practice, no source).
+ */
+export const PERCENT_OF = ["solution", "water"] as const;
+export type PercentOf = (typeof PERCENT_OF)[number];
+export const PERCENT_OF_LABELS: Record<PercentOf, string> = {
+  solution: "% of the foam solution",
+  water: "% of the water flow",
+};
+/** The same, in an export's column. */
+export const PERCENT_OF_EXPORT_LABELS: Record<PercentOf, string> = {
+  solution: "Of foam solution",
+  water: "Of water",
+};
+
+export const PROPORTIONER_TYPES = [
+  "direct_injection",
+  "eductor",
+  "around_the_pump",
+  "balanced_pressure",
+  "premix",
+] as const;
+export type ProportionerType = (typeof PROPORTIONER_TYPES)[number];
+export const PROPORTIONER_TYPE_LABELS: Record<ProportionerType, string> = {
+  direct_injection: "Direct injection",
+  eductor: "Eductor (in-line inductor)",
+  around_the_pump: "Around-the-pump",
+  balanced_pressure: "Balanced pressure",
+  premix: "Premix",
+};
+/**
+ * A direct-injection controller sets a share of the water it meters; the others set a share of the
+ * solution they make (NFPA 11 §12.6.5 convention; direct injection: common practice, no source).
+ */
+export const PROPORTIONER_PERCENT_OF: Record<ProportionerType, PercentOf> = {
+  direct_injection: "water",
+  eductor: "solution",
+  around_the_pump: "solution",
+  balanced_pressure: "solution",
+  premix: "solution",
+};
+
+export function isProportionerType(value: unknown): value is ProportionerType {
+  return (PROPORTIONER_TYPES as readonly unknown[]).includes(value);
+}
+
+/**
+ * The convention a line takes when none was chosen: its apparatus's proportioner, else the flow basis
+ * (a water figure with a share of water, a solution rating with a share of solution).
+ */
+export function defaultPercentOf(basis: FlowBasis, proportionerType?: ProportionerType | null): PercentOf {
+  if (proportionerType) return PROPORTIONER_PERCENT_OF[proportionerType];
+  return basis === "water" ? "water" : "solution";
+}
+
 export const APPLICATION_METHODS = ["compressed_air", "aspirated", "non_aspirated", "monitor", "wetting"] as const;
 export type ApplicationMethod = (typeof APPLICATION_METHODS)[number];
 export const APPLICATION_METHOD_LABELS: Record<ApplicationMethod, string> = {
@@ -137,4 +227,19 @@ export const APPLICATION_METHOD_LABELS: Record<ApplicationMethod, string> = {
   non_aspirated: "Non-aspirated",
   monitor: "Monitor",
   wetting: "Wetting agent",
+};
+
+/** Who was told of a release: a notification record kept beside the report (the report is not one). */
+export const NOTIFIED_PARTIES = [
+  "national_response_center",
+  "state_spill_line",
+  "local_sewer_authority",
+  "other",
+] as const;
+export type NotifiedParty = (typeof NOTIFIED_PARTIES)[number];
+export const NOTIFIED_PARTY_LABELS: Record<NotifiedParty, string> = {
+  national_response_center: "National Response Center (federal)",
+  state_spill_line: "State spill line",
+  local_sewer_authority: "Local sewer authority (treatment works)",
+  other: "Other",
 };
