@@ -35,5 +35,11 @@ export default [
   route("reports/environmental.xlsx", "routes/reports.environmental-xlsx.ts"),
   route("reports/environmental.csv", "routes/reports.environmental-csv.ts"),
   route("admin/outbox", "routes/admin.outbox.tsx"),
+  route("records-requests", "routes/records-requests.tsx"),
+  route("records-requests/:trackingCode", "routes/records-requests.$trackingCode.tsx"),
+  route("records", "routes/records._index.tsx"),
+  route("records/:id", "routes/records.$id.tsx"),
+  route("api/records-requests", "routes/api.records-requests.ts"),
+  route("api/records-requests/:id", "routes/api.records-requests.$id.ts"),
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

@@ -152,8 +152,8 @@ export const CAPABILITIES = {
     grants: [{ roles: ["environmental"] }],
   }),
   "records.manage": plain({
-    does: "log and answer public-records requests (planned)",
-    grants: [{ roles: ["records"] }],
+    does: "work the public-records queue: requesters' contact details, due dates, extensions and release packages",
+    grants: [{ roles: ["records", "admin"] }],
   }),
 } as const satisfies Record<string, CapabilityDefinition<ReportRecord> | CapabilityDefinition<AccountRecord>>;
 
@@ -262,6 +262,12 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "reports/environmental.xlsx": { GET: "exports.quarterly" },
   "reports/environmental.csv": { GET: "exports.quarterly" },
   "admin/outbox": { GET: "outbox.view", POST: "outbox.view" },
+  "records-requests": { GET: "public", POST: "public" },
+  "records-requests/:trackingCode": { GET: "public" },
+  records: { GET: "records.manage" },
+  "records/:id": { GET: "records.manage", POST: "records.manage" },
+  "api/records-requests": { GET: "records.manage" },
+  "api/records-requests/:id": { GET: "records.manage" },
   "*": { GET: "public", POST: "public" },
 };
 

@@ -138,3 +138,29 @@ export const APPLICATION_METHOD_LABELS: Record<ApplicationMethod, string> = {
   monitor: "Monitor",
   wetting: "Wetting agent",
 };
+
+/** Where a public-records request stands (our own words). */
+export const RECORDS_REQUEST_STATUSES = [
+  "received",
+  "in_progress",
+  "fulfilled",
+  "partly_withheld",
+  "withheld",
+  "withdrawn",
+] as const;
+export type RecordsRequestStatus = (typeof RECORDS_REQUEST_STATUSES)[number];
+export const RECORDS_REQUEST_STATUS_LABELS: Record<RecordsRequestStatus, string> = {
+  received: "Received",
+  in_progress: "In progress",
+  fulfilled: "Fulfilled",
+  partly_withheld: "Partly withheld",
+  withheld: "Withheld",
+  withdrawn: "Withdrawn",
+};
+/** Statuses that close a request: its due date no longer runs. */
+export const RECORDS_REQUEST_CLOSED: readonly RecordsRequestStatus[] = [
+  "fulfilled",
+  "partly_withheld",
+  "withheld",
+  "withdrawn",
+];
