@@ -240,6 +240,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "events/:id": { GET: "report.read", POST: "report.review" },
   // The record's status decides between report.edit and report.revise (`changeCapabilityFor`).
   "events/:id/edit": { GET: "report.edit", POST: "report.edit" },
+  "events/:id/report.pdf": { GET: "report.read" },
   "api/totals": { GET: "signed-in", POST: "signed-in" },
   "api/events": { GET: "report.read" },
   "api/events/:id": { GET: "report.read" },
@@ -266,6 +267,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "records-requests/:trackingCode": { GET: "public" },
   records: { GET: "records.manage" },
   "records/:id": { GET: "records.manage", POST: "records.manage" },
+  "records/:id/files/:fileId": { GET: "records.manage" },
   "api/records-requests": { GET: "records.manage" },
   "api/records-requests/:id": { GET: "records.manage" },
   "*": { GET: "public", POST: "public" },

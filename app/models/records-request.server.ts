@@ -67,8 +67,11 @@ function isoDateOf(value: unknown): string | null {
 }
 
 /** Records a public request, its first log line and the acknowledgement e-mail, in one transaction. */
+export type NewRecordsRequest = Pick<RecordsRequestInput, "name" | "email" | "description"> &
+  Partial<Omit<RecordsRequestInput, "name" | "email" | "description" | "website">>;
+
 export async function createRecordsRequest(
-  input: RecordsRequestInput,
+  input: NewRecordsRequest,
   receivedAt: Date = new Date(),
 ): Promise<{ id: number; trackingCode: string; dueOn: string }> {
   return db.transaction(async (trx) => {
