@@ -70,7 +70,11 @@ export class PdfWriter {
     const size = options.size ?? 10;
     const font = options.bold ? this.bold : this.regular;
     // Characters outside the embedded Latin subset are replaced, never dropped silently.
-    const safe = [...text].map((character) => (font.getCharacterSet().includes(character.codePointAt(0)!) || character === "\n" ? character : "?")).join("");
+    const safe = [...text]
+      .map((character) =>
+        font.getCharacterSet().includes(character.codePointAt(0)!) || character === "\n" ? character : "?",
+      )
+      .join("");
     for (const line of this.wrap(safe, font, size)) {
       if (this.y < PAGE.margin + size) this.newPage();
       this.page.drawText(line, { x: PAGE.margin, y: this.y - size, size, font, color: rgb(0.1, 0.12, 0.15) });
@@ -88,7 +92,8 @@ export class PdfWriter {
   }
 }
 
-const gallons = (value: number | null) => (value === null ? "—" : `${value.toLocaleString("en-US", { maximumFractionDigits: 1 })} gal`);
+const gallons = (value: number | null) =>
+  value === null ? "—" : `${value.toLocaleString("en-US", { maximumFractionDigits: 1 })} gal`;
 
 /** The standard cautions printed on every usage report (the product's own wording). */
 export const REPORT_CAUTIONS = [
@@ -116,7 +121,9 @@ export async function usageReportPdf(
   writer.text(agencyName, { size: 10, bold: true });
   writer.text(`Foam-usage report ${report.number}`, { size: 16, bold: true, gap: 6 });
   writer.text(`Kind: ${EVENT_KIND_LABELS[report.kind]} · Revision ${report.revision}`);
-  writer.text(`Started ${report.startedAt.replace("T", " ")} · cleared ${report.clearedAt.replace("T", " ") || "—"} (${report.timeZone})`);
+  writer.text(
+    `Started ${report.startedAt.replace("T", " ")} · cleared ${report.clearedAt.replace("T", " ") || "—"} (${report.timeZone})`,
+  );
   writer.text(`Station: ${report.station ?? "—"}`);
   writer.text(`Location: ${location.address || "—"}`);
   writer.text(

@@ -73,7 +73,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     const submission = parseWithZod(url.searchParams, { schema: ReleaseSelectionSchema });
     if (submission.status === "success") {
       const defaultOn = !url.searchParams.has("chosen");
-      preview = { rows: await selectReleaseEvents(selectionOf(submission.value, found.place, defaultOn)), errors: null };
+      preview = {
+        rows: await selectReleaseEvents(selectionOf(submission.value, found.place, defaultOn)),
+        errors: null,
+      };
     } else preview = { rows: [], errors: submission.error };
   }
   return { request: found, assignees: await listRecordsAssignees(), preview, search: url.search };
@@ -268,15 +271,20 @@ function ReleaseSection() {
     <div className="card space-y-4">
       <h2 className="text-lg font-semibold">Release package</h2>
       <p className="text-sm text-slate-ft">
-        Only accepted usage reports are released. Check each redaction against the state’s public-records law and
-        the agency’s counsel before sending.
+        Only accepted usage reports are released. Check each redaction against the state’s public-records law and the
+        agency’s counsel before sending.
       </p>
       <Form method="get" className="grid gap-3 md:grid-cols-4" aria-label="Select records">
         <input type="hidden" name="preview" value="1" />
         <input type="hidden" name="chosen" value="1" />
         <label className="text-sm">
           From
-          <input name="from" type="date" defaultValue={value("from", request.rangeFrom ?? "")} className="field-input" />
+          <input
+            name="from"
+            type="date"
+            defaultValue={value("from", request.rangeFrom ?? "")}
+            className="field-input"
+          />
         </label>
         <label className="text-sm">
           To
@@ -394,10 +402,14 @@ function ReleaseSection() {
           <ul className="mt-2 text-sm">
             {pack.files.map((file) => (
               <li key={file.id}>
-                <a href={`/records/${request.id}/files/${file.id}`} className="text-pond-700 underline underline-offset-4">
+                <a
+                  href={`/records/${request.id}/files/${file.id}`}
+                  className="text-pond-700 underline underline-offset-4"
+                >
                   {file.fileName}
                 </a>{" "}
-                · {file.byteSize.toLocaleString("en-US")} bytes · <span className="font-mono text-xs">{file.sha256}</span>
+                · {file.byteSize.toLocaleString("en-US")} bytes ·{" "}
+                <span className="font-mono text-xs">{file.sha256}</span>
               </li>
             ))}
           </ul>

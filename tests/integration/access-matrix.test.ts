@@ -115,7 +115,12 @@ beforeAll(async () => {
 function targetsOf(
   key: string,
 ): Array<{ label: string; url: string; params: Record<string, string>; record?: ReportRecord }> {
-  if (key === "events/:id" || key === "events/:id/edit" || key === "api/events/:id" || key === "events/:id/report.pdf") {
+  if (
+    key === "events/:id" ||
+    key === "events/:id/edit" ||
+    key === "api/events/:id" ||
+    key === "events/:id/report.pdf"
+  ) {
     return reports.map((report) => ({
       label: report.label,
       url: `/${key.replace(":id", String(report.id))}`,

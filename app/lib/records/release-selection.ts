@@ -15,7 +15,11 @@ export const ReleaseSelectionSchema = z.object({
   station: z.number().int().positive().optional(),
   foamClass: z.enum(FOAM_CLASSES).optional(),
   basin: z.string().trim().max(120).optional(),
-  radiusM: z.number({ error: "Give the radius in metres." }).positive("More than 0 m.").max(50_000, "At most 50,000 m.").optional(),
+  radiusM: z
+    .number({ error: "Give the radius in metres." })
+    .positive("More than 0 m.")
+    .max(50_000, "At most 50,000 m.")
+    .optional(),
   // Checkboxes: present means keep the redaction on. The build form sends all three by default.
   redactPersonnel: z.literal("on").optional(),
   redactNotes: z.literal("on").optional(),
