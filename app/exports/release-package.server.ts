@@ -2,6 +2,7 @@ import { createHash } from "node:crypto";
 import { PassThrough } from "node:stream";
 import { distance, point } from "@turf/turf";
 import { ZipArchive } from "archiver";
+import ExcelJS from "exceljs";
 import { csvLine } from "~/lib/csv";
 import { db } from "~/lib/db.server";
 import { EVENT_KIND_LABELS, type EventKind, type FoamClass, type RecordsRequestStatus } from "~/lib/foam/vocabulary";
@@ -144,6 +145,84 @@ function eventsCsv(rows: ReleasePreviewRow[]): Uint8Array {
   return new TextEncoder().encode("\uFEFF" + header + lines.join(""));
 }
 
+/** The same events with their discharges and runoff, as a workbook of three sheets. */
+async function eventsWorkbook(
+  rows: ReleasePreviewRow[],
+  reports: Array<NonNullable<ReportDetail>>,
+): Promise<Uint8Array> {
+  const workbook = new ExcelJS.Workbook();
+  workbook.creator = "Foamtally";
+  workbook.created = new Date(0);
+  const events = workbook.addWorksheet("Events");
+  events.addRow([
+    "Number",
+    "Kind",
+    "Started",
+    "Location",
+    "Latitude",
+    "Longitude",
+    "Drainage basin",
+    "Water (gal)",
+    "Concentrate (gal)",
+    "Solution (gal)",
+  ]);
+  for (const row of rows) {
+    events.addRow([
+      row.number,
+      row.kind,
+      row.startedAt,
+      row.address,
+      row.latitude,
+      row.longitude,
+      row.basin,
+      row.waterGal,
+      row.concentrateGal,
+      row.solutionGal,
+    ]);
+  }
+  const discharges = workbook.addWorksheet("Discharges");
+  discharges.addRow([
+    "Event",
+    "Line",
+    "Apparatus",
+    "Outlet",
+    "Product",
+    "Percent",
+    "Flow",
+    "Unit",
+    "Basis",
+    "Minutes",
+    "Water (gal)",
+    "Concentrate (gal)",
+    "Solution (gal)",
+  ]);
+  const runoff = workbook.addWorksheet("Runoff");
+  runoff.addRow(["Event", "Disposition", "Share (%)", "Released (gal)", "Receiving water"]);
+  for (const report of reports) {
+    for (const line of report.discharges) {
+      discharges.addRow([
+        report.number,
+        line.position + 1,
+        line.apparatus,
+        line.outlet,
+        line.product,
+        line.percent,
+        line.flow,
+        line.flowUnit,
+        line.basis,
+        line.minutes,
+        line.water,
+        line.concentrate,
+        line.solution,
+      ]);
+    }
+    for (const line of report.dispositions) {
+      runoff.addRow([report.number, line.disposition, line.sharePercent, line.releasedGal, line.receivingWater]);
+    }
+  }
+  return new Uint8Array(await workbook.xlsx.writeBuffer());
+}
+
 function withheldList(redactions: RedactionChoices): string[] {
   const withheld: string[] = [];
   if (redactions.personnel) withheld.push("names and contact details of personnel");
@@ -206,14 +285,21 @@ export async function buildReleasePackage(
     },
     { fileName: "events.csv", contentType: "text/csv; charset=utf-8", body: eventsCsv(rows) },
   ];
+  const reports: Array<NonNullable<ReportDetail>> = [];
   for (const row of rows) {
     const report = (await getReport(row.id)) as NonNullable<ReportDetail>;
+    reports.push(report);
     files.push({
       fileName: `report-${row.number.replace(/[^A-Za-z0-9_-]/g, "_")}.pdf`,
       contentType: "application/pdf",
       body: await usageReportPdf(report, agencyName, selection.redactions),
     });
   }
+  files.splice(2, 0, {
+    fileName: "events.xlsx",
+    contentType: "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet",
+    body: await eventsWorkbook(rows, reports),
+  });
   const manifest = {
     trackingCode: request.tracking_code,
     builtAt: new Date().toISOString(),

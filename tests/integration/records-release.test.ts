@@ -3,6 +3,7 @@
 import { createHash } from "node:crypto";
 import { PDFParse } from "pdf-parse";
 import S3rver from "s3rver";
+import * as XLSX from "xlsx";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
@@ -110,7 +111,13 @@ describe("redaction in what goes out", () => {
     const packageId = await buildReleasePackage(request.id, clerk.id, selection);
     const files = await db("records_package_files").where({ package_id: packageId }).orderBy("id");
     expect(files.map((file) => file.file_name)).toEqual(
-      expect.arrayContaining(["cover-letter.pdf", "events.csv", "manifest.json", `report-${event.number}.pdf`]),
+      expect.arrayContaining([
+        "cover-letter.pdf",
+        "events.csv",
+        "events.xlsx",
+        "manifest.json",
+        `report-${event.number}.pdf`,
+      ]),
     );
     const manifest = JSON.parse(
       new TextDecoder().decode((await getObject(files.find((f) => f.file_name === "manifest.json").storage_key)).body),
@@ -122,7 +129,17 @@ describe("redaction in what goes out", () => {
       if (file.file_name !== "manifest.json") {
         expect(manifest.files.find((entry: { name: string }) => entry.name === file.file_name).sha256).toBe(digest);
       }
-      const text = file.content_type === "application/pdf" ? await pdfText(body) : new TextDecoder().decode(body);
+      // The workbook is read back with SheetJS (our own output only), every sheet as CSV.
+      const text =
+        file.content_type === "application/pdf"
+          ? await pdfText(body)
+          : file.file_name.endsWith(".xlsx")
+            ? (() => {
+                const book = XLSX.read(body, { type: "array" });
+                return book.SheetNames.map((name) => XLSX.utils.sheet_to_csv(book.Sheets[name])).join("\n");
+              })()
+            : new TextDecoder().decode(body);
+      if (file.file_name.endsWith(".xlsx")) expect(text).toContain(event.number);
       for (const secret of [PERSON, REVIEWER, NOTE.slice(0, 20), "38.712345", "-98.204567", "1234 Larkspur"]) {
         expect(text, `${file.file_name}: ${secret}`).not.toContain(secret);
       }
