@@ -17,12 +17,10 @@ import {
   RECORDS_DUE_RULES,
 } from "~/lib/records/due-date";
 import type { RecordsRequestInput } from "~/lib/records/request-form";
+import { DUE_SOON_BUSINESS_DAYS } from "~/lib/records/urgency";
 import { instantToWallClock } from "~/lib/time-zone";
 import { queueMail } from "./mail-outbox.server";
 import { type AgencySettings, agencyNameForDocuments, readAgencySettings } from "./agency-settings.server";
-
-/** Within this many business days of the due date a request is shown as due soon. */
-export const DUE_SOON_BUSINESS_DAYS = 2;
 
 // No 0/O or 1/I/L, so a code read aloud or copied by hand survives.
 const CODE_ALPHABET = "23456789ABCDEFGHJKMNPQRSTUVWXYZ";

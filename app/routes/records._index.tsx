@@ -3,7 +3,8 @@ import type { Route } from "./+types/records._index";
 import { requireCapability } from "~/lib/access.server";
 import { RECORDS_REQUEST_STATUS_LABELS, RECORDS_REQUEST_STATUSES } from "~/lib/foam/vocabulary";
 import { queueQueryOf } from "~/lib/records/queue-query";
-import { DUE_SOON_BUSINESS_DAYS, listRecordsAssignees, listRecordsRequests } from "~/models/records-request.server";
+import { DUE_SOON_BUSINESS_DAYS } from "~/lib/records/urgency";
+import { listRecordsAssignees, listRecordsRequests } from "~/models/records-request.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Public-records requests · Foamtally" }];
 
