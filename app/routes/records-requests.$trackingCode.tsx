@@ -6,7 +6,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Records request status 
 
 // Public: the tracking code is the only key, and the page shows status and due date alone.
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const code = params.trackingCode.toUpperCase();
+  const code = (params.trackingCode ?? "").toUpperCase();
   const status = /^RR-[0-9A-Z]{5}-[0-9A-Z]{5}$/.test(code) ? await publicStatusOf(code) : null;
   invariantResponse(status, "There is no request with that tracking code.");
   return { ...status, received: new URL(request.url).searchParams.get("received") === "1" };

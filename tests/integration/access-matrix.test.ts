@@ -136,6 +136,10 @@ function targetsOf(
     "apparatus/:apparatusId": { apparatusId: fixed.apparatusId },
     "stations/:stationId": { stationId: fixed.stationId },
     "environmental/submissions/:id": { id: fixed.submissionId },
+    "records-requests/:trackingCode": { trackingCode: "RR-22222-22222" },
+    "records/:id": { id: "999999" },
+    "records/:id/files/:fileId": { id: "999999", fileId: "999999" },
+    "api/records-requests/:id": { id: "999999" },
     "*": { "*": "no-such-page" },
   };
   const routeParams = params[key] ?? {};
