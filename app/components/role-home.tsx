@@ -22,11 +22,7 @@ export const HOME_TASKS: Task[] = [
     to: "/admin/settings",
   },
   { label: "Apparatus, foam systems and stations", capability: "apparatus.edit", to: "/apparatus" },
-  {
-    label: "Public-records requests",
-    capability: "records.manage",
-    note: "Records requests are planned and not yet available.",
-  },
+  { label: "Public-records requests: the queue and due dates", capability: "records.manage", to: "/records" },
 ];
 
 export function tasksFor(role: Role): Task[] {

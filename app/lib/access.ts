@@ -164,8 +164,8 @@ export const CAPABILITIES = {
     grants: [{ roles: ["environmental"] }],
   }),
   "records.manage": plain({
-    does: "log and answer public-records requests (planned)",
-    grants: [{ roles: ["records"] }],
+    does: "work the public-records queue: requesters' contact details, due dates, extensions and release packages",
+    grants: [{ roles: ["records", "admin"] }],
   }),
 } as const satisfies Record<string, CapabilityDefinition<ReportRecord> | CapabilityDefinition<AccountRecord>>;
 
@@ -254,6 +254,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "events/:id/edit": { GET: "report.edit", POST: "report.edit" },
   "events/:id/revisions/:revision": { GET: "report.read" },
   "events/:id/notifications": { GET: "report.notify", POST: "report.notify" },
+  "events/:id/report.pdf": { GET: "report.read" },
   "api/totals": { GET: "signed-in", POST: "signed-in" },
   "api/events": { GET: "report.read" },
   "api/events/:id": { GET: "report.read" },
@@ -278,6 +279,13 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "reports/environmental.xlsx": { GET: "exports.quarterly" },
   "reports/environmental.csv": { GET: "exports.quarterly" },
   "admin/outbox": { GET: "outbox.view", POST: "outbox.view" },
+  "records-requests": { GET: "public", POST: "public" },
+  "records-requests/:trackingCode": { GET: "public" },
+  records: { GET: "records.manage" },
+  "records/:id": { GET: "records.manage", POST: "records.manage" },
+  "records/:id/files/:fileId": { GET: "records.manage" },
+  "api/records-requests": { GET: "records.manage" },
+  "api/records-requests/:id": { GET: "records.manage" },
   "api/*": { GET: "public", POST: "public" },
   "*": { GET: "public", POST: "public" },
 };

@@ -122,6 +122,12 @@ export type AgencySettings = {
   classAAccuracyShare: number;
   reportRecipients: string[];
   releaseAlertRecipients: string[];
+  /** Public-records requests: the due-date rule (a key of RECORDS_DUE_RULES), office closing time, closure days. */
+  recordsDueRule: string;
+  recordsOfficeCloses: string;
+  recordsClosureDays: string[];
+  /** The rule the cover letter of a release package names for what is withheld. */
+  recordsWithholdingRule: string;
   updatedAt: string | null;
   /** A fingerprint of the stored row: a save names the version it started from. */
   version: string;

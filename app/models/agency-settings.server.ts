@@ -10,6 +10,7 @@ import {
 import { decimalOrNull } from "~/lib/decimal";
 import { DEFAULT_EVENT_NUMBER_PREFIX } from "~/lib/foam/event-number";
 import { db, type Db } from "~/lib/db.server";
+import { parseClosureDays } from "~/lib/records/due-date";
 
 export const DEFAULT_TIME_ZONE = "America/Chicago";
 /** The version of settings that were never saved: the first save inserts the row. */
@@ -44,6 +45,16 @@ function settingsFrom(row: SettingsRow): AgencySettings {
     classAAccuracyShare: number(row?.class_a_accuracy_share, DEFAULT_CLASS_A_ACCURACY_SHARE),
     reportRecipients: splitRecipientList(row?.report_recipients as string | undefined),
     releaseAlertRecipients: splitRecipientList(row?.release_alert_recipients as string | undefined),
+    recordsDueRule: typeof row?.records_due_rule === "string" ? row.records_due_rule : "federal",
+    recordsOfficeCloses:
+      typeof row?.records_office_closes === "string" && /^\d{2}:\d{2}$/.test(row.records_office_closes)
+        ? row.records_office_closes
+        : "17:00",
+    recordsClosureDays: parseClosureDays(row?.records_closure_days as string | undefined),
+    recordsWithholdingRule:
+      typeof row?.records_withholding_rule === "string" && row.records_withholding_rule
+        ? row.records_withholding_rule
+        : "the exemptions of the state's public-records law (set the rule's name in the agency settings)",
     updatedAt: row?.updated_at instanceof Date ? row.updated_at.toISOString() : null,
     version: versionOf(row),
   };

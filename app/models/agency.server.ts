@@ -5,7 +5,11 @@ import { db } from "~/lib/db.server";
 import { readAgencySettings, UNSAVED_SETTINGS_VERSION } from "./agency-settings.server";
 import { recomputeAllEventGeography } from "./geography.server";
 
-type AuditedSettings = Omit<AgencySettings, "updatedAt" | "version">;
+// The records-request settings are not edited on this form yet (they keep their stored values).
+type AuditedSettings = Omit<
+  AgencySettings,
+  "updatedAt" | "version" | "recordsDueRule" | "recordsOfficeCloses" | "recordsClosureDays" | "recordsWithholdingRule"
+>;
 
 /** What the audit log keeps of the settings: the values, not the bookkeeping. */
 function auditedValues(settings: AuditedSettings): AuditedSettings {

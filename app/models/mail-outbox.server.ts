@@ -2,7 +2,8 @@ import { recordAudit } from "~/lib/audit.server";
 import { db, type Db } from "~/lib/db.server";
 import { sendMail } from "~/lib/mail.server";
 
-export type MailKind = "release_alert" | "returned_report" | "quarterly_workbook";
+export type MailKind =
+  "release_alert" | "returned_report" | "quarterly_workbook" | "records_acknowledgement" | "records_release";
 
 export type QueuedMail = {
   kind: MailKind;

@@ -80,11 +80,16 @@ export default function EventReport({ loaderData, actionData }: Route.ComponentP
             ) : null}
           </p>
         </div>
-        {canEdit ? (
-          <Link to={`/events/${report.id}/edit`} className="btn-secondary">
-            {report.status === "accepted" ? "Revise this report" : "Edit report"}
-          </Link>
-        ) : null}
+        <div className="flex flex-wrap gap-2 print:hidden">
+          <a href={`/events/${report.id}/report.pdf`} className="btn-secondary" download>
+            Download PDF
+          </a>
+          {canEdit ? (
+            <Link to={`/events/${report.id}/edit`} className="btn-secondary">
+              {report.status === "accepted" ? "Revise this report" : "Edit report"}
+            </Link>
+          ) : null}
+        </div>
       </div>
       {report.status === "returned" && report.reviewComment ? (
         <div role="note" className="caution">
@@ -143,7 +148,7 @@ export default function EventReport({ loaderData, actionData }: Route.ComponentP
                 {entry.action} — {entry.actor}
               </p>
               <p className="text-sm text-slate-ft">
-                <time dateTime={entry.at}>{new Date(entry.at).toLocaleString("en-US", { timeZone: "UTC" })} UTC</time>
+                <time dateTime={entry.at}>{new Date(entry.at).toLocaleString("en-US", { timeZone })}</time>
                 {entry.summary ? ` · ${entry.summary}` : ""}
               </p>
             </li>

@@ -132,7 +132,8 @@ function targetsOf(
     key === "events/:id" ||
     key === "events/:id/edit" ||
     key === "api/events/:id" ||
-    key === "events/:id/revisions/:revision"
+    key === "events/:id/revisions/:revision" ||
+    key === "events/:id/report.pdf"
   ) {
     return reports.map((report) => ({
       label: report.label,
@@ -149,6 +150,10 @@ function targetsOf(
     "apparatus/:apparatusId": { apparatusId: fixed.apparatusId },
     "stations/:stationId": { stationId: fixed.stationId },
     "environmental/submissions/:id": { id: fixed.submissionId },
+    "records-requests/:trackingCode": { trackingCode: "RR-22222-22222" },
+    "records/:id": { id: "999999" },
+    "records/:id/files/:fileId": { id: "999999", fileId: "999999" },
+    "api/records-requests/:id": { id: "999999" },
     "*": { "*": "no-such-page" },
   };
   const routeParams = params[key] ?? {};

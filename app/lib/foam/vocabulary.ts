@@ -243,3 +243,28 @@ export const NOTIFIED_PARTY_LABELS: Record<NotifiedParty, string> = {
   local_sewer_authority: "Local sewer authority (treatment works)",
   other: "Other",
 };
+/** Where a public-records request stands (our own words). */
+export const RECORDS_REQUEST_STATUSES = [
+  "received",
+  "in_progress",
+  "fulfilled",
+  "partly_withheld",
+  "withheld",
+  "withdrawn",
+] as const;
+export type RecordsRequestStatus = (typeof RECORDS_REQUEST_STATUSES)[number];
+export const RECORDS_REQUEST_STATUS_LABELS: Record<RecordsRequestStatus, string> = {
+  received: "Received",
+  in_progress: "In progress",
+  fulfilled: "Fulfilled",
+  partly_withheld: "Partly withheld",
+  withheld: "Withheld",
+  withdrawn: "Withdrawn",
+};
+/** Statuses that close a request: its due date no longer runs. */
+export const RECORDS_REQUEST_CLOSED: readonly RecordsRequestStatus[] = [
+  "fulfilled",
+  "partly_withheld",
+  "withheld",
+  "withdrawn",
+];
