@@ -31,8 +31,7 @@ export async function action({ request }: Route.ActionArgs) {
   const actor = { id: user.id, email: user.email, clientAddress: clientAddress(request) };
   if (intent === "retry" || intent === "discard") {
     const id = recordIdOf(formData.get("id"));
-    const changed =
-      id != null && (await (intent === "retry" ? retryMailNow : discardMail)(id, actor));
+    const changed = id != null && (await (intent === "retry" ? retryMailNow : discardMail)(id, actor));
     if (!changed) return data({ message: "That message is not waiting or failed." }, { status: 400 });
     if (intent === "discard") return { message: "The message was discarded; it stays listed and will not be sent." };
   }
