@@ -85,9 +85,30 @@ async function writeDetailSheet<Row>(
     sheet,
     columns.map((column) => column.header),
   );
+  // ExcelJS gives every new cell a fresh style object and matches styles by identity, so the style
+  // XML would be rebuilt for every cell. One object per column (and, for a column without a number
+  // format, per kind of value: numbers, dates and text are styled apart) is written the same.
+  const styles = columns.map((column) => ({
+    numFmt: column.numFmt ? { numFmt: column.numFmt } : undefined,
+    byType: new Map<ExcelJS.ValueType, Partial<ExcelJS.Style>>(),
+  }));
+  const sharedStyle = (index: number, type: ExcelJS.ValueType) => {
+    const column = styles[index];
+    if (column.numFmt) return column.numFmt;
+    let style = column.byType.get(type);
+    if (!style) column.byType.set(type, (style = {}));
+    return style;
+  };
   let count = 0;
   for await (const row of rows) {
-    sheet.addRow(columns.map((column) => column.value(row))).commit();
+    const values = columns.map((column) => column.value(row));
+    const added = sheet.addRow(values);
+    values.forEach((value, index) => {
+      if (value === undefined) return;
+      const cell = added.getCell(index + 1);
+      cell.style = sharedStyle(index, cell.effectiveType);
+    });
+    added.commit();
     count++;
   }
   if (count === 0) sheet.addRow([emptyNote]).commit();

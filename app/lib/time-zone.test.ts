@@ -51,4 +51,28 @@ describe("time zones", () => {
     expect(toWall(new Date("2026-07-15T14:30:15.750Z"))?.toISOString()).toBe("2026-07-15T09:30:15.000Z");
     expect(toWall(null)).toBeNull();
   });
+
+  it("keeps the offset per hour yet agrees with Intl minute by minute across daylight-saving changes", () => {
+    // America/St_Johns (UTC−3:30, daylight UTC−2:30) changes at 02:00 local, i.e. at :30 past a UTC
+    // hour, so that hour must not be kept whole; 2026 dates from the tz data, checked by Intl itself.
+    for (const [timeZone, from] of [
+      ["America/St_Johns", "2026-03-08T04:00:00Z"],
+      ["America/St_Johns", "2026-11-01T03:00:00Z"],
+      [zone, "2026-11-01T05:00:00Z"],
+    ] as const) {
+      const toWall = wallClockIn(timeZone);
+      const start = new Date(from).getTime();
+      const mismatches: string[] = [];
+      for (let minute = 0; minute < 180; minute += 1) {
+        const instant = new Date(start + minute * 60_000 + 7_000);
+        const expected = new Date(instant.getTime() + zoneOffsetMinutes(instant, timeZone) * 60_000);
+        if (toWall(instant)?.getTime() !== expected.getTime()) mismatches.push(instant.toISOString());
+      }
+      expect(mismatches, timeZone).toEqual([]);
+      // The change really is in the range: the first and last minute have different offsets.
+      expect(zoneOffsetMinutes(new Date(start), timeZone)).not.toBe(
+        zoneOffsetMinutes(new Date(start + 179 * 60_000), timeZone),
+      );
+    }
+  });
 });
