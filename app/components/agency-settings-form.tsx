@@ -335,9 +335,9 @@ export function AgencySettingsForm({
             Public-records requests
           </h2>
           <p className="caution" role="note" aria-label="Public-records caution">
-            The state&apos;s public-records law and the agency&apos;s counsel decide when an answer is due and what may be
-            withheld; these settings only count days and word the cover letter. Check the rule, the closing time and the
-            closure days with counsel.
+            The state&apos;s public-records law and the agency&apos;s counsel decide when an answer is due and what may
+            be withheld; these settings only count days and word the cover letter. Check the rule, the closing time and
+            the closure days with counsel.
           </p>
           <div>
             <label htmlFor={fields.recordsDueRule.id} className="field-label">

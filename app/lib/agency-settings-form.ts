@@ -90,7 +90,8 @@ const closureDayList = z
     for (const day of days) {
       if (!isIsoDate(day)) context.addIssue({ code: "custom", message: `“${day}” is not a date written YYYY-MM-DD.` });
     }
-    if (days.length > MAX_CLOSURE_DAYS) context.addIssue({ code: "custom", message: `At most ${MAX_CLOSURE_DAYS} days.` });
+    if (days.length > MAX_CLOSURE_DAYS)
+      context.addIssue({ code: "custom", message: `At most ${MAX_CLOSURE_DAYS} days.` });
   })
   .transform((text) => [...new Set(splitClosureDays(text))].sort());
 

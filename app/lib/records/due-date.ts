@@ -7,13 +7,7 @@ import type { DueRule } from "./due-rules";
  * after office hours, or on a day the office is closed, counts from the next business day.
  */
 
-export {
-  DUE_RULE_KEYS,
-  isDueRuleKey,
-  RECORDS_DUE_RULES,
-  type DueRule,
-  type DueRuleKey,
-} from "./due-rules";
+export { DUE_RULE_KEYS, isDueRuleKey, RECORDS_DUE_RULES, type DueRule, type DueRuleKey } from "./due-rules";
 
 export type BusinessCalendar = {
   /** The agency's own closure days (ISO dates). */

@@ -59,4 +59,3 @@ export const DUE_RULE_KEYS = Object.keys(RECORDS_DUE_RULES) as DueRuleKey[];
 export function isDueRuleKey(value: unknown): value is DueRuleKey {
   return typeof value === "string" && value in RECORDS_DUE_RULES;
 }
-
