@@ -14,9 +14,11 @@ import {
   DISPLAY_UNIT_LABELS,
   DISPLAY_UNITS,
   feetFromMetres,
+  MAX_CLOSURE_DAYS,
   MAX_RECIPIENTS,
   type AgencySettings,
 } from "~/lib/agency-settings-form";
+import { DUE_RULE_KEYS, isDueRuleKey, RECORDS_DUE_RULES } from "~/lib/records/due-rules";
 import { ErrorList, FormErrors } from "./form-fields";
 
 export type AgencySettingsView = AgencySettings;
@@ -82,6 +84,12 @@ function RecipientsField({ label, field, hint }: { label: string; field: Field; 
   );
 }
 
+function dueRuleLabel(key: string): string {
+  if (!isDueRuleKey(key)) return `${key} (not a known rule; federal FOIA applies)`;
+  const rule = RECORDS_DUE_RULES[key];
+  return `${rule.label} — ${rule.source}`;
+}
+
 function CurrentValues({ settings }: { settings: AgencySettingsView }) {
   const rows: [string, string][] = [
     ["Agency name", settings.name],
@@ -97,6 +105,10 @@ function CurrentValues({ settings }: { settings: AgencySettingsView }) {
     ["Class A accuracy band", `± ${formatNumber(percent(settings.classAAccuracyShare))} %`],
     ["Report recipients", settings.reportRecipients.join(", ") || "none"],
     ["Release alert recipients", settings.releaseAlertRecipients.join(", ") || "none"],
+    ["Records due-date rule", dueRuleLabel(settings.recordsDueRule)],
+    ["Records office closes", settings.recordsOfficeCloses],
+    ["Closure days", settings.recordsClosureDays.join(", ") || "none"],
+    ["Withholding rule", settings.recordsWithholdingRule],
   ];
   return (
     <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
@@ -144,6 +156,10 @@ export function AgencySettingsForm({
       classAAccuracyPercent: String(percent(settings.classAAccuracyShare)),
       reportRecipients: settings.reportRecipients.join("\n"),
       releaseAlertRecipients: settings.releaseAlertRecipients.join("\n"),
+      recordsDueRule: settings.recordsDueRule,
+      recordsOfficeCloses: settings.recordsOfficeCloses,
+      recordsClosureDays: settings.recordsClosureDays.join("\n"),
+      recordsWithholdingRule: settings.recordsWithholdingRule,
     },
     onValidate: ({ formData }) => parseWithZod(formData, { schema: AgencySettingsSchema }),
   });
@@ -159,6 +175,18 @@ export function AgencySettingsForm({
     ariaDescribedBy: `${fields.eventNumberPrefix.id}-hint`,
   });
   const unitProps = getSelectProps(fields.displayUnits, { ariaDescribedBy: `${fields.displayUnits.id}-hint` });
+  const ruleProps = getSelectProps(fields.recordsDueRule, { ariaDescribedBy: `${fields.recordsDueRule.id}-hint` });
+  const closesProps = getInputProps(fields.recordsOfficeCloses, {
+    type: "time",
+    ariaDescribedBy: `${fields.recordsOfficeCloses.id}-hint`,
+  });
+  const closureProps = getTextareaProps(fields.recordsClosureDays, {
+    ariaDescribedBy: `${fields.recordsClosureDays.id}-hint`,
+  });
+  const withholdingProps = getTextareaProps(fields.recordsWithholdingRule, {
+    ariaDescribedBy: `${fields.recordsWithholdingRule.id}-hint`,
+  });
+  const chosenRule = isDueRuleKey(fields.recordsDueRule.value) ? RECORDS_DUE_RULES[fields.recordsDueRule.value] : null;
 
   return (
     <Form method="post" className="space-y-6" {...getFormProps(form)}>
@@ -299,6 +327,73 @@ export function AgencySettingsForm({
           <p className="caution" role="note" aria-label="Mail caution">
             Mail from Foamtally is a notice, not a regulatory report: check who must be told, how and by when under your
             permits and state and federal law.
+          </p>
+        </section>
+
+        <section className="card max-w-3xl space-y-4" aria-labelledby="records-title">
+          <h2 id="records-title" className="text-lg font-semibold">
+            Public-records requests
+          </h2>
+          <p className="caution" role="note" aria-label="Public-records caution">
+            The state&apos;s public-records law and the agency&apos;s counsel decide when an answer is due and what may
+            be withheld; these settings only count days and word the cover letter. Check the rule, the closing time and
+            the closure days with counsel.
+          </p>
+          <div>
+            <label htmlFor={fields.recordsDueRule.id} className="field-label">
+              Due-date rule
+            </label>
+            <Hint id={`${fields.recordsDueRule.id}-hint`}>
+              The days the law gives to answer, counted from the day of receipt. Each rule names its statute.
+            </Hint>
+            <div className="flex flex-wrap items-center gap-2">
+              <select {...ruleProps} key={ruleProps.key} className="field-input max-w-sm">
+                {DUE_RULE_KEYS.map((key) => (
+                  <option key={key} value={key}>
+                    {RECORDS_DUE_RULES[key].label} — {RECORDS_DUE_RULES[key].source}
+                  </option>
+                ))}
+              </select>
+              {chosenRule ? <span className="text-sm text-slate-ft">{chosenRule.source}</span> : null}
+            </div>
+            <ErrorList id={fields.recordsDueRule.errorId} errors={fields.recordsDueRule.errors} />
+          </div>
+          <div>
+            <label htmlFor={fields.recordsOfficeCloses.id} className="field-label">
+              Records office closes at
+            </label>
+            <Hint id={`${fields.recordsOfficeCloses.id}-hint`}>
+              HH:MM on a 24-hour clock, in the agency&apos;s time zone. A request received at or after this time counts
+              from the next business day. Default 17:00 (common practice, no source).
+            </Hint>
+            <input {...closesProps} key={closesProps.key} className="field-input max-w-40" autoComplete="off" />
+            <ErrorList id={fields.recordsOfficeCloses.errorId} errors={fields.recordsOfficeCloses.errors} />
+          </div>
+          <div>
+            <label htmlFor={fields.recordsClosureDays.id} className="field-label">
+              The agency&apos;s own closure days
+            </label>
+            <Hint id={`${fields.recordsClosureDays.id}-hint`}>
+              One date a line, written YYYY-MM-DD (e.g. 2026-12-24); at most {MAX_CLOSURE_DAYS}. Weekends and the
+              federal holidays of 5 U.S.C. 6103 are skipped already.
+            </Hint>
+            <textarea {...closureProps} key={closureProps.key} rows={4} className="field-input max-w-sm" />
+            <ErrorList id={fields.recordsClosureDays.errorId} errors={fields.recordsClosureDays.errors} />
+          </div>
+          <div>
+            <label htmlFor={fields.recordsWithholdingRule.id} className="field-label">
+              Withholding rule named in cover letters
+            </label>
+            <Hint id={`${fields.recordsWithholdingRule.id}-hint`}>
+              The name of the state law&apos;s exemptions a release package cites for what it withholds; at most 300
+              characters.
+            </Hint>
+            <textarea {...withholdingProps} key={withholdingProps.key} rows={2} className="field-input" />
+            <ErrorList id={fields.recordsWithholdingRule.errorId} errors={fields.recordsWithholdingRule.errors} />
+          </div>
+          <p className="text-sm" role="note" aria-label="Due dates note">
+            A new rule, closing time or closure days apply to requests received after the save. Requests already
+            received keep their due dates; the clerk moves one with an extension and its reason.
           </p>
         </section>
       </fieldset>

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { EVENT_NUMBER_PREFIX_PATTERN, isReservedPrefix } from "./foam/event-number";
+import { isDueRuleKey } from "./records/due-rules";
 
 /** 1 ft = 0.3048 m exactly (definition of the international foot). */
 export const METRES_PER_FOOT = 0.3048;
@@ -61,6 +62,39 @@ export function isKnownTimeZone(name: string): boolean {
 const decimals = (value: number, places: number) =>
   Math.abs(value * 10 ** places - Math.round(value * 10 ** places)) < 1e-6;
 
+export const MAX_CLOSURE_DAYS = 366;
+
+/** Splits the typed closure days on commas, semicolons, spaces or new lines. */
+export function splitClosureDays(text: string | null | undefined): string[] {
+  return (text ?? "")
+    .split(/[,;\s]+/)
+    .map((part) => part.trim())
+    .filter((part) => part.length > 0);
+}
+
+/** Whether `text` is a real calendar date written YYYY-MM-DD. */
+export function isIsoDate(text: string): boolean {
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(text)) return false;
+  const date = new Date(`${text}T00:00:00Z`);
+  return !Number.isNaN(date.getTime()) && date.toISOString().slice(0, 10) === text;
+}
+
+// An empty box means the office keeps no closure days of its own.
+const closureDayList = z
+  .string()
+  .max(10_000, "The list of closure days is too long.")
+  .optional()
+  .transform((text) => text ?? "")
+  .superRefine((text, context) => {
+    const days = splitClosureDays(text);
+    for (const day of days) {
+      if (!isIsoDate(day)) context.addIssue({ code: "custom", message: `“${day}” is not a date written YYYY-MM-DD.` });
+    }
+    if (days.length > MAX_CLOSURE_DAYS)
+      context.addIssue({ code: "custom", message: `At most ${MAX_CLOSURE_DAYS} days.` });
+  })
+  .transform((text) => [...new Set(splitClosureDays(text))].sort());
+
 export const AgencySettingsSchema = z.object({
   version: z.string({ error: "Reload the page and try again." }).min(1, "Reload the page and try again.").max(100),
   name: z
@@ -103,6 +137,19 @@ export const AgencySettingsSchema = z.object({
     .refine((value) => decimals(value, 2), "At most two decimals."),
   reportRecipients: recipientList("report recipients"),
   releaseAlertRecipients: recipientList("release alert recipients"),
+  recordsDueRule: z
+    .string({ error: "Choose the rule that sets when answers are due." })
+    .refine(isDueRuleKey, "Choose one of the rules listed."),
+  recordsOfficeCloses: z
+    .string({ error: "Give the time the office closes, HH:MM." })
+    .trim()
+    .regex(/^([01]\d|2[0-3]):[0-5]\d$/, "Give the closing time as HH:MM on a 24-hour clock, e.g. 17:00."),
+  recordsClosureDays: closureDayList,
+  recordsWithholdingRule: z
+    .string({ error: "Name the law whose exemptions the cover letter cites." })
+    .trim()
+    .min(1, "Name the law whose exemptions the cover letter cites.")
+    .max(300, "At most 300 characters."),
 });
 
 export type AgencySettingsInput = z.infer<typeof AgencySettingsSchema>;

@@ -5,11 +5,7 @@ import { db } from "~/lib/db.server";
 import { readAgencySettings, UNSAVED_SETTINGS_VERSION } from "./agency-settings.server";
 import { recomputeAllEventGeography } from "./geography.server";
 
-// The records-request settings are not edited on this form yet (they keep their stored values).
-type AuditedSettings = Omit<
-  AgencySettings,
-  "updatedAt" | "version" | "recordsDueRule" | "recordsOfficeCloses" | "recordsClosureDays" | "recordsWithholdingRule"
->;
+type AuditedSettings = Omit<AgencySettings, "updatedAt" | "version">;
 
 /** What the audit log keeps of the settings: the values, not the bookkeeping. */
 function auditedValues(settings: AuditedSettings): AuditedSettings {
@@ -24,6 +20,10 @@ function auditedValues(settings: AuditedSettings): AuditedSettings {
     classAAccuracyShare: settings.classAAccuracyShare,
     reportRecipients: settings.reportRecipients,
     releaseAlertRecipients: settings.releaseAlertRecipients,
+    recordsDueRule: settings.recordsDueRule,
+    recordsOfficeCloses: settings.recordsOfficeCloses,
+    recordsClosureDays: settings.recordsClosureDays,
+    recordsWithholdingRule: settings.recordsWithholdingRule,
   };
 }
 
@@ -33,7 +33,9 @@ export type SaveAgencySettingsResult =
 /**
  * Saves the settings in one transaction with their audit row, unless someone else saved since
  * `input.version` was read (then nothing is written and the current settings come back). A new
- * waterway buffer rechecks every event's stored geography in the same transaction.
+ * waterway buffer rechecks every event's stored geography in the same transaction. A new
+ * public-records rule, closing time or closure days apply to requests received from then on; the
+ * due dates of requests already received keep their value (the page says so).
  */
 export async function saveAgencySettings(
   input: AgencySettingsInput,
@@ -57,6 +59,10 @@ export async function saveAgencySettings(
       class_a_accuracy_share: Number((input.classAAccuracyPercent / 100).toFixed(4)),
       report_recipients: input.reportRecipients.join(", "),
       release_alert_recipients: input.releaseAlertRecipients.join(", "),
+      records_due_rule: input.recordsDueRule,
+      records_office_closes: input.recordsOfficeCloses,
+      records_closure_days: input.recordsClosureDays.join("\n"),
+      records_withholding_rule: input.recordsWithholdingRule,
     };
     const afterValues = auditedValues({
       ...input,

@@ -50,8 +50,8 @@ export default function AgencySettingsPage({ loaderData, actionData }: Route.Com
     <div className="space-y-6">
       <h1 className="text-2xl font-bold">Agency settings</h1>
       <p className="max-w-3xl">
-        The agency&apos;s name, time zone, the buffers and thresholds every report is checked against, and who receives
-        the quarterly workbook and release alerts.
+        The agency&apos;s name and time zone, the buffers and thresholds every report is checked against, who receives
+        the quarterly workbook and release alerts, and how public-records requests are counted.
       </p>
       <AgencySettingsForm
         settings={loaderData.settings}

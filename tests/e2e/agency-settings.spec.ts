@@ -28,6 +28,16 @@ test.describe("agency settings", () => {
     await page.getByRole("button", { name: "Save settings" }).click();
     await expect(page.getByText("“not” is not an e-mail address.")).toBeVisible();
 
+    // The public-records settings: the caution, each rule with its statute, a bad closure day at its field.
+    await expect(page.getByRole("note", { name: "Public-records caution" })).toContainText("counsel");
+    await expect(page.getByLabel("Due-date rule")).toContainText("5 ILCS 140/3");
+    const closureDays = page.getByLabel("The agency's own closure days");
+    const storedClosureDays = await closureDays.inputValue();
+    await closureDays.fill("2026-12-24\n12/31/2026");
+    await closureDays.blur();
+    await expect(page.getByText("“12/31/2026” is not a date written YYYY-MM-DD.")).toBeVisible();
+    await closureDays.fill(storedClosureDays);
+
     await reportRecipients.fill("runoff-desk@alderbend.example\nstate-desk@alderbend.example");
     await buffer.fill("30.48");
     await expect(page.getByText("= 100 ft", { exact: true })).toBeVisible();

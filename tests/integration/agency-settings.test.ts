@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/lib/db.server";
 import { recomputeAllEventGeography, recomputeEventGeography, replaceLayer } from "~/models/geography.server";
 import { readAgencySettings } from "~/models/agency-settings.server";
+import { createRecordsRequest } from "~/models/records-request.server";
 import { action, loader } from "~/routes/admin.settings";
 import { makeUser } from "../support/factories";
 import { formRequest, getRequest, routeArgs, settle } from "../support/requests";
@@ -45,6 +46,10 @@ async function validForm(overrides: Record<string, string> = {}): Promise<Record
     classAAccuracyPercent: "30",
     reportRecipients: "quarterly-desk@test.example",
     releaseAlertRecipients: "release-desk@test.example",
+    recordsDueRule: "federal",
+    recordsOfficeCloses: "17:00",
+    recordsClosureDays: "",
+    recordsWithholdingRule: "the exemptions of the State Public Records Act (test)",
     ...overrides,
   };
 }
@@ -166,6 +171,10 @@ describe("agency settings page", () => {
         classAAccuracyPercent: "150",
         reportRecipients: "good@test.example, not-an-address",
         releaseAlertRecipients: "alerts@test.example; bad@",
+        recordsDueRule: "atlantis",
+        recordsOfficeCloses: "25:00",
+        recordsClosureDays: "2026-12-24\n2026-12-32",
+        recordsWithholdingRule: "",
       }),
     );
     expect(refused.status).toBe(400);
@@ -177,6 +186,10 @@ describe("agency settings page", () => {
         "drawdownTolerancePercent",
         "name",
         "pfasReportableLb",
+        "recordsClosureDays",
+        "recordsDueRule",
+        "recordsOfficeCloses",
+        "recordsWithholdingRule",
         "releaseAlertRecipients",
         "reportRecipients",
         "timeZone",
@@ -186,6 +199,8 @@ describe("agency settings page", () => {
     expect(errors.reportRecipients).toEqual(["“not-an-address” is not an e-mail address."]);
     expect(errors.releaseAlertRecipients).toEqual(["“bad@” is not an e-mail address."]);
     expect(errors.timeZone?.[0]).toMatch(/Not a known time zone/);
+    expect(errors.recordsClosureDays).toEqual(["“2026-12-32” is not a date written YYYY-MM-DD."]);
+    expect(errors.recordsDueRule).toEqual(["Choose one of the rules listed."]);
     expect(await db("agency_settings").where({ id: 1 }).first()).toEqual(before);
     const [{ n: auditsAfter }] = await settingsAudits();
     expect(Number(auditsAfter)).toBe(Number(auditsBefore));
@@ -252,5 +267,74 @@ describe("agency settings page", () => {
     expect(await db("agency_settings").where({ id: 1 }).first()).toEqual(before);
     const [{ n: auditsAfter }] = await settingsAudits();
     expect(Number(auditsAfter)).toBe(Number(auditsBefore));
+  });
+
+  it("saves the public-records settings with their audit; new requests use them, received ones keep their due dates", async () => {
+    const requester = { name: "Settings Requester (test)", email: "requester@test.example" };
+    expect((await post(admin, await validForm())).status).toBe(302);
+    // Monday 21 December 2026, 10:00 in America/Denver (17:00 UTC); federal FOIA, 20 working days.
+    const earlier = await createRecordsRequest(
+      { ...requester, description: "Received before the rule changed (test)" },
+      new Date("2026-12-21T17:00:00Z"),
+    );
+    const [{ n: auditsBefore }] = await settingsAudits();
+    const before = await readAgencySettings();
+
+    const saved = await post(
+      admin,
+      await validForm({
+        recordsDueRule: "illinois",
+        recordsOfficeCloses: "16:30",
+        recordsClosureDays: "2026-12-24\n2026-12-24\n2026-12-07",
+        recordsWithholdingRule: "  the exemptions of 5 ILCS 140/7 (test)  ",
+      }),
+    );
+    expect(saved).toEqual({ status: 302, location: "/admin/settings" });
+    const row = await db("agency_settings").where({ id: 1 }).first();
+    expect(row.records_due_rule).toBe("illinois");
+    expect(row.records_office_closes).toBe("16:30");
+    expect(row.records_closure_days).toBe("2026-12-07\n2026-12-24");
+    expect(row.records_withholding_rule).toBe("the exemptions of 5 ILCS 140/7 (test)");
+    const settings = await readAgencySettings();
+    expect(settings.recordsClosureDays).toEqual(["2026-12-07", "2026-12-24"]);
+    expect(settings.version).not.toBe(before.version);
+
+    const [{ n: auditsAfter }] = await settingsAudits();
+    expect(Number(auditsAfter)).toBe(Number(auditsBefore) + 1);
+    const audit = await db("audit_events").where({ action: "agency_settings_updated" }).orderBy("id", "desc").first();
+    expect(audit.summary).toBe(
+      "Changed recordsDueRule, recordsOfficeCloses, recordsClosureDays, recordsWithholdingRule",
+    );
+    expect(JSON.parse(audit.before_json)).toMatchObject({ recordsDueRule: "federal", recordsClosureDays: [] });
+    expect(JSON.parse(audit.after_json)).toMatchObject({
+      recordsDueRule: "illinois",
+      recordsOfficeCloses: "16:30",
+      recordsClosureDays: ["2026-12-07", "2026-12-24"],
+    });
+
+    // Federal FOIA, 20 working days, skipping 25 December, 1 January and 18 January (5 U.S.C. 6103).
+    expect(earlier.dueOn).toBe("2027-01-21");
+
+    // Illinois, 5 business days from Monday 21 December: 22, 23, (24 closed, 25 a federal holiday), 28, 29, 30.
+    const morning = await createRecordsRequest(
+      { ...requester, description: "Received in the morning after the change (test)" },
+      new Date("2026-12-21T17:00:00Z"),
+    );
+    expect(morning.dueOn).toBe("2026-12-30");
+    // 16:45 local is after the new closing time: day 0 is Tuesday 22 December, due Thursday 31 December.
+    const late = await createRecordsRequest(
+      { ...requester, description: "Received after the office closed (test)" },
+      new Date("2026-12-21T23:45:00Z"),
+    );
+    expect(late.dueOn).toBe("2026-12-31");
+
+    const dueOf = async (id: number) => {
+      const value = (await db("records_requests").where({ id }).first("due_on")).due_on;
+      return value instanceof Date ? value.toISOString().slice(0, 10) : String(value).slice(0, 10);
+    };
+    // The request received before the save keeps the due date it was given.
+    expect(await dueOf(earlier.id)).toBe("2027-01-21");
+    expect(await dueOf(morning.id)).toBe("2026-12-30");
+    await db("records_requests").whereIn("id", [earlier.id, morning.id, late.id]).delete();
   });
 });
