@@ -9,6 +9,8 @@ import {
   EVENT_KINDS,
   FOAM_CLASS_LABELS,
   FOAM_CLASSES,
+  HELD_BACK_LABEL,
+  RELEASED_TO_ENVIRONMENT_LABEL,
   WATER_ONLY_LABEL,
 } from "~/lib/foam/vocabulary";
 import type { AgencySettings } from "~/models/agency-settings.server";
@@ -308,6 +310,21 @@ function writeSummary(
         "",
         { formula: `SUM(${rRange("released")})`, result: all },
         { formula: litreFormula(row, "C"), result: all * LITRES_PER_US_GALLON },
+      ],
+      (r) => (r.font = BOLD),
+    );
+  }
+  for (const [label, flag, gallons] of [
+    [RELEASED_TO_ENVIRONMENT_LABEL, "Yes", aggregates.environmentGallons],
+    [HELD_BACK_LABEL, "No", aggregates.heldBackGallons],
+  ] as const) {
+    const row = rowNumber + 1;
+    add(
+      [
+        label,
+        "",
+        { formula: `SUMIFS(${rRange("released")},${rRange("environment")},${exactly(flag)})`, result: gallons },
+        { formula: litreFormula(row, "C"), result: gallons * LITRES_PER_US_GALLON },
       ],
       (r) => (r.font = BOLD),
     );

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { containedGallons, releasedGallons, shareNotContained } from "./released-volume";
+import { containedGallons, releasedGallons, shareNotContained, reachedEnvironment } from "./released-volume";
 
 describe("released volume of a runoff line", () => {
   it("is the stated volume when one was given", () => {
@@ -33,5 +33,20 @@ describe("share not contained", () => {
 
   it("stays between none and all when the stated volumes exceed the solution", () => {
     expect(shareNotContained(600, 400)).toBe(0);
+  });
+});
+
+describe("reachedEnvironment (issue 10 §4: releases apart from contained, sewer with notice and evaporated)", () => {
+  it("counts soil, storm drain, surface water and an unknown fate as released", () => {
+    for (const disposition of ["soil", "storm_drain", "surface_water", "evaporated_unknown"] as const) {
+      expect(reachedEnvironment(disposition, null)).toBe(true);
+    }
+  });
+
+  it("holds back contained runoff and sewer runoff with a notice, but not sewer runoff without one", () => {
+    expect(reachedEnvironment("contained", null)).toBe(false);
+    expect(reachedEnvironment("sanitary_sewer", "Notice 12 to the treatment works")).toBe(false);
+    expect(reachedEnvironment("sanitary_sewer", "  ")).toBe(true);
+    expect(reachedEnvironment("sanitary_sewer", null)).toBe(true);
   });
 });

@@ -39,3 +39,29 @@ export function containedGallons(lines: readonly RunoffLine[], solutionGal: numb
 export function releasedGallonsSql(runoff: string, event: string): string {
   return `COALESCE(${runoff}.volume_gal, ${runoff}.share_percent / 100 * ${event}.solution_gal, 0)`;
 }
+
+/**
+ * Dispositions that put foam solution into the environment: soil, a storm drain, surface water, and
+ * "evaporated or unknown" (one stored value, so an unknown fate counts as released: the conservative
+ * reading, common practice, no source). Contained and collected runoff, and runoff sent to the
+ * sanitary sewer with a notice to the treatment works, are held back; sewer runoff with no notice
+ * recorded counts as released.
+ */
+export const ENVIRONMENT_DISPOSITIONS: readonly Disposition[] = [
+  "soil",
+  "storm_drain",
+  "surface_water",
+  "evaporated_unknown",
+];
+
+/** Whether one runoff line reached the environment (see `ENVIRONMENT_DISPOSITIONS`). */
+export function reachedEnvironment(disposition: Disposition, sewerNotice: string | null | undefined): boolean {
+  if (disposition === "sanitary_sewer") return !sewerNotice?.trim();
+  return ENVIRONMENT_DISPOSITIONS.includes(disposition);
+}
+
+/** `reachedEnvironment` as a MariaDB condition over a runoff row alias. */
+export function reachedEnvironmentSql(runoff: string): string {
+  const codes = ENVIRONMENT_DISPOSITIONS.map((code) => `'${code}'`).join(", ");
+  return `(${runoff}.disposition IN (${codes}) OR (${runoff}.disposition = 'sanitary_sewer' AND TRIM(COALESCE(${runoff}.sewer_notice, '')) = ''))`;
+}
