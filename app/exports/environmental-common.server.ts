@@ -122,7 +122,7 @@ export function methodLines(agency: AgencySettings): [string, string][] {
     ],
     [
       "Released volume",
-      "For each runoff disposition the officer gives either a volume of foam solution or a share of the event's foam solution; a share is turned into gallons as share ÷ 100 × the event's foam solution. Releases to the environment (soil, a storm drain, surface water, evaporated or unknown, and the sanitary sewer with no notice to the treatment works recorded) are summed apart from runoff held back (contained and collected, or sent to the sewer with a notice); an unknown fate counts as released, the conservative reading (common practice, no source). The Releases sheet marks each line.",
+      "For each runoff disposition the officer gives either a volume of foam solution or a share of the event's foam solution; a share is turned into gallons as share ÷ 100 × the event's foam solution. Releases to the environment (soil, a storm drain, surface water, evaporated or unknown, and the sanitary sewer with no notice to the treatment works recorded) are summed apart from runoff held back (contained and collected, or sent to the sewer with a notice); an unknown fate counts as released, the conservative reading (common practice, no source). The Releases sheet marks each line. Where an event's lines add up to less than its foam solution, the rest is shown as unaccounted (Events sheet and Summary) and counts as not contained in the PFAS figures.",
     ],
     [
       "PFAS mass",

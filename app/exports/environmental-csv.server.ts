@@ -14,6 +14,7 @@ import {
   EVENT_STATUS_LABELS,
   HELD_BACK_LABEL,
   RELEASED_TO_ENVIRONMENT_LABEL,
+  UNACCOUNTED_LABEL,
 } from "~/lib/foam/vocabulary";
 import { periodFacts } from "~/models/environmental-report.server";
 import {
@@ -115,6 +116,7 @@ export async function writeEnvironmentalCsvZip(
     }
     summary.push(["Released foam solution", RELEASED_TO_ENVIRONMENT_LABEL, aggregates.environmentGallons, "US gal"]);
     summary.push(["Released foam solution", HELD_BACK_LABEL, aggregates.heldBackGallons, "US gal"]);
+    summary.push(["Released foam solution", UNACCOUNTED_LABEL, aggregates.unaccountedGallons, "US gal"]);
     for (const group of aggregates.byBasinAndWater) {
       summary.push(["Released by drainage basin", `${group.basin} / ${group.receivingWater}`, group.gallons, "US gal"]);
     }

@@ -72,6 +72,13 @@ export function eventTable(wall: WallClock): DetailTable<EventExportRow> {
       { key: "concentrate", header: "Concentrate (US gal)", width: 13, numFmt: GAL, value: (r) => r.concentrate },
       { key: "solution", header: "Foam solution (US gal)", width: 13, numFmt: GAL, value: (r) => r.solution },
       { key: "solutionL", header: "Foam solution (L)", width: 13, numFmt: LITRES, value: (r) => litres(r.solution) },
+      {
+        key: "unaccounted",
+        header: "Foam solution unaccounted for by the runoff lines (US gal)",
+        width: 14,
+        numFmt: GAL,
+        value: (r) => r.unaccountedGallons,
+      },
       { key: "pfas", header: "PFAS-containing foam", width: 11, value: (r) => r.pfasContaining },
       { key: "warnings", header: "Has warnings", width: 10, value: (r) => r.hasWarnings },
       { key: "eventWarnings", header: "Event warnings", width: 40, value: (r) => r.eventWarnings },

@@ -11,6 +11,7 @@ import {
   FOAM_CLASSES,
   HELD_BACK_LABEL,
   RELEASED_TO_ENVIRONMENT_LABEL,
+  UNACCOUNTED_LABEL,
   WATER_ONLY_LABEL,
 } from "~/lib/foam/vocabulary";
 import type { AgencySettings } from "~/models/agency-settings.server";
@@ -328,6 +329,19 @@ function writeSummary(
       ],
       (r) => (r.font = BOLD),
     );
+  }
+  {
+    const row = rowNumber + 1;
+    const gallons = aggregates.unaccountedGallons;
+    add([
+      UNACCOUNTED_LABEL,
+      "From the Events sheet; counted as not contained in the PFAS figures",
+      {
+        formula: `SUM(${range("Events", letterOf(eventTable(facts.wall).columns, "unaccounted"), ranges.events)})`,
+        result: gallons,
+      },
+      { formula: litreFormula(row, "C"), result: gallons * LITRES_PER_US_GALLON },
+    ]);
   }
   blank();
 

@@ -14,6 +14,7 @@ import {
   reachedEnvironment,
   reachedEnvironmentSql,
   releasedGallonsSql,
+  unaccountedGallonsSql,
   shareNotContained,
 } from "~/lib/foam/released-volume";
 import {
@@ -86,6 +87,8 @@ export type PeriodAggregates = {
   environmentGallons: number;
   /** Foam solution held back: contained and collected, or sent to the sewer with a notice. */
   heldBackGallons: number;
+  /** Foam solution that no runoff line accounts for, summed over the events (`unaccountedGallons`). */
+  unaccountedGallons: number;
   byBasinAndWater: { basin: string; receivingWater: string; gallons: number }[];
   eventTotals: VolumeTotals;
 };
@@ -161,6 +164,9 @@ export async function periodAggregates(period: ReportPeriod, connection: Db = db
       connection.raw(`SUM(CASE WHEN ${reachedEnvironmentSql("r")} THEN 0 ELSE ${RELEASED_GAL} END) AS held_back`),
     )
     .first();
+  const unaccountedRow: SqlRow | undefined = await countedEvents(period, connection)
+    .select(connection.raw(`SUM(${unaccountedGallonsSql("e")}) AS unaccounted`))
+    .first();
 
   const basinRows: SqlRow[] = await countedEvents(period, connection)
     .join("runoff_dispositions as r", "r.event_id", "e.id")
@@ -183,6 +189,7 @@ export async function periodAggregates(period: ReportPeriod, connection: Db = db
     byDisposition,
     environmentGallons: num(environmentRow?.environment),
     heldBackGallons: num(environmentRow?.held_back),
+    unaccountedGallons: num(unaccountedRow?.unaccounted),
     byBasinAndWater: basinRows.map((row) => ({
       basin: row.basin,
       receivingWater: row.receiving_water,
@@ -218,6 +225,8 @@ export type EventExportRow = {
   hasWarnings: string;
   /** Warnings about the event as a whole (e.g. a tank drawdown that does not match), in words. */
   eventWarnings: string;
+  /** Foam solution no runoff line accounts for (US gal). */
+  unaccountedGallons: number;
 };
 
 const yesNo = (value: unknown): string => (value === null || value === undefined ? "" : Number(value) ? "Yes" : "No");
@@ -248,6 +257,7 @@ export async function* streamEventRows(period: ReportPeriod, connection: Db = db
       "e.pfas_containing",
       "e.has_warnings",
       "e.event_warnings",
+      connection.raw(`${unaccountedGallonsSql("e")} AS unaccounted_gal`),
     )
     .orderBy(["e.started_at", "e.id"]);
   for await (const row of query.stream()) {
@@ -272,6 +282,7 @@ export async function* streamEventRows(period: ReportPeriod, connection: Db = db
       pfasContaining: yesNo(row.pfas_containing),
       hasWarnings: yesNo(row.has_warnings),
       eventWarnings: warningText(row.event_warnings),
+      unaccountedGallons: num(row.unaccounted_gal),
     };
   }
 }

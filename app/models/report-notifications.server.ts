@@ -4,10 +4,17 @@ import { recordAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { gramsToPoundsMass, pfasGrams } from "~/lib/foam/pfas";
-import { containedGallons, releasedGallons, shareNotContained, type RunoffLine } from "~/lib/foam/released-volume";
+import {
+  containedGallons,
+  releasedGallons,
+  shareNotContained,
+  unaccountedGallons,
+  type RunoffLine,
+} from "~/lib/foam/released-volume";
 import { gallonsToLitres } from "~/lib/foam/units";
 import {
   DISPOSITION_LABELS,
+  UNACCOUNTED_LABEL,
   DISPOSITIONS_TO_WATER,
   EVENT_KIND_LABELS,
   isPfasContentUnit,
@@ -148,6 +155,11 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
           `${row.sewerNotice ? `; notice ${row.sewerNotice}` : ""}`,
       );
     }
+  }
+  const unaccounted = unaccountedGallons(dispositions, solution);
+  if (unaccounted > 0) {
+    if (dispositions.length > 0) lines.push(`- ${UNACCOUNTED_LABEL}: ${galAndLitres(unaccounted)}`);
+    else lines.push("", `${UNACCOUNTED_LABEL}: ${galAndLitres(unaccounted)}`);
   }
   lines.push(
     "",

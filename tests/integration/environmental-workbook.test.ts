@@ -17,6 +17,7 @@ import {
   HELD_BACK_LABEL,
   PFAS_CONTENT_UNITS,
   RELEASED_TO_ENVIRONMENT_LABEL,
+  UNACCOUNTED_LABEL,
 } from "~/lib/foam/vocabulary";
 import { makeUser } from "../support/factories";
 import { ensureAgency, makeApparatus, makeEvent, makeProduct, makeStation } from "../support/usage-fixtures";
@@ -57,6 +58,7 @@ let dir: string;
 let pfasProductName: string;
 let stormEventNumber: string;
 let boundaryFiledNumber: string;
+let shortRunoffNumber: string;
 
 beforeAll(async () => {
   dir = mkdtempSync(path.join(tmpdir(), "foamtally-workbook-"));
@@ -111,6 +113,19 @@ beforeAll(async () => {
       discharges: [{ productId: legacy.id, percent: 3, water: 10, concentrate: 0.1 }],
       dispositions: [{ disposition: "contained", sharePercent: 100, disposalReference: "Drum T-10" }],
       pfasContaining: true,
+    })
+  ).number;
+  // 2035 Q1: runoff lines short of the solution. 970 + 30 = 1,000 gal of solution; 300 gal contained
+  // and 20 % (200 gal) to soil leave 500 gal unaccounted.
+  shortRunoffNumber = (
+    await makeEvent({
+      createdBy: officer.id,
+      startedAt: new Date("2035-02-01T15:00:00Z"),
+      discharges: [{ productId: fluorineFree.id, percent: 3, water: 970, concentrate: 30 }],
+      dispositions: [
+        { disposition: "contained", volumeGal: 300, disposalReference: "Drum T-11" },
+        { disposition: "soil", sharePercent: 20 },
+      ],
     })
   ).number;
   // 2031 Q2 in Chicago: 2031-04-01T05:00Z up to 2031-07-01T05:00Z. Test years keep clear of other tests' rows.
@@ -454,5 +469,15 @@ describe("the quarterly environmental workbook", () => {
       expect(litreValues).toBeGreaterThan(0);
       expect(offending(cells)).toEqual([]);
     });
+  });
+
+  it("carries runoff that does not add up as an unaccounted line (issue 10 §4)", async () => {
+    const { book } = await build(quarter(2035, 1), "q1-unaccounted.xlsx");
+    const event = rowsOf(book, "Events").find((row) => row["Event number"] === shortRunoffNumber);
+    expect(event?.["Foam solution unaccounted for by the runoff lines (US gal)"]).toBeCloseTo(500, 6);
+    const summary = summaryRow(book, UNACCOUNTED_LABEL);
+    expect(summary.value("C")).toBeCloseTo(500, 6);
+    expect(summary.formula("C")).toMatch(/^SUM\(Events!/);
+    expect(summary.value("D")).toBeCloseTo(500 * LITRES_PER_US_GALLON, 6);
   });
 });

@@ -65,3 +65,24 @@ export function reachedEnvironmentSql(runoff: string): string {
   const codes = ENVIRONMENT_DISPOSITIONS.map((code) => `'${code}'`).join(", ");
   return `(${runoff}.disposition IN (${codes}) OR (${runoff}.disposition = 'sanitary_sewer' AND TRIM(COALESCE(${runoff}.sewer_notice, '')) = ''))`;
 }
+
+/** Differences smaller than this (US gal) are rounding of stated shares, not missing runoff. */
+export const UNACCOUNTED_TOLERANCE_GAL = 0.01;
+
+/**
+ * Foam solution that no runoff line accounts for: the event's solution less the lines' volumes, or
+ * 0 when they add up (within `UNACCOUNTED_TOLERANCE_GAL`) or exceed it. With no lines at all, the
+ * whole solution is unaccounted. It counts as not contained in the PFAS figures (`shareNotContained`).
+ */
+export function unaccountedGallons(lines: readonly RunoffLine[], solutionGal: number): number {
+  if (solutionGal <= 0) return 0;
+  const stated = lines.reduce((total, line) => total + releasedGallons(line, solutionGal), 0);
+  const rest = solutionGal - stated;
+  return rest > UNACCOUNTED_TOLERANCE_GAL ? rest : 0;
+}
+
+/** `unaccountedGallons` as a MariaDB expression over an event row alias. */
+export function unaccountedGallonsSql(event: string): string {
+  const stated = `COALESCE((SELECT SUM(${releasedGallonsSql("ru", event)}) FROM runoff_dispositions ru WHERE ru.event_id = ${event}.id), 0)`;
+  return `CASE WHEN ${event}.solution_gal - ${stated} > ${UNACCOUNTED_TOLERANCE_GAL} THEN ${event}.solution_gal - ${stated} ELSE 0 END`;
+}

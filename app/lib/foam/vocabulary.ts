@@ -288,3 +288,6 @@ export const FIGURE_BASIS_LABELS: Record<FigureBasis, string> = {
 export const RELEASED_TO_ENVIRONMENT_LABEL =
   "Released to the environment (soil, storm drain, surface water, unknown, sewer without notice)";
 export const HELD_BACK_LABEL = "Held back (contained and collected, sewer with notice to the treatment works)";
+
+/** The line for foam solution that no runoff line accounts for (`unaccountedGallons`). */
+export const UNACCOUNTED_LABEL = "Unaccounted (no runoff line says where it went)";
