@@ -47,7 +47,7 @@ function storedDischarges(lines: DischargeLine[], timeZone: string): ReportDisch
     flowUnit: line.flowUnit,
     basis: line.basis,
     percentOf: line.percentOf ?? null,
-    minutes: lineMinutes(line),
+    minutes: lineMinutes(line, timeZone),
     startedAt: wallClockToInstant(line.startedAt, timeZone),
     endedAt: wallClockToInstant(line.endedAt, timeZone),
     method: line.method ?? null,

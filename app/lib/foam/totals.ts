@@ -26,6 +26,18 @@ export type DischargeInput = {
   endedAt?: Date | null;
 };
 
+/**
+ * Typed minutes may differ from the start and end times by the rounding of a clock read to the
+ * minute; more than this is a disagreement worth a warning (common practice, no source).
+ */
+export const DURATION_TOLERANCE_MINUTES = 1;
+
+/** Minutes between two instants (so a daylight-saving change is counted as it happened), or null. */
+export function spanMinutes(start?: Date | null, end?: Date | null): number | null {
+  if (!start || !end) return null;
+  return (end.getTime() - start.getTime()) / 60_000;
+}
+
 export type ProductFacts = {
   id: number;
   name: string;
@@ -57,6 +69,7 @@ export type WarningCode =
   | "proportioner_limit"
   | "flow_out_of_range"
   | "outside_event_window"
+  | "duration_mismatch"
   | "drawdown_mismatch";
 
 export type UsageWarning = { code: WarningCode; message: string; field?: string };
@@ -245,6 +258,15 @@ export function computeDischarge(input: DischargeInput, context: UsageContext = 
         message: "This discharge's times fall outside the event's start and clear times.",
       });
     }
+  }
+
+  const timed = spanMinutes(input.startedAt, input.endedAt);
+  if (timed !== null && Math.abs(input.minutes - timed) > DURATION_TOLERANCE_MINUTES) {
+    warnings.push({
+      code: "duration_mismatch",
+      field: "minutes",
+      message: `The duration of ${formatNumber(input.minutes)} min does not match the ${formatNumber(timed)} min between the start and end times; the typed minutes were used.`,
+    });
   }
 
   return {
