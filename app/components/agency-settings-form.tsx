@@ -15,6 +15,7 @@ import {
   DISPLAY_UNITS,
   feetFromMetres,
   MAX_RECIPIENTS,
+  WATERWAY_BUFFER_BASIS,
   type AgencySettings,
 } from "~/lib/agency-settings-form";
 import { ErrorList, FormErrors } from "./form-fields";
@@ -90,7 +91,7 @@ function CurrentValues({ settings }: { settings: AgencySettingsView }) {
     ["Incident number prefix", `${settings.eventNumberPrefix} (e.g. ${settings.eventNumberPrefix}-2026-0001)`],
     [
       "Waterway buffer",
-      `${formatNumber(settings.waterwayBufferM)} m (${formatNumber(feetFromMetres(settings.waterwayBufferM), 1)} ft)`,
+      `${formatNumber(settings.waterwayBufferM)} m (${formatNumber(feetFromMetres(settings.waterwayBufferM), 1)} ft). ${WATERWAY_BUFFER_BASIS}`,
     ],
     ["Drawdown tolerance", `${formatNumber(percent(settings.drawdownToleranceShare))} %`],
     ["PFAS threshold", `${formatNumber(settings.pfasReportableLb, 4)} lb in 24 h`],

@@ -6,6 +6,9 @@ export const METRES_PER_FOOT = 0.3048;
 
 /** 300 ft (91.44 m): USDA Forest Service aerial application guide; local rules govern. */
 export const DEFAULT_WATERWAY_BUFFER_M = 91.44;
+/** What the default buffer is, wherever it is shown: a guideline for aircraft, not a rule for ground use. */
+export const WATERWAY_BUFFER_BASIS =
+  "300 ft (91.44 m) is the USDA Forest Service guideline for aerial application of retardant or foam near waterways; ground use has no fixed distance, and local rules govern.";
 /** 15 %: the product's own starting point for computed against measured drawdown (common practice, no source). */
 export const DEFAULT_DRAWDOWN_TOLERANCE_SHARE = 0.15;
 /** 1 lb in 24 h: CERCLA reportable quantity for PFOA/PFOS, 40 CFR 302.4 (89 FR 39124). */

@@ -480,4 +480,12 @@ describe("the quarterly environmental workbook", () => {
     expect(summary.formula("C")).toMatch(/^SUM\(Events!/);
     expect(summary.value("D")).toBeCloseTo(500 * LITRES_PER_US_GALLON, 6);
   });
+
+  it("labels the waterway buffer as the aerial-application guideline it is (issue 10 §4; USDA Forest Service)", async () => {
+    const { book } = await build(quarter(2035, 1), "q1-method.xlsx");
+    const method = XLSX.utils.sheet_to_json<string[]>(book.Sheets["Method and cautions"], { header: 1 });
+    const buffer = method.find((row) => row[0] === "Waterway buffer");
+    expect(buffer?.[1]).toContain("USDA Forest Service guideline for aerial application");
+    expect(buffer?.[1]).toContain("ground use has no fixed distance");
+  });
 });
