@@ -98,6 +98,7 @@ function CurrentValues({ settings }: { settings: AgencySettingsView }) {
     ["Class A accuracy band", `± ${formatNumber(percent(settings.classAAccuracyShare))} %`],
     ["Report recipients", settings.reportRecipients.join(", ") || "none"],
     ["Release alert recipients", settings.releaseAlertRecipients.join(", ") || "none"],
+    ["Release alerts to the chief", settings.releaseAlertsToChief ? "Yes" : "No"],
   ];
   return (
     <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
@@ -297,6 +298,15 @@ export function AgencySettingsForm({
             field={fields.releaseAlertRecipients}
             hint="They receive an alert, with every environmental officer, when a filed report used PFAS foam or sent runoff to a storm drain or surface water."
           />
+          <label className="flex items-start gap-2">
+            <input
+              type="checkbox"
+              name={fields.releaseAlertsToChief.name}
+              defaultChecked={settings.releaseAlertsToChief}
+              className="mt-1"
+            />
+            <span>Send release alerts to every chief as well</span>
+          </label>
           <p className="caution" role="note" aria-label="Mail caution">
             Mail from Foamtally is a notice, not a regulatory report: check who must be told, how and by when under your
             permits and state and federal law.

@@ -106,6 +106,8 @@ export const AgencySettingsSchema = z.object({
     .refine((value) => decimals(value, 2), "At most two decimals."),
   reportRecipients: recipientList("report recipients"),
   releaseAlertRecipients: recipientList("release alert recipients"),
+  /** A checkbox: present ("on") when ticked, absent when not. */
+  releaseAlertsToChief: z.preprocess((value) => value === "on" || value === true || value === "true", z.boolean()),
 });
 
 export type AgencySettingsInput = z.infer<typeof AgencySettingsSchema>;
@@ -125,6 +127,8 @@ export type AgencySettings = {
   classAAccuracyShare: number;
   reportRecipients: string[];
   releaseAlertRecipients: string[];
+  /** Whether release alerts also go to every active chief. */
+  releaseAlertsToChief: boolean;
   /** Public-records requests: the due-date rule (a key of RECORDS_DUE_RULES), office closing time, closure days. */
   recordsDueRule: string;
   recordsOfficeCloses: string;

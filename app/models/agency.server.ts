@@ -24,6 +24,7 @@ function auditedValues(settings: AuditedSettings): AuditedSettings {
     classAAccuracyShare: settings.classAAccuracyShare,
     reportRecipients: settings.reportRecipients,
     releaseAlertRecipients: settings.releaseAlertRecipients,
+    releaseAlertsToChief: settings.releaseAlertsToChief,
   };
 }
 
@@ -57,6 +58,7 @@ export async function saveAgencySettings(
       class_a_accuracy_share: Number((input.classAAccuracyPercent / 100).toFixed(4)),
       report_recipients: input.reportRecipients.join(", "),
       release_alert_recipients: input.releaseAlertRecipients.join(", "),
+      release_alerts_to_chief: input.releaseAlertsToChief,
     };
     const afterValues = auditedValues({
       ...input,

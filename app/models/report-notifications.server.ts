@@ -42,6 +42,14 @@ async function environmentalOfficerEmails(trx: Knex.Transaction): Promise<string
     .pluck("users.email");
 }
 
+/** Every active chief, for release alerts when the agency's setting says so. */
+async function chiefEmails(trx: Knex.Transaction): Promise<string[]> {
+  return trx("users")
+    .join("user_roles", "user_roles.user_id", "users.id")
+    .where({ "user_roles.role": "chief", "users.active": true })
+    .pluck("users.email");
+}
+
 /**
  * Queues a release alert when a filed report used PFAS-containing foam or sent runoff to a storm
  * drain or surface water. Call it inside the filing transaction; `deliverPendingMail` sends after commit.
@@ -81,7 +89,13 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
   if (pfasLines.length === 0 && toWater.length === 0) return;
 
   const agency = await readAgencySettings(trx);
-  const recipients = [...agency.releaseAlertRecipients, ...(await environmentalOfficerEmails(trx))];
+  const recipients = [
+    ...new Set([
+      ...agency.releaseAlertRecipients,
+      ...(await environmentalOfficerEmails(trx)),
+      ...(agency.releaseAlertsToChief ? await chiefEmails(trx) : []),
+    ]),
+  ];
   const notContained = shareNotContained(containedGallons(dispositions, solution), solution);
 
   const lines: string[] = [
