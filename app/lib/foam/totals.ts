@@ -117,7 +117,7 @@ export type UsageContext = {
  * 24-33.5-1234; California, Health & Safety Code §13062(a) (docs reference values).
  */
 export const PFAS_NON_INCIDENT_WARNING =
-  "PFAS-containing foam was used for training, a test or a flush. Several states ban this use (Colorado, C.R.S. 24-33.5-1234; California, Health & Safety Code §13062); use a fluorine-free concentrate or water.";
+  "PFAS-containing foam was used for training, a test or a flush. Several states ban PFAS Class B foam for such use (Colorado, C.R.S. 24-33.5-1234; California, for training, Health & Safety Code §13062); use a fluorine-free concentrate or water.";
 
 /** The warning for PFAS-containing foam flowed outside an incident, or none. */
 export function pfasNonIncidentWarnings(
