@@ -16,6 +16,7 @@ import {
   feetFromMetres,
   MAX_CLOSURE_DAYS,
   MAX_RECIPIENTS,
+  WATERWAY_BUFFER_BASIS,
   type AgencySettings,
 } from "~/lib/agency-settings-form";
 import { DUE_RULE_KEYS, isDueRuleKey, RECORDS_DUE_RULES } from "~/lib/records/due-rules";
@@ -98,7 +99,7 @@ function CurrentValues({ settings }: { settings: AgencySettingsView }) {
     ["Incident number prefix", `${settings.eventNumberPrefix} (e.g. ${settings.eventNumberPrefix}-2026-0001)`],
     [
       "Waterway buffer",
-      `${formatNumber(settings.waterwayBufferM)} m (${formatNumber(feetFromMetres(settings.waterwayBufferM), 1)} ft)`,
+      `${formatNumber(settings.waterwayBufferM)} m (${formatNumber(feetFromMetres(settings.waterwayBufferM), 1)} ft). ${WATERWAY_BUFFER_BASIS}`,
     ],
     ["Drawdown tolerance", `${formatNumber(percent(settings.drawdownToleranceShare))} %`],
     ["PFAS threshold", `${formatNumber(settings.pfasReportableLb, 4)} lb in 24 h`],
@@ -109,6 +110,7 @@ function CurrentValues({ settings }: { settings: AgencySettingsView }) {
     ["Records office closes", settings.recordsOfficeCloses],
     ["Closure days", settings.recordsClosureDays.join(", ") || "none"],
     ["Withholding rule", settings.recordsWithholdingRule],
+    ["Release alerts to the chief", settings.releaseAlertsToChief ? "Yes" : "No"],
   ];
   return (
     <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
@@ -324,6 +326,15 @@ export function AgencySettingsForm({
             field={fields.releaseAlertRecipients}
             hint="They receive an alert, with every environmental officer, when a filed report used PFAS foam or sent runoff to a storm drain or surface water."
           />
+          <label className="flex items-start gap-2">
+            <input
+              type="checkbox"
+              name={fields.releaseAlertsToChief.name}
+              defaultChecked={settings.releaseAlertsToChief}
+              className="mt-1"
+            />
+            <span>Send release alerts to every chief as well</span>
+          </label>
           <p className="caution" role="note" aria-label="Mail caution">
             Mail from Foamtally is a notice, not a regulatory report: check who must be told, how and by when under your
             permits and state and federal law.

@@ -115,12 +115,13 @@ const number = (value: unknown) => {
 function computableLines(
   lines: unknown,
   apparatusById: ReadonlyMap<number, ApparatusOption>,
+  timeZone: string,
 ): Array<{ index: number; line: Record<string, unknown> }> {
   if (!Array.isArray(lines)) return [];
   return lines.flatMap((raw, index) => {
     const line = (raw ?? {}) as Record<string, string | undefined>;
     const flow = number(line.flow);
-    const minutes = number(line.minutes) ?? minutesBetween(line.startedAt, line.endedAt) ?? undefined;
+    const minutes = number(line.minutes) ?? minutesBetween(line.startedAt, line.endedAt, timeZone) ?? undefined;
     const productId = number(line.productId);
     const percent = number(line.percent);
     if (!flow || flow <= 0 || !minutes || minutes <= 0 || minutes > MAX_DISCHARGE_MINUTES) return [];
@@ -177,8 +178,8 @@ export function ReportForm(props: ReportFormProps) {
 
   // Live totals from the server, debounced while the officer types.
   const lines = useMemo(
-    () => computableLines(form.value?.discharges, apparatusById),
-    [form.value?.discharges, apparatusById],
+    () => computableLines(form.value?.discharges, apparatusById, props.timeZone),
+    [form.value?.discharges, apparatusById, props.timeZone],
   );
   const request = JSON.stringify({ discharges: lines.map((entry) => entry.line) });
   const submitTotals = totalsFetcher.submit;

@@ -12,6 +12,7 @@ import {
   type EventKind,
   PERCENT_OF_LABELS,
   type PercentOf,
+  UNACCOUNTED_LABEL,
 } from "~/lib/foam/vocabulary";
 import type { UsageWarning } from "~/lib/foam/totals";
 import type { GeographyChecks } from "~/lib/geo/checks";
@@ -65,6 +66,8 @@ export type SummaryReport = {
     disposalReference: string;
     sewerNotice: string;
   }>;
+  /** Foam solution no runoff line accounts for (`unaccountedGallons`); 0 when they add up. */
+  unaccountedGal: number;
   tankReadings: Array<{
     apparatus: string | null;
     product: string | null;
@@ -261,6 +264,14 @@ export function ReportSummary({ report }: { report: SummaryReport }) {
                 <td>{line.disposalReference || line.sewerNotice || "—"}</td>
               </tr>
             ))}
+            {report.unaccountedGal > 0 ? (
+              <tr>
+                <td>{UNACCOUNTED_LABEL}</td>
+                <td>—</td>
+                <td>{gal(report.unaccountedGal)}</td>
+                <td colSpan={2}>Counted as not contained in the PFAS figures.</td>
+              </tr>
+            ) : null}
           </tbody>
         </table>
         {report.tankReadings.length ? (

@@ -5,6 +5,7 @@ import { tmpdir } from "node:os";
 import nodePath from "node:path";
 import type { Knex } from "knex";
 import type { Db } from "~/lib/db.server";
+import { METRES_PER_FOOT, WATERWAY_BUFFER_BASIS } from "~/lib/agency-settings-form";
 import { ASSUMED_CONCENTRATE_KG_PER_L } from "~/lib/foam/pfas";
 import { GRAMS_PER_POUND, LITRES_PER_US_GALLON } from "~/lib/foam/units";
 import type { ReportPeriod } from "~/lib/reporting/period";
@@ -122,7 +123,7 @@ export function methodLines(agency: AgencySettings): [string, string][] {
     ],
     [
       "Released volume",
-      "For each runoff disposition the officer gives either a volume of foam solution or a share of the event's foam solution; a share is turned into gallons as share ÷ 100 × the event's foam solution.",
+      "For each runoff disposition the officer gives either a volume of foam solution or a share of the event's foam solution; a share is turned into gallons as share ÷ 100 × the event's foam solution. Releases to the environment (soil, a storm drain, surface water, evaporated or unknown, and the sanitary sewer with no notice to the treatment works recorded) are summed apart from runoff held back (contained and collected, or sent to the sewer with a notice); an unknown fate counts as released, the conservative reading (common practice, no source). The Releases sheet marks each line. Where an event's lines add up to less than its foam solution, the rest is shown as unaccounted (Events sheet and Summary) and counts as not contained in the PFAS figures.",
     ],
     [
       "PFAS mass",
@@ -131,6 +132,10 @@ export function methodLines(agency: AgencySettings): [string, string][] {
     [
       "24-hour threshold",
       `The CERCLA reportable quantity is 1 lb in any 24 hours for PFOA and for PFOS, each with its salts and structural isomers (40 CFR 302.4; 89 FR 39124); the agency's threshold is ${agency.pfasReportableLb} lb. Each substance is checked on its own and never added to the other (40 CFR 302.6). The mass compared is gross: all that reached a surface, land included (40 CFR 302.3); the mass not recovered (net) stands beside it. Any span shorter than 24 h is checked, reaching 24 h before and after the period, timed by the discharges where given, and counting filed and returned reports as well as accepted ones. Where a PFAS-containing product has no PFOA or PFOS content recorded, the answer is Unknown: by the mixture rule (40 CFR 302.6(b)(1)(ii)) the whole mixture released is compared with the RQ. Total PFAS is shown as a screening figure only.`,
+    ],
+    [
+      "Waterway buffer",
+      `"Within waterway buffer" on the Events sheet means within ${agency.waterwayBufferM} m (${(agency.waterwayBufferM / METRES_PER_FOOT).toFixed(1)} ft) of the nearest mapped waterway, the agency's setting. ${WATERWAY_BUFFER_BASIS}`,
     ],
     [
       "Percentages",

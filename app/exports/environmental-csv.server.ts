@@ -6,11 +6,21 @@ import { csvLine } from "~/lib/csv";
 import { db, type Db } from "~/lib/db.server";
 import { gallonsToLitres } from "~/lib/foam/units";
 import { localDateTime } from "~/lib/time-zone";
-import { DISPOSITION_LABELS, DISPOSITIONS, EVENT_KIND_LABELS, EVENT_KINDS } from "~/lib/foam/vocabulary";
+import {
+  DISPOSITION_LABELS,
+  DISPOSITIONS,
+  EVENT_KIND_LABELS,
+  EVENT_KINDS,
+  EVENT_STATUS_LABELS,
+  HELD_BACK_LABEL,
+  RELEASED_TO_ENVIRONMENT_LABEL,
+  UNACCOUNTED_LABEL,
+} from "~/lib/foam/vocabulary";
 import { periodFacts } from "~/models/environmental-report.server";
 import {
   dischargeTable,
   eventTable,
+  LITRES,
   nonIncidentTable,
   pfasColumns,
   releaseTable,
@@ -30,14 +40,22 @@ import {
 // A UTF-8 byte-order mark, so that spreadsheet programs read "–", "°" and "³" as written.
 const BOM = "\uFEFF";
 
-function csvCell(value: CellValue): string | number | null {
+/**
+ * A cell as the CSV writes it. Litres are rounded to the tenth the workbook shows: flow meters and
+ * tank gauges read no finer than that (common practice, no source), and a converted 3.785411784 L
+ * per gallon would otherwise claim nine decimals the meter never gave.
+ */
+function csvCell(value: CellValue, numFmt?: string): string | number | null {
   if (value instanceof Date) return value.toISOString().slice(0, 16).replace("T", " ");
+  if (typeof value === "number" && numFmt === LITRES) return roundLitres(value);
   return value;
 }
 
+const roundLitres = (litres: number) => Math.round(litres * 10) / 10;
+
 async function* csvRows<Row>(columns: Column<Row>[], rows: AsyncIterable<Row> | Iterable<Row>): AsyncGenerator<string> {
   yield BOM + csvLine(columns.map((column) => column.header));
-  for await (const row of rows) yield csvLine(columns.map((column) => csvCell(column.value(row))));
+  for await (const row of rows) yield csvLine(columns.map((column) => csvCell(column.value(row), column.numFmt)));
 }
 
 /**
@@ -62,7 +80,7 @@ export async function writeEnvironmentalCsvZip(
       ["Topic", "Item", "Value", "Unit"],
       ["Agency", "", agency.name, ""],
       ["Period", request.period.label, `${request.period.from} to ${request.period.to}`, agency.timeZone],
-      ["Reports counted", "accepted", aggregates.eventCount, "reports"],
+      ["Reports counted", EVENT_STATUS_LABELS.accepted, aggregates.eventCount, "reports"],
       ["Reports not counted", "filed, awaiting review", aggregates.awaitingReview, "reports"],
       ["Reports not counted", "returned to the officer", aggregates.returned, "reports"],
       [
@@ -86,7 +104,7 @@ export async function writeEnvironmentalCsvZip(
       summary.push([`${row.foamClass}, ${use}`, "water", row.water, "US gal"]);
       summary.push([`${row.foamClass}, ${use}`, "concentrate", row.concentrate, "US gal"]);
       summary.push([`${row.foamClass}, ${use}`, "foam solution", row.solution, "US gal"]);
-      summary.push([`${row.foamClass}, ${use}`, "foam solution", gallonsToLitres(row.solution), "L"]);
+      summary.push([`${row.foamClass}, ${use}`, "foam solution", roundLitres(gallonsToLitres(row.solution)), "L"]);
     }
     for (const disposition of DISPOSITIONS) {
       summary.push([
@@ -96,6 +114,9 @@ export async function writeEnvironmentalCsvZip(
         "US gal",
       ]);
     }
+    summary.push(["Released foam solution", RELEASED_TO_ENVIRONMENT_LABEL, aggregates.environmentGallons, "US gal"]);
+    summary.push(["Released foam solution", HELD_BACK_LABEL, aggregates.heldBackGallons, "US gal"]);
+    summary.push(["Released foam solution", UNACCOUNTED_LABEL, aggregates.unaccountedGallons, "US gal"]);
     for (const group of aggregates.byBasinAndWater) {
       summary.push(["Released by drainage basin", `${group.basin} / ${group.receivingWater}`, group.gallons, "US gal"]);
     }

@@ -1,5 +1,6 @@
 import type { Db } from "~/lib/db.server";
-import { PFAS_CONTENT_UNIT_LABELS, isPfasContentUnit } from "~/lib/foam/vocabulary";
+import { figureBasis } from "~/lib/foam/figure-basis";
+import { FIGURE_BASIS_LABELS, PFAS_CONTENT_UNIT_LABELS, isPfasContentUnit } from "~/lib/foam/vocabulary";
 import { LITRES_PER_US_GALLON } from "~/lib/foam/units";
 import type { ReportPeriod } from "~/lib/reporting/period";
 import {
@@ -71,8 +72,16 @@ export function eventTable(wall: WallClock): DetailTable<EventExportRow> {
       { key: "concentrate", header: "Concentrate (US gal)", width: 13, numFmt: GAL, value: (r) => r.concentrate },
       { key: "solution", header: "Foam solution (US gal)", width: 13, numFmt: GAL, value: (r) => r.solution },
       { key: "solutionL", header: "Foam solution (L)", width: 13, numFmt: LITRES, value: (r) => litres(r.solution) },
+      {
+        key: "unaccounted",
+        header: "Foam solution unaccounted for by the runoff lines (US gal)",
+        width: 14,
+        numFmt: GAL,
+        value: (r) => r.unaccountedGallons,
+      },
       { key: "pfas", header: "PFAS-containing foam", width: 11, value: (r) => r.pfasContaining },
       { key: "warnings", header: "Has warnings", width: 10, value: (r) => r.hasWarnings },
+      { key: "eventWarnings", header: "Event warnings", width: 40, value: (r) => r.eventWarnings },
     ],
   };
 }
@@ -137,6 +146,12 @@ export function releaseTable(wall: WallClock): DetailTable<ReleaseExportRow> {
       { key: "waterway", header: "Nearest waterway", width: 22, value: (r) => r.nearestWaterway },
       { key: "disposal", header: "Disposal reference (contained)", width: 24, value: (r) => r.disposalReference },
       { key: "sewer", header: "Notice to treatment works (sewer)", width: 26, value: (r) => r.sewerNotice },
+      {
+        key: "environment",
+        header: "Released to the environment",
+        width: 12,
+        value: (r) => r.reachedEnvironment,
+      },
       { key: "notes", header: "Notes", width: 30, value: (r) => r.notes },
       {
         key: "notifications",
@@ -190,7 +205,12 @@ export function pfasColumns(wall: WallClock, thresholdLb: number): Column<PfasRo
       value: (r) => (isPfasContentUnit(r.contentUnit) ? PFAS_CONTENT_UNIT_LABELS[r.contentUnit] : "not recorded"),
     },
     { key: "basis", header: "What the content counts", width: 24, value: (r) => r.contentBasis },
-    { key: "source", header: "Source of the content figure", width: 30, value: (r) => r.contentSource },
+    {
+      key: "source",
+      header: "Basis of the content figure",
+      width: 22,
+      value: (r) => FIGURE_BASIS_LABELS[figureBasis(r.contentSource)],
+    },
     {
       key: "concentrate",
       header: "Concentrate used (US gal)",

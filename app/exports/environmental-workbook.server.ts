@@ -9,6 +9,9 @@ import {
   EVENT_KINDS,
   FOAM_CLASS_LABELS,
   FOAM_CLASSES,
+  HELD_BACK_LABEL,
+  RELEASED_TO_ENVIRONMENT_LABEL,
+  UNACCOUNTED_LABEL,
   WATER_ONLY_LABEL,
 } from "~/lib/foam/vocabulary";
 import type { AgencySettings } from "~/models/agency-settings.server";
@@ -332,6 +335,34 @@ function writeSummary(
       ],
       (r) => (r.font = BOLD),
     );
+  }
+  for (const [label, flag, gallons] of [
+    [RELEASED_TO_ENVIRONMENT_LABEL, "Yes", aggregates.environmentGallons],
+    [HELD_BACK_LABEL, "No", aggregates.heldBackGallons],
+  ] as const) {
+    const row = rowNumber + 1;
+    add(
+      [
+        label,
+        "",
+        { formula: `SUMIFS(${rRange("released")},${rRange("environment")},${exactly(flag)})`, result: gallons },
+        { formula: litreFormula(row, "C"), result: gallons * LITRES_PER_US_GALLON },
+      ],
+      (r) => (r.font = BOLD),
+    );
+  }
+  {
+    const row = rowNumber + 1;
+    const gallons = aggregates.unaccountedGallons;
+    add([
+      UNACCOUNTED_LABEL,
+      "From the Events sheet; counted as not contained in the PFAS figures",
+      {
+        formula: `SUM(${range("Events", letterOf(eventTable(facts.wall).columns, "unaccounted"), ranges.events)})`,
+        result: gallons,
+      },
+      { formula: litreFormula(row, "C"), result: gallons * LITRES_PER_US_GALLON },
+    ]);
   }
   blank();
 

@@ -7,6 +7,9 @@ export const METRES_PER_FOOT = 0.3048;
 
 /** 300 ft (91.44 m): USDA Forest Service aerial application guide; local rules govern. */
 export const DEFAULT_WATERWAY_BUFFER_M = 91.44;
+/** What the default buffer is, wherever it is shown: a guideline for aircraft, not a rule for ground use. */
+export const WATERWAY_BUFFER_BASIS =
+  "300 ft (91.44 m) is the USDA Forest Service guideline for aerial application of retardant or foam near waterways; ground use has no fixed distance, and local rules govern.";
 /** 15 %: the product's own starting point for computed against measured drawdown (common practice, no source). */
 export const DEFAULT_DRAWDOWN_TOLERANCE_SHARE = 0.15;
 /** 1 lb in 24 h: CERCLA reportable quantity for PFOA/PFOS, 40 CFR 302.4 (89 FR 39124). */
@@ -150,6 +153,8 @@ export const AgencySettingsSchema = z.object({
     .trim()
     .min(1, "Name the law whose exemptions the cover letter cites.")
     .max(300, "At most 300 characters."),
+  /** A checkbox: present ("on") when ticked, absent when not. */
+  releaseAlertsToChief: z.preprocess((value) => value === "on" || value === true || value === "true", z.boolean()),
 });
 
 export type AgencySettingsInput = z.infer<typeof AgencySettingsSchema>;
@@ -169,6 +174,8 @@ export type AgencySettings = {
   classAAccuracyShare: number;
   reportRecipients: string[];
   releaseAlertRecipients: string[];
+  /** Whether release alerts also go to every active chief. */
+  releaseAlertsToChief: boolean;
   /** Public-records requests: the due-date rule (a key of RECORDS_DUE_RULES), office closing time, closure days. */
   recordsDueRule: string;
   recordsOfficeCloses: string;

@@ -45,6 +45,8 @@ function settingsFrom(row: SettingsRow): AgencySettings {
     classAAccuracyShare: number(row?.class_a_accuracy_share, DEFAULT_CLASS_A_ACCURACY_SHARE),
     reportRecipients: splitRecipientList(row?.report_recipients as string | undefined),
     releaseAlertRecipients: splitRecipientList(row?.release_alert_recipients as string | undefined),
+    releaseAlertsToChief:
+      row?.release_alerts_to_chief === undefined ? true : Boolean(Number(row.release_alerts_to_chief)),
     recordsDueRule: typeof row?.records_due_rule === "string" ? row.records_due_rule : "federal",
     recordsOfficeCloses:
       typeof row?.records_office_closes === "string" && /^\d{2}:\d{2}$/.test(row.records_office_closes)

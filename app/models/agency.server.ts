@@ -24,6 +24,7 @@ function auditedValues(settings: AuditedSettings): AuditedSettings {
     recordsOfficeCloses: settings.recordsOfficeCloses,
     recordsClosureDays: settings.recordsClosureDays,
     recordsWithholdingRule: settings.recordsWithholdingRule,
+    releaseAlertsToChief: settings.releaseAlertsToChief,
   };
 }
 
@@ -63,6 +64,7 @@ export async function saveAgencySettings(
       records_office_closes: input.recordsOfficeCloses,
       records_closure_days: input.recordsClosureDays.join("\n"),
       records_withholding_rule: input.recordsWithholdingRule,
+      release_alerts_to_chief: input.releaseAlertsToChief,
     };
     const afterValues = auditedValues({
       ...input,

@@ -10,7 +10,13 @@ import {
   type PfasUse,
   type SubstanceContent,
 } from "~/lib/foam/pfas";
-import { releasedGallonsSql, shareNotContained } from "~/lib/foam/released-volume";
+import {
+  reachedEnvironment,
+  reachedEnvironmentSql,
+  releasedGallonsSql,
+  unaccountedGallonsSql,
+  shareNotContained,
+} from "~/lib/foam/released-volume";
 import {
   DISPOSITION_LABELS,
   DISPOSITIONS,
@@ -18,6 +24,7 @@ import {
   EVENT_KINDS,
   EVENT_STATUS_LABELS,
   FLOW_BASIS_EXPORT_LABELS,
+  FLOW_UNIT_LABELS,
   FOAM_TYPE_LABELS,
   foamClassLabel,
   isPfasContentUnit,
@@ -31,6 +38,7 @@ import {
   type FlowBasis,
   type FoamType,
 } from "~/lib/foam/vocabulary";
+import type { FlowUnit } from "~/lib/foam/units";
 import type { ReportPeriod } from "~/lib/reporting/period";
 import { wallClockIn } from "~/lib/time-zone";
 import { agencyNameForDocuments, readAgencySettings } from "./agency-settings.server";
@@ -75,6 +83,12 @@ export type PeriodAggregates = {
   byClass: ClassTotals[];
   byProduct: ProductTotals[];
   byDisposition: Record<Disposition, number>;
+  /** Foam solution released to the environment (soil, storm drain, surface water, unknown, sewer without notice). */
+  environmentGallons: number;
+  /** Foam solution held back: contained and collected, or sent to the sewer with a notice. */
+  heldBackGallons: number;
+  /** Foam solution that no runoff line accounts for, summed over the events (`unaccountedGallons`). */
+  unaccountedGallons: number;
   byBasinAndWater: { basin: string; receivingWater: string; gallons: number }[];
   eventTotals: VolumeTotals;
 };
@@ -143,6 +157,16 @@ export async function periodAggregates(period: ReportPeriod, connection: Db = db
   const byDisposition = Object.fromEntries(DISPOSITIONS.map((d) => [d, 0])) as Record<Disposition, number>;
   for (const row of dispositionRows) byDisposition[row.disposition as Disposition] = num(row.gallons);
   const releaseCount = dispositionRows.reduce((sum, row) => sum + num(row.n), 0);
+  const environmentRow: SqlRow | undefined = await countedEvents(period, connection)
+    .join("runoff_dispositions as r", "r.event_id", "e.id")
+    .select(
+      connection.raw(`SUM(CASE WHEN ${reachedEnvironmentSql("r")} THEN ${RELEASED_GAL} ELSE 0 END) AS environment`),
+      connection.raw(`SUM(CASE WHEN ${reachedEnvironmentSql("r")} THEN 0 ELSE ${RELEASED_GAL} END) AS held_back`),
+    )
+    .first();
+  const unaccountedRow: SqlRow | undefined = await countedEvents(period, connection)
+    .select(connection.raw(`SUM(${unaccountedGallonsSql("e")}) AS unaccounted`))
+    .first();
 
   const basinRows: SqlRow[] = await countedEvents(period, connection)
     .join("runoff_dispositions as r", "r.event_id", "e.id")
@@ -163,6 +187,9 @@ export async function periodAggregates(period: ReportPeriod, connection: Db = db
     byClass,
     byProduct,
     byDisposition,
+    environmentGallons: num(environmentRow?.environment),
+    heldBackGallons: num(environmentRow?.held_back),
+    unaccountedGallons: num(unaccountedRow?.unaccounted),
     byBasinAndWater: basinRows.map((row) => ({
       basin: row.basin,
       receivingWater: row.receiving_water,
@@ -196,6 +223,10 @@ export type EventExportRow = {
   solution: number;
   pfasContaining: string;
   hasWarnings: string;
+  /** Warnings about the event as a whole (e.g. a tank drawdown that does not match), in words. */
+  eventWarnings: string;
+  /** Foam solution no runoff line accounts for (US gal). */
+  unaccountedGallons: number;
 };
 
 const yesNo = (value: unknown): string => (value === null || value === undefined ? "" : Number(value) ? "Yes" : "No");
@@ -225,6 +256,8 @@ export async function* streamEventRows(period: ReportPeriod, connection: Db = db
       "e.solution_gal",
       "e.pfas_containing",
       "e.has_warnings",
+      "e.event_warnings",
+      connection.raw(`${unaccountedGallonsSql("e")} AS unaccounted_gal`),
     )
     .orderBy(["e.started_at", "e.id"]);
   for await (const row of query.stream()) {
@@ -248,6 +281,8 @@ export async function* streamEventRows(period: ReportPeriod, connection: Db = db
       solution: num(row.solution_gal),
       pfasContaining: yesNo(row.pfas_containing),
       hasWarnings: yesNo(row.has_warnings),
+      eventWarnings: warningText(row.event_warnings),
+      unaccountedGallons: num(row.unaccounted_gal),
     };
   }
 }
@@ -329,7 +364,7 @@ export async function* streamDischargeRows(
       percent: numOrNull(row.percent),
       effectivePercent: numOrNull(row.effective_percent),
       flow: numOrNull(row.flow),
-      flowUnit: row.flow_unit,
+      flowUnit: FLOW_UNIT_LABELS[row.flow_unit as FlowUnit] ?? row.flow_unit,
       flowBasis: FLOW_BASIS_EXPORT_LABELS[row.flow_basis as FlowBasis],
       minutes: numOrNull(row.minutes),
       water: num(row.water_gal),
@@ -353,6 +388,8 @@ export type ReleaseExportRow = {
   nearestWaterway: string;
   disposalReference: string;
   sewerNotice: string;
+  /** "Yes" when the line reached the environment (`reachedEnvironment`), else "No". */
+  reachedEnvironment: string;
   notes: string;
   /** Notifications recorded for the event (who, when in UTC, case number); empty when none. */
   notifications: string;
@@ -395,6 +432,7 @@ export async function* streamReleaseRows(period: ReportPeriod, connection: Db = 
       nearestWaterway: row.nearest_waterway ?? "",
       disposalReference: row.disposal_reference ?? "",
       sewerNotice: row.sewer_notice ?? "",
+      reachedEnvironment: reachedEnvironment(row.disposition as Disposition, row.sewer_notice) ? "Yes" : "No",
       notes: row.notes ?? "",
       notifications: notificationsText(row.notifications),
     };
@@ -589,7 +627,7 @@ export async function pfasRows(period: ReportPeriod, thresholdLb: number, connec
         (other, otherIndex) =>
           other.status !== "accepted" && Math.abs(uses[otherIndex].at.getTime() - use.at.getTime()) < day,
       )
-      .map((other) => `${other.number} (${String(other.status)})`);
+      .map((other) => `${other.number} (${EVENT_STATUS_LABELS[other.status as EventStatus] ?? String(other.status)})`);
     result.push({
       eventId: row.id,
       eventNumber: row.number,
@@ -655,7 +693,7 @@ export async function eventsChangedSince(
         number: row.number,
         revision: Number(row.revision),
         changedAt: row.updated_at,
-        reason: `Record changed after submission (now ${row.status})`,
+        reason: `Record changed after submission (now ${EVENT_STATUS_LABELS[row.status as EventStatus] ?? String(row.status)})`,
       })),
   ];
 }

@@ -3,7 +3,7 @@ import type { ReportRecord } from "~/lib/access";
 import type { SessionUser } from "~/lib/auth.server";
 import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
-import { releasedGallons } from "~/lib/foam/released-volume";
+import { releasedGallons, unaccountedGallons } from "~/lib/foam/released-volume";
 import type { UsageWarning } from "~/lib/foam/totals";
 import { roundForDisplay, volumeFromGallons, type Volume } from "~/lib/foam/units";
 import {
@@ -179,6 +179,14 @@ function reportDetailOf({ event, discharges, dispositions, tankReadings }: Repor
         sewerNotice: row.sewer_notice as string,
       };
     }),
+    unaccountedGal: unaccountedGallons(
+      dispositions.map((row) => ({
+        disposition: row.disposition as Disposition,
+        sharePercent: decimalOrNull(row.share_percent),
+        volumeGal: decimalOrNull(row.volume_gal),
+      })),
+      solutionGal,
+    ),
     tankReadings: tankReadings.map((row) => ({
       apparatusId: (row.apparatus_id as number | null) ?? null,
       apparatus: (row.apparatus_unit_id as string | null) ?? null,

@@ -47,7 +47,7 @@ function storedDischarges(lines: DischargeLine[], timeZone: string): ReportDisch
     flowUnit: line.flowUnit,
     basis: line.basis,
     percentOf: line.percentOf ?? null,
-    minutes: lineMinutes(line),
+    minutes: lineMinutes(line, timeZone),
     startedAt: wallClockToInstant(line.startedAt, timeZone),
     endedAt: wallClockToInstant(line.endedAt, timeZone),
     method: line.method ?? null,
@@ -71,7 +71,11 @@ function storedTankReadings(lines: TankReadingLine[] = []): ReportTankReading[] 
 /** The server's computation for a set of discharge inputs, with the catalogue facts they name. */
 export async function computeForInputs(
   inputs: DischargeInput[],
-  options: { tankReadings?: TankReading[]; eventWindow?: { start: Date | null; end: Date | null } } = {},
+  options: {
+    tankReadings?: TankReading[];
+    eventWindow?: { start: Date | null; end: Date | null };
+    eventKind?: EventKind;
+  } = {},
   connection: Db = db,
 ): Promise<UsageResult> {
   const [products, apparatus, settings] = await Promise.all([
@@ -94,6 +98,7 @@ export async function computeForInputs(
     eventWindow: options.eventWindow,
     tankReadings: options.tankReadings,
     drawdownTolerance: settings.drawdownToleranceShare,
+    eventKind: options.eventKind,
   });
 }
 
@@ -346,6 +351,7 @@ async function loadReport(trx: Knex.Transaction, request: SaveRequest): Promise<
     {
       tankReadings: tankReadingInputs(stored.tankReadings),
       eventWindow: { start: columns.started_at, end: columns.cleared_at },
+      eventKind: columns.kind,
     },
     trx,
   );

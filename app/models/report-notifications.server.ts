@@ -4,10 +4,17 @@ import { recordAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { gramsToPoundsMass, pfasGrams } from "~/lib/foam/pfas";
-import { containedGallons, releasedGallons, shareNotContained, type RunoffLine } from "~/lib/foam/released-volume";
+import {
+  containedGallons,
+  releasedGallons,
+  shareNotContained,
+  unaccountedGallons,
+  type RunoffLine,
+} from "~/lib/foam/released-volume";
 import { gallonsToLitres } from "~/lib/foam/units";
 import {
   DISPOSITION_LABELS,
+  UNACCOUNTED_LABEL,
   DISPOSITIONS_TO_WATER,
   EVENT_KIND_LABELS,
   isPfasContentUnit,
@@ -32,6 +39,14 @@ async function environmentalOfficerEmails(trx: Knex.Transaction): Promise<string
     .join("user_roles", "user_roles.user_id", "users.id")
     .whereIn("user_roles.role", rolesFor("alerts.release"))
     .where({ "users.active": true })
+    .pluck("users.email");
+}
+
+/** Every active chief, for release alerts when the agency's setting says so. */
+async function chiefEmails(trx: Knex.Transaction): Promise<string[]> {
+  return trx("users")
+    .join("user_roles", "user_roles.user_id", "users.id")
+    .where({ "user_roles.role": "chief", "users.active": true })
     .pluck("users.email");
 }
 
@@ -74,7 +89,13 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
   if (pfasLines.length === 0 && toWater.length === 0) return;
 
   const agency = await readAgencySettings(trx);
-  const recipients = [...agency.releaseAlertRecipients, ...(await environmentalOfficerEmails(trx))];
+  const recipients = [
+    ...new Set([
+      ...agency.releaseAlertRecipients,
+      ...(await environmentalOfficerEmails(trx)),
+      ...(agency.releaseAlertsToChief ? await chiefEmails(trx) : []),
+    ]),
+  ];
   const notContained = shareNotContained(containedGallons(dispositions, solution), solution);
 
   const lines: string[] = [
@@ -148,6 +169,11 @@ export async function queueFiledReportAlerts(eventId: number, trx: Knex.Transact
           `${row.sewerNotice ? `; notice ${row.sewerNotice}` : ""}`,
       );
     }
+  }
+  const unaccounted = unaccountedGallons(dispositions, solution);
+  if (unaccounted > 0) {
+    if (dispositions.length > 0) lines.push(`- ${UNACCOUNTED_LABEL}: ${galAndLitres(unaccounted)}`);
+    else lines.push("", `${UNACCOUNTED_LABEL}: ${galAndLitres(unaccounted)}`);
   }
   lines.push(
     "",

@@ -70,6 +70,7 @@ export function usageOf(spec: EventSpec, facts: CatalogueFacts): UsageResult {
     eventWindow: { start: spec.startedAt, end: spec.clearedAt },
     tankReadings: tankReadingInputs(spec.tankReadings),
     drawdownTolerance: facts.drawdownTolerance,
+    eventKind: spec.kind,
   });
 }
 

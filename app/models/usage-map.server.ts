@@ -238,9 +238,12 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
       "s.name as station_name",
     );
   const ids = filteredEvents(filters).select("e.id");
+  // With a foam-class filter, only that class's concentrate counts: an event that flowed Class A and
+  // Class B is shown under "Class B" with its Class B concentrate, not its Class A as well.
+  const ofClass = (query: Knex.QueryBuilder) =>
+    filters.foamClass ? query.where("p.foam_class", filters.foamClass) : query;
   const [products, classByEvent, dispositions] = await Promise.all([
-    db("discharges as d")
-      .join("foam_products as p", "p.id", "d.product_id")
+    ofClass(db("discharges as d").join("foam_products as p", "p.id", "d.product_id"))
       .whereIn("d.event_id", ids)
       .groupBy("p.id", "p.name", "p.foam_class", "p.pfas_containing")
       .orderBy("p.name")
@@ -253,8 +256,7 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
         db.raw("SUM(d.solution_gal) AS solution_gal"),
         db.raw("COUNT(DISTINCT d.event_id) AS events"),
       ),
-    db("discharges as d")
-      .join("foam_products as p", "p.id", "d.product_id")
+    ofClass(db("discharges as d").join("foam_products as p", "p.id", "d.product_id"))
       .whereIn("d.event_id", ids)
       .groupBy("d.event_id", "p.foam_class")
       .select("d.event_id", "p.foam_class", db.raw("SUM(d.concentrate_gal) AS concentrate_gal")),
@@ -274,7 +276,12 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
   const basins = new Map<string | null, Totals>();
   const stations = new Map<string | null, Totals & { name: string | null }>();
   const startedAt = new Map<number, Date | null>();
-  for (const row of events) {
+  const classConcentrate = new Map<number, number>();
+  for (const row of classByEvent) {
+    classConcentrate.set(row.event_id, (classConcentrate.get(row.event_id) ?? 0) + decimalOrZero(row.concentrate_gal));
+  }
+  for (const stored of events) {
+    const row = filters.foamClass ? { ...stored, concentrate_gal: classConcentrate.get(stored.id) ?? 0 } : stored;
     add(totals, row);
     if (row.pfas_containing) {
       totals.pfasEvents += 1;

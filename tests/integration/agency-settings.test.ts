@@ -50,6 +50,7 @@ async function validForm(overrides: Record<string, string> = {}): Promise<Record
     recordsOfficeCloses: "17:00",
     recordsClosureDays: "",
     recordsWithholdingRule: "the exemptions of the State Public Records Act (test)",
+    releaseAlertsToChief: "on",
     ...overrides,
   };
 }
@@ -256,6 +257,17 @@ describe("agency settings page", () => {
 
     expect((await post(admin, await validForm({ waterwayBufferM: "91.44" }))).status).toBe(302);
     expect(Boolean((await db("events").where({ id: eventId }).first()).within_waterway_buffer)).toBe(false);
+  });
+
+  it("keeps the chief among release-alert recipients while ticked and drops them when not (issue 10 §2)", async () => {
+    const ticked = await post(admin, await validForm());
+    expect(ticked.status).toBe(302);
+    expect((await readAgencySettings()).releaseAlertsToChief).toBe(true);
+    const form = await validForm();
+    delete (form as Record<string, string | undefined>).releaseAlertsToChief;
+    expect((await post(admin, form)).status).toBe(302);
+    expect((await readAgencySettings()).releaseAlertsToChief).toBe(false);
+    expect((await post(admin, await validForm())).status).toBe(302);
   });
 
   it("a save with nothing changed writes nothing", async () => {

@@ -118,6 +118,54 @@ describe("release alerts and notices by e-mail", () => {
     expect(row.text_body).toMatch(/Reportable quantity reached: UNKNOWN/);
   });
 
+  it("names the foam solution no runoff line accounts for (issue 10 §4: runoff that does not add up)", async () => {
+    const officer = await makeUser(["officer"], "Short Runoff Officer");
+    const product = await makeProduct({ foamClass: "B", foamType: "afff", pfasContaining: true });
+    // 970 gal water + 30 gal concentrate = 1,000 gal of solution; 300 contained + 20 % (200) to a
+    // storm drain leaves 500 gal unaccounted (1,892.7 L at 3.785411784 L per US gal).
+    const event = await makeEvent({
+      createdBy: officer.id,
+      status: "filed",
+      startedAt: new Date("2032-03-06T15:00:00Z"),
+      discharges: [{ productId: product.id, percent: 3, water: 970, concentrate: 30 }],
+      dispositions: [
+        { disposition: "contained", volumeGal: 300, disposalReference: "Drum M-1" },
+        { disposition: "storm_drain", sharePercent: 20, receivingWater: "Mail Creek" },
+      ],
+      pfasContaining: true,
+    });
+    await db.transaction((trx) => queueFiledReportAlerts(event.id, trx));
+    const row = await db("mail_outbox").where({ event_id: event.id, kind: "release_alert" }).first();
+    expect(row.text_body).toMatch(/^- Unaccounted \(no runoff line says where it went\): 500 US gal \(1,892\.7 L\)$/m);
+  });
+
+  it("sends the release alert to the chief as well while the setting says so (issue 10 §2)", async () => {
+    const officer = await makeUser(["officer"], "Chief Alert Officer");
+    const chief = await makeUser(["chief"], "Alerted Chief");
+    const product = await makeProduct({ foamClass: "B", foamType: "afff", pfasContaining: true });
+    const alertFor = async (startedAt: string) => {
+      const event = await makeEvent({
+        createdBy: officer.id,
+        status: "filed",
+        startedAt: new Date(startedAt),
+        discharges: [{ productId: product.id, percent: 3, water: 97, concentrate: 3 }],
+        dispositions: [{ disposition: "soil", sharePercent: 100 }],
+        pfasContaining: true,
+      });
+      await db.transaction((trx) => queueFiledReportAlerts(event.id, trx));
+      const row = await db("mail_outbox").where({ event_id: event.id, kind: "release_alert" }).first();
+      return String(row.to_addresses);
+    };
+    await db("agency_settings").where({ id: 1 }).update({ release_alerts_to_chief: true });
+    expect(await alertFor("2032-03-07T15:00:00Z")).toContain(chief.email);
+    await db("agency_settings").where({ id: 1 }).update({ release_alerts_to_chief: false });
+    try {
+      expect(await alertFor("2032-03-08T15:00:00Z")).not.toContain(chief.email);
+    } finally {
+      await db("agency_settings").where({ id: 1 }).update({ release_alerts_to_chief: true });
+    }
+  });
+
   it("sends nothing for a report without PFAS foam whose runoff was contained", async () => {
     const officer = await makeUser(["officer"]);
     const classA = await makeProduct({ foamClass: "A" });

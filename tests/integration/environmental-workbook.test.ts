@@ -7,6 +7,18 @@ import { db } from "~/lib/db.server";
 import { GRAMS_PER_POUND, LITRES_PER_US_GALLON } from "~/lib/foam/units";
 import { parseReportPeriod, type ReportPeriod } from "~/lib/reporting/period";
 import { writeEnvironmentalWorkbook } from "~/exports/environmental-workbook.server";
+import { writeEnvironmentalCsvZip } from "~/exports/environmental-csv.server";
+import {
+  DISPOSITIONS,
+  EVENT_KINDS,
+  EVENT_STATUSES,
+  FIGURE_BASIS_LABELS,
+  FOAM_TYPES,
+  HELD_BACK_LABEL,
+  PFAS_CONTENT_UNITS,
+  RELEASED_TO_ENVIRONMENT_LABEL,
+  UNACCOUNTED_LABEL,
+} from "~/lib/foam/vocabulary";
 import { makeUser } from "../support/factories";
 import { ensureAgency, makeApparatus, makeEvent, makeProduct, makeStation } from "../support/usage-fixtures";
 
@@ -46,6 +58,7 @@ let dir: string;
 let pfasProductName: string;
 let stormEventNumber: string;
 let boundaryFiledNumber: string;
+let shortRunoffNumber: string;
 
 beforeAll(async () => {
   dir = mkdtempSync(path.join(tmpdir(), "foamtally-workbook-"));
@@ -68,7 +81,8 @@ beforeAll(async () => {
     pfosContent: 10,
     pfosContentUnit: "g_per_l",
     pfasContentBasis: "perfluoroalkyl sulfonates",
-    pfasContentSource: "middle of 5–15 g/L for legacy PFOS AFFF (an old product safety sheet)",
+    // A raw catalogue note of the kind the workbook must not repeat to a regulator.
+    pfasContentSource: "middle of 5–15 g/L for legacy PFOS AFFF (an old product safety sheet, from memory)",
   });
   pfasProductName = legacy.name;
   // A PFAS-containing product whose PFOA and PFOS content nobody knows.
@@ -101,6 +115,19 @@ beforeAll(async () => {
       pfasContaining: true,
     })
   ).number;
+  // 2035 Q1: runoff lines short of the solution. 970 + 30 = 1,000 gal of solution; 300 gal contained
+  // and 20 % (200 gal) to soil leave 500 gal unaccounted.
+  shortRunoffNumber = (
+    await makeEvent({
+      createdBy: officer.id,
+      startedAt: new Date("2035-02-01T15:00:00Z"),
+      discharges: [{ productId: fluorineFree.id, percent: 3, water: 970, concentrate: 30 }],
+      dispositions: [
+        { disposition: "contained", volumeGal: 300, disposalReference: "Drum T-11" },
+        { disposition: "soil", sharePercent: 20 },
+      ],
+    })
+  ).number;
   // 2031 Q2 in Chicago: 2031-04-01T05:00Z up to 2031-07-01T05:00Z. Test years keep clear of other tests' rows.
   const storm = await makeEvent({
     createdBy: officer.id,
@@ -128,6 +155,13 @@ beforeAll(async () => {
     pfasContaining: true,
   });
   stormEventNumber = storm.number;
+  await db("events")
+    .where({ id: storm.id })
+    .update({
+      event_warnings: JSON.stringify([
+        { code: "drawdown_mismatch", message: "Tank drawdown of 120 gal is more than the 93 gal computed." },
+      ]),
+    });
   await makeEvent({
     createdBy: officer.id,
     kind: "training",
@@ -321,7 +355,7 @@ describe("the quarterly environmental workbook", () => {
     expect(rows[0]["PFOS reaching a surface, gross (lb)"]).toBeCloseTo((7.19 * 3.785411784 * 10) / 453.59237, 9);
     expect(rows[0]["Heaviest 24 h holding this use, PFOA or PFOS, gross (lb)"]).toBeGreaterThan(1.2);
     expect(rows[0]["Reportable quantity reached"]).toBe("Yes");
-    expect(rows[0]["Reports not yet accepted in the 24 h"]).toBe(`${boundaryFiledNumber} (filed)`);
+    expect(rows[0]["Reports not yet accepted in the 24 h"]).toBe(`${boundaryFiledNumber} (Filed)`);
     // Contained runoff is never "released": its net mass is 0.
     expect(rows[0]["PFOS not recovered, net (lb)"]).toBe(0);
     const q1 = rowsOf((await build(quarter(2032, 1), "q1-boundary.xlsx")).book, "PFAS");
@@ -337,5 +371,121 @@ describe("the quarterly environmental workbook", () => {
     expect(XLSX.utils.sheet_to_json<string[]>(book.Sheets.Discharges, { header: 1 })[1]).toEqual([
       "No discharges in this period.",
     ]);
+  });
+
+  describe("speaks to a regulator in trade words (issue 10 §4, corrections found in review)", () => {
+    // Stored codes that are ordinary words in prose ("training", "contained") are refused as whole
+    // cells, statuses also in parentheses; codes no sentence uses ("storm_drain", "ar-afff", "f3")
+    // anywhere. "gpm" is the trade label itself (FLOW_UNIT_LABELS); "lpm" is not.
+    const allCodes = [...EVENT_KINDS, ...EVENT_STATUSES, ...DISPOSITIONS, ...FOAM_TYPES, ...PFAS_CONTENT_UNITS, "lpm"];
+    const codeWords = allCodes.filter((code) => /[_\-0-9]/.test(code));
+    const proseWords = allCodes.filter((code) => !codeWords.includes(code));
+    const cellsOf = (book: XLSX.WorkBook) =>
+      book.SheetNames.flatMap((name) =>
+        XLSX.utils
+          .sheet_to_json<unknown[]>(book.Sheets[name], { header: 1 })
+          .flat()
+          .filter((cell): cell is string => typeof cell === "string")
+          .map((text) => ({ name, text })),
+      );
+    const offending = (cells: { name: string; text: string }[]) =>
+      cells.filter(
+        ({ text }) =>
+          /from memory/i.test(text) ||
+          proseWords.some((word) => text === word) ||
+          EVENT_STATUSES.some((status) => text.includes(`(${status})`)) ||
+          codeWords.some((code) => new RegExp(`(^|[^A-Za-z0-9_-])${code}($|[^A-Za-z0-9_-])`).test(text)),
+      );
+
+    it("has no internal code and no “from memory” note in any sheet, and a short Basis instead", async () => {
+      const { book } = await build(quarter(2031, 2), "q2-words.xlsx");
+      expect(offending(cellsOf(book))).toEqual([]);
+      const pfas = rowsOf(book, "PFAS");
+      expect(pfas.length).toBeGreaterThan(0);
+      expect(pfas.map((row) => row["Basis of the content figure"])).toContain(FIGURE_BASIS_LABELS.estimate);
+      expect(rowsOf(book, "Discharges").map((row) => row["Flow unit (gpm or L/min)"])).toContain("gpm");
+    });
+
+    it("sums releases to the environment apart from runoff held back, line by line", async () => {
+      const { book } = await build(quarter(2031, 2), "q2-environment.xlsx");
+      const releases = rowsOf(book, "Releases");
+      const flag = (where: string) =>
+        releases
+          .filter((row) => row["Where the runoff went"] === where)
+          .map((row) => row["Released to the environment"]);
+      expect(flag("To a storm drain")).toEqual(["Yes"]);
+      expect(flag("Contained and collected")).toEqual(["No", "No"]);
+      // Sent to the sewer with a notice to the treatment works: held back.
+      expect(flag("To the sanitary sewer")).toEqual(["No"]);
+      // 60 % of 4,003 gal to the storm drain; 40 % of 4,003 + 515 contained + 10 to the sewer with notice.
+      const released = summaryRow(book, RELEASED_TO_ENVIRONMENT_LABEL);
+      expect(released.value("C")).toBeCloseTo(0.6 * 4003, 6);
+      expect(released.formula("C")).toContain("SUMIFS(Releases!");
+      expect(summaryRow(book, HELD_BACK_LABEL).value("C")).toBeCloseTo(0.4 * 4003 + 515 + 10, 6);
+    });
+
+    it("puts the event's own warnings in their own column", async () => {
+      const { book } = await build(quarter(2031, 2), "q2-warnings.xlsx");
+      const storm = rowsOf(book, "Events").find((row) => row["Event number"] === stormEventNumber);
+      expect(storm?.["Event warnings"]).toBe("Tank drawdown of 120 gal is more than the 93 gal computed.");
+    });
+
+    it("writes the CSV tables in the same words, litres to the tenth", async () => {
+      const file = path.join(dir, "q2.zip");
+      await writeEnvironmentalCsvZip(
+        { period: quarter(2031, 2), generatedBy: { name: "Workbook Tester", email: "tester@test.example" } },
+        file,
+      );
+      const zip = XLSX.CFB.read(readFileSync(file), { type: "buffer" });
+      const cells: { name: string; text: string }[] = [];
+      let litreValues = 0;
+      for (const name of [
+        "summary.csv",
+        "events.csv",
+        "discharges.csv",
+        "releases.csv",
+        "non_incident_use.csv",
+        "pfas.csv",
+      ]) {
+        const text = Buffer.from(XLSX.CFB.find(zip, name)?.content as Uint8Array).toString("utf8");
+        const rows = XLSX.utils.sheet_to_json<unknown[]>(
+          XLSX.read(text.slice(1), { type: "string", raw: true }).Sheets.Sheet1,
+          {
+            header: 1,
+            raw: false,
+          },
+        );
+        const header = (rows[0] ?? []) as string[];
+        for (const row of rows.slice(1)) {
+          row.forEach((cell, index) => {
+            if (typeof cell === "string") cells.push({ name, text: cell });
+            if (/\(L\)$/.test(String(header[index])) && cell !== undefined && cell !== "") {
+              litreValues++;
+              expect(String(cell)).toMatch(/^-?\d+(\.\d)?$/);
+            }
+          });
+        }
+      }
+      expect(litreValues).toBeGreaterThan(0);
+      expect(offending(cells)).toEqual([]);
+    });
+  });
+
+  it("carries runoff that does not add up as an unaccounted line (issue 10 §4)", async () => {
+    const { book } = await build(quarter(2035, 1), "q1-unaccounted.xlsx");
+    const event = rowsOf(book, "Events").find((row) => row["Event number"] === shortRunoffNumber);
+    expect(event?.["Foam solution unaccounted for by the runoff lines (US gal)"]).toBeCloseTo(500, 6);
+    const summary = summaryRow(book, UNACCOUNTED_LABEL);
+    expect(summary.value("C")).toBeCloseTo(500, 6);
+    expect(summary.formula("C")).toMatch(/^SUM\(Events!/);
+    expect(summary.value("D")).toBeCloseTo(500 * LITRES_PER_US_GALLON, 6);
+  });
+
+  it("labels the waterway buffer as the aerial-application guideline it is (issue 10 §4; USDA Forest Service)", async () => {
+    const { book } = await build(quarter(2035, 1), "q1-method.xlsx");
+    const method = XLSX.utils.sheet_to_json<string[]>(book.Sheets["Method and cautions"], { header: 1 });
+    const buffer = method.find((row) => row[0] === "Waterway buffer");
+    expect(buffer?.[1]).toContain("USDA Forest Service guideline for aerial application");
+    expect(buffer?.[1]).toContain("ground use has no fixed distance");
   });
 });

@@ -39,3 +39,50 @@ export function containedGallons(lines: readonly RunoffLine[], solutionGal: numb
 export function releasedGallonsSql(runoff: string, event: string): string {
   return `COALESCE(${runoff}.volume_gal, ${runoff}.share_percent / 100 * ${event}.solution_gal, 0)`;
 }
+
+/**
+ * Dispositions that put foam solution into the environment: soil, a storm drain, surface water, and
+ * "evaporated or unknown" (one stored value, so an unknown fate counts as released: the conservative
+ * reading, common practice, no source). Contained and collected runoff, and runoff sent to the
+ * sanitary sewer with a notice to the treatment works, are held back; sewer runoff with no notice
+ * recorded counts as released.
+ */
+export const ENVIRONMENT_DISPOSITIONS: readonly Disposition[] = [
+  "soil",
+  "storm_drain",
+  "surface_water",
+  "evaporated_unknown",
+];
+
+/** Whether one runoff line reached the environment (see `ENVIRONMENT_DISPOSITIONS`). */
+export function reachedEnvironment(disposition: Disposition, sewerNotice: string | null | undefined): boolean {
+  if (disposition === "sanitary_sewer") return !sewerNotice?.trim();
+  return ENVIRONMENT_DISPOSITIONS.includes(disposition);
+}
+
+/** `reachedEnvironment` as a MariaDB condition over a runoff row alias. */
+export function reachedEnvironmentSql(runoff: string): string {
+  const codes = ENVIRONMENT_DISPOSITIONS.map((code) => `'${code}'`).join(", ");
+  return `(${runoff}.disposition IN (${codes}) OR (${runoff}.disposition = 'sanitary_sewer' AND TRIM(COALESCE(${runoff}.sewer_notice, '')) = ''))`;
+}
+
+/** Differences smaller than this (US gal) are rounding of stated shares, not missing runoff. */
+export const UNACCOUNTED_TOLERANCE_GAL = 0.01;
+
+/**
+ * Foam solution that no runoff line accounts for: the event's solution less the lines' volumes, or
+ * 0 when they add up (within `UNACCOUNTED_TOLERANCE_GAL`) or exceed it. With no lines at all, the
+ * whole solution is unaccounted. It counts as not contained in the PFAS figures (`shareNotContained`).
+ */
+export function unaccountedGallons(lines: readonly RunoffLine[], solutionGal: number): number {
+  if (solutionGal <= 0) return 0;
+  const stated = lines.reduce((total, line) => total + releasedGallons(line, solutionGal), 0);
+  const rest = solutionGal - stated;
+  return rest > UNACCOUNTED_TOLERANCE_GAL ? rest : 0;
+}
+
+/** `unaccountedGallons` as a MariaDB expression over an event row alias. */
+export function unaccountedGallonsSql(event: string): string {
+  const stated = `COALESCE((SELECT SUM(${releasedGallonsSql("ru", event)}) FROM runoff_dispositions ru WHERE ru.event_id = ${event}.id), 0)`;
+  return `CASE WHEN ${event}.solution_gal - ${stated} > ${UNACCOUNTED_TOLERANCE_GAL} THEN ${event}.solution_gal - ${stated} ELSE 0 END`;
+}

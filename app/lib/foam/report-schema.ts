@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { wallClockToInstant } from "../time-zone";
 import { FLOW_UNITS } from "./units";
 import { APPLICATION_METHODS, DISPOSITIONS, EVENT_KINDS, FLOW_BASES, PERCENT_OF } from "./vocabulary";
 
@@ -71,9 +72,20 @@ const localDateTime = (label: string) =>
     .refine((value) => !Number.isNaN(Date.parse(`${value}Z`)), `Enter a real date and time for the ${label}.`)
     .optional();
 
-/** Minutes between two local date-times typed in the form, or null. */
-export function minutesBetween(start?: string, end?: string): number | null {
+/**
+ * Minutes between two local date-times typed in the form, or null. With the agency's time zone they
+ * are turned into instants first, so a span across a daylight-saving change is what the clock on the
+ * wall did not show: 01:30 → 03:10 on 8 March 2026 in America/Chicago is 40 minutes, as clocks jumped
+ * from 02:00 CST to 03:00 CDT (the IANA time-zone database's rule for America/Chicago, 15 U.S.C. 260a).
+ * Without a zone the two are read as UTC, which is right everywhere but across such a change.
+ */
+export function minutesBetween(start?: string, end?: string, timeZone?: string): number | null {
   if (!start || !end) return null;
+  if (timeZone) {
+    const from = wallClockToInstant(start, timeZone);
+    const to = wallClockToInstant(end, timeZone);
+    if (from && to) return (to.getTime() - from.getTime()) / 60_000;
+  }
   return (Date.parse(`${end}Z`) - Date.parse(`${start}Z`)) / 60_000;
 }
 
@@ -111,9 +123,9 @@ export const DischargeLineSchema = z
 
 export type DischargeLine = z.infer<typeof DischargeLineSchema>;
 
-/** The duration of a line: minutes as typed, or the span of its start and end times. */
-export function lineMinutes(line: Pick<DischargeLine, "minutes" | "startedAt" | "endedAt">): number {
-  return line.minutes ?? minutesBetween(line.startedAt, line.endedAt) ?? 0;
+/** The duration of a line: minutes as typed, or the span of its start and end times in `timeZone`. */
+export function lineMinutes(line: Pick<DischargeLine, "minutes" | "startedAt" | "endedAt">, timeZone?: string): number {
+  return line.minutes ?? minutesBetween(line.startedAt, line.endedAt, timeZone) ?? 0;
 }
 
 export const DispositionLineSchema = z

@@ -4,6 +4,7 @@ import {
   defaultPercentOf,
   FOAM_CLASS_LABELS,
   PERCENT_OF_LABELS,
+  type EventKind,
   type FlowBasis,
   type FoamClass,
   type PercentOf,
@@ -25,6 +26,18 @@ export type DischargeInput = {
   startedAt?: Date | null;
   endedAt?: Date | null;
 };
+
+/**
+ * Typed minutes may differ from the start and end times by the rounding of a clock read to the
+ * minute; more than this is a disagreement worth a warning (common practice, no source).
+ */
+export const DURATION_TOLERANCE_MINUTES = 1;
+
+/** Minutes between two instants (so a daylight-saving change is counted as it happened), or null. */
+export function spanMinutes(start?: Date | null, end?: Date | null): number | null {
+  if (!start || !end) return null;
+  return (end.getTime() - start.getTime()) / 60_000;
+}
 
 export type ProductFacts = {
   id: number;
@@ -57,6 +70,8 @@ export type WarningCode =
   | "proportioner_limit"
   | "flow_out_of_range"
   | "outside_event_window"
+  | "duration_mismatch"
+  | "pfas_non_incident_use"
   | "drawdown_mismatch";
 
 export type UsageWarning = { code: WarningCode; message: string; field?: string };
@@ -93,7 +108,26 @@ export type UsageContext = {
   tankReadings?: TankReading[];
   /** Largest share by which computed concentrate may differ from the tank drawdown before a warning. */
   drawdownTolerance?: number;
+  /** The kind of event: PFAS-containing foam outside an incident is warned about. */
+  eventKind?: EventKind;
 };
+
+/**
+ * Several states ban PFAS-containing Class B foam for training and testing: Colorado, C.R.S.
+ * 24-33.5-1234; California, Health & Safety Code §13062(a) (docs reference values).
+ */
+export const PFAS_NON_INCIDENT_WARNING =
+  "PFAS-containing foam was used for training, a test or a flush. Several states ban PFAS Class B foam for such use (Colorado, C.R.S. 24-33.5-1234; California, for training, Health & Safety Code §13062); use a fluorine-free concentrate or water.";
+
+/** The warning for PFAS-containing foam flowed outside an incident, or none. */
+export function pfasNonIncidentWarnings(
+  eventKind: EventKind | undefined,
+  discharges: DischargeResult[],
+): UsageWarning[] {
+  if (!eventKind || eventKind === "incident") return [];
+  const used = discharges.some((result) => result.pfasContaining && result.concentrate.gal > 0);
+  return used ? [{ code: "pfas_non_incident_use", field: "kind", message: PFAS_NON_INCIDENT_WARNING }] : [];
+}
 
 /**
  * Class A: 0.1–1.0 % (fire-service training material; NFPA 1145 ranges, from memory).
@@ -247,6 +281,15 @@ export function computeDischarge(input: DischargeInput, context: UsageContext = 
     }
   }
 
+  const timed = spanMinutes(input.startedAt, input.endedAt);
+  if (timed !== null && Math.abs(input.minutes - timed) > DURATION_TOLERANCE_MINUTES) {
+    warnings.push({
+      code: "duration_mismatch",
+      field: "minutes",
+      message: `The duration of ${formatNumber(input.minutes)} min does not match the ${formatNumber(timed)} min between the start and end times; the typed minutes were used.`,
+    });
+  }
+
   return {
     water: volumeFromGallons(waterGal),
     concentrate: volumeFromGallons(concentrateGal),
@@ -307,7 +350,10 @@ export type UsageResult = {
 /** Water, concentrate and foam solution for every discharge of an event, with its groupings and warnings. */
 export function computeUsage(inputs: DischargeInput[], context: UsageContext = {}): UsageResult {
   const discharges = inputs.map((input) => computeDischarge(input, context));
-  const eventWarnings = drawdownWarnings(inputs, discharges, context);
+  const eventWarnings = [
+    ...drawdownWarnings(inputs, discharges, context),
+    ...pfasNonIncidentWarnings(context.eventKind, discharges),
+  ];
   return {
     discharges,
     totals: sumTotals(discharges),

@@ -268,3 +268,26 @@ export const RECORDS_REQUEST_CLOSED: readonly RecordsRequestStatus[] = [
   "withheld",
   "withdrawn",
 ];
+
+/**
+ * How well a catalogue figure is backed, in the short words the workbook gives a regulator in its
+ * "Basis" column; the catalogue keeps the full note of where the figure came from.
+ */
+export const FIGURE_BASES = ["measured", "safety_sheet", "published", "practice", "estimate", "not_recorded"] as const;
+export type FigureBasis = (typeof FIGURE_BASES)[number];
+export const FIGURE_BASIS_LABELS: Record<FigureBasis, string> = {
+  measured: "Laboratory result",
+  safety_sheet: "Product safety sheet",
+  published: "Published source",
+  practice: "Common practice, no published source",
+  estimate: "Estimate, not verified",
+  not_recorded: "Not recorded",
+};
+
+/** The two sums of runoff a regulator reads apart (see `reachedEnvironment` in released-volume.ts). */
+export const RELEASED_TO_ENVIRONMENT_LABEL =
+  "Released to the environment (soil, storm drain, surface water, unknown, sewer without notice)";
+export const HELD_BACK_LABEL = "Held back (contained and collected, sewer with notice to the treatment works)";
+
+/** The line for foam solution that no runoff line accounts for (`unaccountedGallons`). */
+export const UNACCOUNTED_LABEL = "Unaccounted (no runoff line says where it went)";
