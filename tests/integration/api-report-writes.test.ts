@@ -18,6 +18,7 @@ let stationId: number;
 let otherStationId: number;
 let engineId: number;
 let productId: number;
+let officerId: number;
 let officerAuth: Record<string, string>;
 let clerkAuth: Record<string, string>;
 
@@ -25,7 +26,7 @@ async function bearerFor(roles: Role[], name: string, stationId: number | null) 
   const user = await makeUser(roles, name, { stationId });
   const session = { id: user.id, roles, stationId, email: user.email, name: user.name, epoch: 0 } as SessionUser;
   const { token } = await createApiToken(session, "api writes");
-  return { Authorization: `Bearer ${token}` };
+  return { id: user.id, headers: { Authorization: `Bearer ${token}` } };
 }
 
 beforeAll(async () => {
@@ -34,8 +35,10 @@ beforeAll(async () => {
   otherStationId = (await makeStation()).id;
   engineId = (await makeApparatus(stationId)).id;
   productId = (await makeProduct({ foamClass: "A" })).id;
-  officerAuth = await bearerFor(["officer"], "Officer Api Writer", stationId);
-  clerkAuth = await bearerFor(["records"], "Clerk Api Writer", null);
+  const officer = await bearerFor(["officer"], "Officer Api Writer", stationId);
+  officerId = officer.id;
+  officerAuth = officer.headers;
+  clerkAuth = (await bearerFor(["records"], "Clerk Api Writer", null)).headers;
 });
 
 function report(overrides: Record<string, unknown> = {}) {
@@ -171,6 +174,25 @@ describe("POST /api/events and PUT /api/events/:id", () => {
     const refused = await update(draft.body.id as number, { intent: "save" });
     expect(refused.status).toBe(400);
     expect(refused.body.errors).toHaveProperty("version");
+  });
+
+  it("revises an accepted report only when filed with a reason", async () => {
+    const accepted = await makeEvent({
+      createdBy: officerId,
+      status: "accepted",
+      stationId,
+      startedAt: new Date("2026-02-01T12:00:00Z"),
+    });
+    const { version } = await db("events").where({ id: accepted.id }).first("version");
+    const asDraft = await update(accepted.id, report({ intent: "save", version }));
+    expect(asDraft.status).toBe(400);
+    const unexplained = await update(accepted.id, report({ version }));
+    expect(unexplained.status).toBe(400);
+    expect(unexplained.body.errors).toHaveProperty("revisionReason");
+    const revised = await update(accepted.id, report({ version, revisionReason: "Corrected the flow" }));
+    expect(revised.status).toBe(200);
+    expect(revised.body.id).toBe(accepted.id);
+    expect((await db("events").where({ id: accepted.id }).first("version")).version).toBe(version + 1);
   });
 
   it("is 415 for a body that is not JSON", async () => {
