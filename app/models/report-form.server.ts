@@ -1,4 +1,4 @@
-import { randomUUID } from "node:crypto";
+import { createHash, randomUUID } from "node:crypto";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { z } from "zod";
 import { data, redirect } from "react-router";
@@ -135,6 +135,15 @@ const ApiReportBodySchema = z.union([FiledReportSchema, ApiReportIntentSchema]);
 const IDEMPOTENCY_KEY = /^[A-Za-z0-9-]{8,64}$/;
 
 /**
+ * The submission key stored for an `Idempotency-Key`. The form's keys are random and made by the
+ * server; a script chooses its own, so the key is bound to its sender: the same key from someone
+ * else is a new submission, never an answer naming their report.
+ */
+function apiSubmissionKey(user: SessionUser, key: string): string {
+  return createHash("sha256").update(`api:${user.id}:${key}`).digest("hex");
+}
+
+/**
  * The guard of `PUT /api/events/:id`: as the edit page's, with JSON answers. A report one may not
  * read is a 404, one one may not change a 403.
  */
@@ -189,7 +198,7 @@ export async function handleReportApi(request: Request, user: SessionUser, event
       intent: filing ? "file" : "save-draft",
       eventId,
       version: intent.data.version,
-      submissionKey: keyHeader ?? randomUUID(),
+      submissionKey: keyHeader === null ? randomUUID() : apiSubmissionKey(user, keyHeader),
       payload: fields,
       report,
       revisionReason: intent.data.revisionReason,

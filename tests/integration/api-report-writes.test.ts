@@ -136,6 +136,16 @@ describe("POST /api/events and PUT /api/events/:id", () => {
     expect(await db("events").where({ number: body.number }).count({ n: "*" })).toEqual([{ n: 1 }]);
   });
 
+  it("keeps one sender's Idempotency-Key from answering with another's report", async () => {
+    const key = `shared-${randomUUID()}`;
+    const mine = await create(report(), { ...officerAuth, "Idempotency-Key": key });
+    const colleague = await bearerFor(["officer"], "Colleague Api Writer", stationId);
+    const theirs = await create(report(), { ...colleague.headers, "Idempotency-Key": key });
+    expect(mine.status).toBe(201);
+    expect(theirs.status).toBe(201);
+    expect(theirs.body.id).not.toBe(mine.body.id);
+  });
+
   it("refuses a malformed Idempotency-Key", async () => {
     const refused = await create(report(), { ...officerAuth, "Idempotency-Key": "no spaces allowed" });
     expect(refused.status).toBe(400);
