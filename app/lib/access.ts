@@ -256,8 +256,9 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "events/:id/notifications": { GET: "report.notify", POST: "report.notify" },
   "events/:id/report.pdf": { GET: "report.read" },
   "api/totals": { GET: "signed-in", POST: "signed-in" },
-  "api/events": { GET: "report.read" },
-  "api/events/:id": { GET: "report.read" },
+  "api/events": { GET: "report.read", POST: "report.create" },
+  // PUT: the record's status decides between report.edit and report.revise (`changeCapabilityFor`).
+  "api/events/:id": { GET: "report.read", POST: "report.edit" },
   map: { GET: "usage.map" },
   geography: { GET: "geography.edit", POST: "geography.edit" },
   "geography/layers/:kind/versions/:versionId": { GET: "geography.read" },

@@ -603,3 +603,9 @@ export async function reviewReport(args: {
   if (outcome.kind === "done" && outcome.status === "returned") deliverPendingMailSoon();
   return outcome;
 }
+
+/** A saved report's number and status, for the API's answer to a save. */
+export async function reportSummary(eventId: number): Promise<{ number: string; status: EventStatus } | null> {
+  const row = await db("events").where({ id: eventId }).first("number", "status");
+  return row ? { number: row.number, status: row.status } : null;
+}

@@ -1,17 +1,21 @@
+import { createHash, randomUUID } from "node:crypto";
 import { parseWithZod } from "@conform-to/zod/v4";
+import { z } from "zod";
 import { data, redirect } from "react-router";
 import { changeCapabilityFor } from "~/lib/access";
 import { authorize } from "~/lib/access.server";
 import { requireUser, type SessionUser } from "~/lib/auth.server";
 import {
   DraftPayloadSchema,
+  fieldErrors,
   FiledReportSchema,
   REPORT_FORM_SCHEMAS,
   ReportIntentSchema,
   type FiledReport,
 } from "~/lib/foam/report-schema";
-import { readFormData } from "~/lib/form-data.server";
+import { readFormData, readJsonBody } from "~/lib/form-data.server";
 import {
+  apiError,
   clientAddress,
   DATABASE_DOWN_MESSAGE,
   invariantResponse,
@@ -19,8 +23,8 @@ import {
   isDatabaseDownResponse,
 } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
-import { refusalData } from "~/lib/refusal";
-import { saveReport } from "~/models/event.server";
+import { refusalData, refusalStatus } from "~/lib/refusal";
+import { reportSummary, saveReport } from "~/models/event.server";
 import { notificationReason } from "./release-notification.server";
 import { reportAccessRecord } from "~/models/event-read.server";
 
@@ -113,4 +117,109 @@ export async function handleReportSubmission(request: Request, guard: () => Prom
     if (!isDatabaseDown(error)) throw error;
     return data({ result: submission.reply({ formErrors: [DATABASE_DOWN_MESSAGE] }) }, { status: 503 });
   }
+}
+
+// ---------------------------------------------------------------------------------------------
+// The same save as JSON, for `POST /api/events` and `PUT /api/events/:id`
+
+/** What the API adds to the report form's fields. `save` keeps a draft, `file` files it. */
+const ApiReportIntentSchema = z.object({
+  intent: z.enum(["save", "file"], { error: 'Send "intent": "save" or "file".' }),
+  version: z.number({ error: "Send the version as a whole number." }).int().positive().optional(),
+  revisionReason: z.string().trim().max(500, "A reason has at most 500 characters.").optional(),
+});
+
+/** Every key a JSON report may carry: the form's fields plus the intent; used to bound the body only. */
+const ApiReportBodySchema = z.union([FiledReportSchema, ApiReportIntentSchema]);
+
+const IDEMPOTENCY_KEY = /^[A-Za-z0-9-]{8,64}$/;
+
+/**
+ * The submission key stored for an `Idempotency-Key`. The form's keys are random and made by the
+ * server; a script chooses its own, so the key is bound to its sender: the same key from someone
+ * else is a new submission, never an answer naming their report.
+ */
+function apiSubmissionKey(user: SessionUser, key: string): string {
+  return createHash("sha256").update(`api:${user.id}:${key}`).digest("hex");
+}
+
+/**
+ * The guard of `PUT /api/events/:id`: as the edit page's, with JSON answers. A report one may not
+ * read is a 404, one one may not change a 403.
+ */
+export async function requireReportChangeApi(request: Request, eventId: number): Promise<SessionUser> {
+  const user = await requireUser(request);
+  const record = await reportAccessRecord(eventId);
+  if (!record) apiError(404, "No such event.");
+  authorize(request, user, changeCapabilityFor(record.status), record);
+  return user;
+}
+
+/**
+ * Saves or files a report sent as JSON, through the same schema, status rules, version check and
+ * submission keys as the report form. The caller has passed the route's guard already. An
+ * `Idempotency-Key` header is the form's submission key: the same key again answers with the report
+ * it made. Success is 201 (new) or 200 with `{ id, number, status, url }`.
+ */
+export async function handleReportApi(request: Request, user: SessionUser, eventId?: number): Promise<Response> {
+  const body = await readJsonBody(request, ApiReportBodySchema);
+  if (!body || typeof body !== "object" || Array.isArray(body)) apiError(400, "Send the report as a JSON object.");
+  const keyHeader = request.headers.get("Idempotency-Key");
+  if (keyHeader !== null && !IDEMPOTENCY_KEY.test(keyHeader)) {
+    apiError(400, "An Idempotency-Key is 8 to 64 letters, digits or dashes.");
+  }
+  const { intent: intentValue, version, revisionReason, ...fields } = body as Record<string, unknown>;
+  const intent = ApiReportIntentSchema.safeParse({ intent: intentValue, version, revisionReason });
+  if (!intent.success) {
+    return Response.json({ error: "Some values cannot be used.", errors: fieldErrors(intent.error) }, { status: 400 });
+  }
+  if (eventId !== undefined && intent.data.version === undefined) {
+    return Response.json(
+      { error: "Send the version of the report you read.", errors: { version: ["Send the version you read."] } },
+      { status: 400 },
+    );
+  }
+  const filing = intent.data.intent === "file";
+  let report: FiledReport | undefined;
+  if (filing) {
+    const parsed = FiledReportSchema.safeParse(fields);
+    if (!parsed.success) {
+      return Response.json(
+        { error: "The report was not filed. Fix the fields named in errors.", errors: fieldErrors(parsed.error) },
+        { status: 400 },
+      );
+    }
+    report = parsed.data;
+  }
+  let outcome: Awaited<ReturnType<typeof saveReport>>;
+  try {
+    outcome = await saveReport({
+      user,
+      intent: filing ? "file" : "save-draft",
+      eventId,
+      version: intent.data.version,
+      submissionKey: keyHeader === null ? randomUUID() : apiSubmissionKey(user, keyHeader),
+      payload: fields,
+      report,
+      revisionReason: intent.data.revisionReason,
+      clientAddress: clientAddress(request),
+    });
+  } catch (error) {
+    if (isDatabaseDown(error)) apiError(503, DATABASE_DOWN_MESSAGE);
+    throw error;
+  }
+  if (outcome.kind !== "saved" && outcome.kind !== "repeat") {
+    return Response.json(
+      { error: outcome.message, ...(outcome.fieldErrors ? { errors: outcome.fieldErrors } : {}) },
+      { status: refusalStatus(outcome) },
+    );
+  }
+  const saved = await reportSummary(outcome.eventId);
+  if (!saved) apiError(404, "No such event.");
+  // A replayed key answers as the first request did.
+  const created = eventId === undefined;
+  return Response.json(
+    { id: outcome.eventId, number: saved.number, status: saved.status, url: `/events/${outcome.eventId}` },
+    { status: created ? 201 : 200 },
+  );
 }

@@ -2,6 +2,7 @@ import type { Route } from "./+types/api.events";
 import { requireCapability } from "~/lib/access.server";
 import { apiError } from "~/lib/http.server";
 import { apiVolume, listEvents, parseEventFilters } from "~/models/event-read.server";
+import { handleReportApi } from "~/models/report-form.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "report.read");
@@ -31,4 +32,11 @@ export async function loader({ request }: Route.LoaderArgs) {
       url: `/events/${item.id}`,
     })),
   });
+}
+
+/** Creates a report from JSON: saved as a draft (`"intent": "save"`) or filed (`"intent": "file"`). */
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireCapability(request, "report.create");
+  if (request.method !== "POST") apiError(405, "Use POST to create a report, PUT /api/events/:id to change one.");
+  return handleReportApi(request, user);
 }

@@ -224,7 +224,9 @@ describe("every route × principal × record", () => {
         for (const target of targetsOf(key)) {
           // The edit page changes a report: editing it, or revising it once it is accepted.
           const needed =
-            key === "events/:id/edit" && target.record ? changeCapabilityFor(target.record.status) : requirement;
+            (key === "events/:id/edit" || (key === "api/events/:id" && method === "POST")) && target.record
+              ? changeCapabilityFor(target.record.status)
+              : requirement;
           for (const caller of callers) {
             if (key === "sign-out" && caller.principal && method === "POST") continue;
             const request =
