@@ -556,11 +556,68 @@ function substanceContent(content: unknown, unit: unknown): SubstanceContent {
  * start), and counts filed and returned reports too: a release does not wait for review.
  */
 export async function pfasRows(period: ReportPeriod, thresholdLb: number, connection: Db = db): Promise<PfasRow[]> {
-  const day = 24 * 3_600_000;
+  return pfasRowsAround(
+    new Date(period.startUtc.getTime() - DAY_MS),
+    new Date(period.endUtc.getTime() + DAY_MS),
+    (row, startedAt) =>
+      row.status === "accepted" && !!startedAt && startedAt >= period.startUtc && startedAt < period.endUtc,
+    thresholdLb,
+    connection,
+  );
+}
+
+export type EventReportableQuantity = {
+  pfoa: RqAnswer;
+  pfos: RqAnswer;
+  windowPounds: number;
+  unacceptedInWindow: string;
+};
+
+/**
+ * The reportable-quantity answer for one report's PFAS-containing foam, PFOA and PFOS apart, over
+ * every 24-hour period holding its use (other filed, returned and accepted reports counted), as the
+ * quarterly PFAS sheet computes it; null when the report used no PFAS-containing product.
+ */
+export async function eventReportableQuantity(
+  eventId: number,
+  thresholdLb: number,
+  connection: Db = db,
+): Promise<EventReportableQuantity | null> {
+  const event = await connection("events").where({ id: eventId }).first("started_at");
+  const startedAt = event?.started_at as Date | null | undefined;
+  if (!startedAt) return null;
+  const rows = await pfasRowsAround(
+    new Date(startedAt.getTime() - DAY_MS),
+    new Date(startedAt.getTime() + DAY_MS),
+    (row) => Number(row.id) === eventId,
+    thresholdLb,
+    connection,
+  );
+  if (rows.length === 0) return null;
+  return {
+    pfoa: rows.map((row) => row.pfoaAnswer).reduce(worseAnswer),
+    pfos: rows.map((row) => row.pfosAnswer).reduce(worseAnswer),
+    windowPounds: Math.max(...rows.map((row) => row.windowPounds ?? 0)),
+    unacceptedInWindow: [
+      ...new Set(rows.flatMap((row) => (row.unacceptedInWindow ? [row.unacceptedInWindow] : []))),
+    ].join(", "),
+  };
+}
+
+const DAY_MS = 24 * 3_600_000;
+
+async function pfasRowsAround(
+  fromUtc: Date,
+  toUtc: Date,
+  keep: (row: SqlRow, startedAt: Date | null) => boolean,
+  thresholdLb: number,
+  connection: Db,
+): Promise<PfasRow[]> {
+  const day = DAY_MS;
   const rows: SqlRow[] = await connection("events as e")
     .whereIn("e.status", ["filed", "returned", "accepted"])
-    .where("e.started_at", ">=", new Date(period.startUtc.getTime() - day))
-    .where("e.started_at", "<", new Date(period.endUtc.getTime() + day))
+    .where("e.started_at", ">=", fromUtc)
+    .where("e.started_at", "<", toUtc)
     .join("discharges as d", "d.event_id", "e.id")
     .join("foam_products as p", "p.id", "d.product_id")
     .where("p.pfas_containing", true)
@@ -612,8 +669,7 @@ export async function pfasRows(period: ReportPeriod, thresholdLb: number, connec
   const result: PfasRow[] = [];
   rows.forEach((row, index) => {
     const startedAt = row.started_at as Date | null;
-    const inPeriod = startedAt && startedAt >= period.startUtc && startedAt < period.endUtc;
-    if (row.status !== "accepted" || !inPeriod) return;
+    if (!keep(row, startedAt)) return;
     const use = uses[index];
     const content = numOrNull(row.pfas_content);
     const unit = row.pfas_content_unit;

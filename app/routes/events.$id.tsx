@@ -11,13 +11,14 @@ import { authorize, requireCapability } from "~/lib/access.server";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, invariantResponse, requireRecordId } from "~/lib/http.server";
 import { ReviewSchema } from "~/lib/foam/report-schema";
-import { EVENT_STATUS_LABELS } from "~/lib/foam/vocabulary";
+import { EVENT_STATUS_LABELS, RQ_ANSWER_LABELS, type RqAnswer } from "~/lib/foam/vocabulary";
 import { refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { reviewReport } from "~/models/event.server";
 import { getReport, listRevisions, reportAccessRecord, reportHistory } from "~/models/event-read.server";
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { listReleaseNotifications } from "~/models/release-notification.server";
+import { eventReportableQuantity } from "~/models/environmental-report.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.number ?? "Report"} · Foamtally` }];
 
@@ -27,6 +28,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   invariantResponse(report, "No such report.");
   authorize(request, user, "report.read", report);
   const { draft: _draft, ...visible } = report;
+  const settings = await readAgencySettings();
   return {
     report: visible,
     history: await reportHistory(report.id),
@@ -37,7 +39,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       ({ notifiedAtInstant: _instant, party: _party, ...entry }) => entry,
     ),
     canNotify: report.status !== "draft" && can(user, "report.notify", report),
-    timeZone: (await readAgencySettings()).timeZone,
+    timeZone: settings.timeZone,
+    reportableQuantity:
+      report.pfasContaining && report.status !== "draft"
+        ? {
+            thresholdLb: settings.pfasReportableLb,
+            ...(await eventReportableQuantity(report.id, settings.pfasReportableLb)),
+          }
+        : null,
   };
 }
 
@@ -64,7 +73,8 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function EventReport({ loaderData, actionData }: Route.ComponentProps) {
-  const { report, history, revisions, canReview, canEdit, notifications, canNotify, timeZone } = loaderData;
+  const { report, history, revisions, canReview, canEdit, notifications, canNotify, timeZone, reportableQuantity } =
+    loaderData;
   return (
     <div className="space-y-6">
       <div className="flex flex-wrap items-start justify-between gap-3">
@@ -98,6 +108,7 @@ export default function EventReport({ loaderData, actionData }: Route.ComponentP
         </div>
       ) : null}
       <ReportSummary report={report} />
+      {reportableQuantity?.pfoa ? <ReportableQuantity answer={reportableQuantity} /> : null}
       {canReview ? (
         <ReviewPanel version={report.version} lastResult={actionData?.result} pfas={report.pfasContaining} />
       ) : null}
@@ -204,6 +215,41 @@ function ReviewPanel({
           </button>
         </div>
       </Form>
+    </section>
+  );
+}
+
+function ReportableQuantity({
+  answer,
+}: {
+  answer: { thresholdLb: number; pfoa?: RqAnswer; pfos?: RqAnswer; windowPounds?: number; unacceptedInWindow?: string };
+}) {
+  return (
+    <section className="card" aria-labelledby="rq-title" data-testid="reportable-quantity">
+      <h2 id="rq-title" className="text-lg font-semibold">
+        Reportable quantity (PFOA, PFOS)
+      </h2>
+      <dl className="mt-2 grid gap-2 sm:grid-cols-3">
+        {(["pfoa", "pfos"] as const).map((substance) => (
+          <div key={substance}>
+            <dt className="text-sm text-slate-ft">
+              {substance.toUpperCase()} reached {answer.thresholdLb} lb in 24 hours
+            </dt>
+            <dd className="font-semibold">{RQ_ANSWER_LABELS[answer[substance] ?? "unknown"]}</dd>
+          </div>
+        ))}
+        <div>
+          <dt className="text-sm text-slate-ft">Heaviest known 24 hours (either substance, never added)</dt>
+          <dd className="font-semibold">{(answer.windowPounds ?? 0).toFixed(3)} lb</dd>
+        </div>
+      </dl>
+      <p className="caution mt-3" role="note">
+        Each substance is compared with its own reportable quantity (40 CFR 302.4); a PFAS-containing product of unknown
+        content makes the answer Unknown (mixture rule, 40 CFR 302.6(b)(1)(ii)). Reports filed or returned within 24
+        hours count too{answer.unacceptedInWindow ? `: ${answer.unacceptedInWindow}` : ""}. This is not a notification:
+        a release at or above a reportable quantity must be reported immediately (CERCLA §103, EPCRA §304), and state
+        rules add their own.
+      </p>
     </section>
   );
 }

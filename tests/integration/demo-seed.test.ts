@@ -4,6 +4,7 @@ import { computeUsage, type DischargeInput } from "~/lib/foam/totals";
 import { loadCatalogueFacts } from "~/models/usage-builders.server";
 import knexConfig from "../../knexfile";
 import { testDatabaseName } from "../support/test-database";
+import { eventReportableQuantity } from "~/models/environmental-report.server";
 
 // The demo seed runs into a database of its own, so the other tests' rows cannot disturb it.
 const name = `${testDatabaseName()}_seed`;
@@ -140,6 +141,10 @@ describe("the demo seed", () => {
     expect(legacy.pfos_content).toBeNull();
     const event = await knex("events").where({ id: notification.event_id }).first();
     expect(Boolean(event.pfas_containing)).toBe(true);
+    // The event page's answer, per substance, by the mixture rule (40 CFR 302.6(b)(1)(ii)): never "No".
+    expect(await eventReportableQuantity(event.id, 1, knex)).toMatchObject({ pfoa: "unknown", pfos: "unknown" });
+    const plain = await knex("events").where({ pfas_containing: false }).whereNot({ status: "draft" }).first();
+    expect(await eventReportableQuantity(plain.id, 1, knex)).toBeNull();
   });
 
   it("covers every kind and status, the cases the reports must show, inside the district", async () => {
