@@ -18,6 +18,7 @@ import { agencyNameForDocuments, readAgencySettings } from "~/models/agency-sett
 import { getReport, type ReportDetail } from "~/models/event-read.server";
 import { queueMail } from "~/models/mail-outbox.server";
 import { logStep } from "~/models/records-request.server";
+import { listReleaseNotifications } from "~/models/release-notification.server";
 import { PdfWriter, usageReportPdf } from "./report-pdf.server";
 
 /** Which records answer a request: the event list's filters, a basin, a radius around a point. */
@@ -292,7 +293,7 @@ export async function buildReleasePackage(
     files.push({
       fileName: `report-${row.number.replace(/[^A-Za-z0-9_-]/g, "_")}.pdf`,
       contentType: "application/pdf",
-      body: await usageReportPdf(report, agencyName, selection.redactions),
+      body: await usageReportPdf(report, agencyName, selection.redactions, await listReleaseNotifications(row.id)),
     });
   }
   files.splice(2, 0, {

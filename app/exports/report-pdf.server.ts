@@ -101,6 +101,15 @@ export const REPORT_CAUTIONS = [
   "A record kept here is not a notification to any agency: release reporting duties are met by notice to the agencies named by law.",
 ];
 
+/** A notification record as the printed report shows it (who was told, when, the case number). */
+export type PrintedNotification = {
+  partyLabel: string;
+  partyDetail: string;
+  notifiedAt: string;
+  notifiedBy: string;
+  caseNumber: string;
+};
+
 /**
  * The printable usage report, as a chief prints it from the event page; with `redact`, the same
  * document with the chosen parts left out (for a public-records release).
@@ -109,6 +118,7 @@ export async function usageReportPdf(
   report: NonNullable<ReportDetail>,
   agencyName: string,
   redact: RedactionChoices | null = null,
+  notifications: readonly PrintedNotification[] = [],
 ): Promise<Uint8Array> {
   const writer = await PdfWriter.create(`Usage report ${report.number}`);
   const location = redact?.locations
@@ -157,6 +167,15 @@ export async function usageReportPdf(
   if (report.eventWarnings.length) {
     writer.heading("Warnings");
     for (const warning of report.eventWarnings) writer.text(warning.message);
+  }
+  writer.heading("Notifications of this release");
+  if (notifications.length === 0) writer.text("None recorded.");
+  for (const entry of notifications) {
+    writer.text(
+      `${entry.partyLabel}${entry.partyDetail ? ` (${entry.partyDetail})` : ""} · ${entry.notifiedAt.replace("T", " ")}` +
+        (redact?.personnel ? "" : ` · by ${entry.notifiedBy}`) +
+        (entry.caseNumber ? ` · case ${entry.caseNumber}` : ""),
+    );
   }
   writer.heading("Notes");
   writer.text(redact?.notes ? WITHHELD : report.narrative || "—");

@@ -71,14 +71,29 @@ describe("redaction in what goes out", () => {
   it("prints the full report for readers and leaves names, notes and exact places out of the release copy", async () => {
     const event = await seededEvent();
     const report = (await getReport(event.id))!;
-    const full = await pdfText(await usageReportPdf(report, "Alder Bend (demo)"));
+    const notifications = [
+      {
+        partyLabel: "State spill line",
+        partyDetail: "",
+        notifiedAt: "2026-03-04T10:15",
+        notifiedBy: PERSON,
+        caseNumber: "DEMO-CASE-77",
+      },
+    ];
+    const full = await pdfText(await usageReportPdf(report, "Alder Bend (demo)", null, notifications));
     // The unredacted print is what a chief sees: it must carry the values (so the check below can fail).
     expect(full).toContain(PERSON);
+    expect(full).toContain("State spill line · 2026-03-04 10:15 · by");
+    expect(full).toContain("DEMO-CASE-77");
     expect(full).toContain(NOTE.slice(0, 20));
     expect(full).toContain("38.712345");
 
-    const released = await pdfText(await usageReportPdf(report, "Alder Bend (demo)", DEFAULT_REDACTIONS));
+    const released = await pdfText(
+      await usageReportPdf(report, "Alder Bend (demo)", DEFAULT_REDACTIONS, notifications),
+    );
     expect(released).toContain(event.number);
+    // Who was told and the case number are released; who made the call is a name, and is not.
+    expect(released).toContain("State spill line · 2026-03-04 10:15 · case DEMO-CASE-77");
     for (const secret of [
       PERSON,
       REVIEWER,
