@@ -116,33 +116,27 @@ function sha256(body: Uint8Array): string {
   return createHash("sha256").update(body).digest("hex");
 }
 
+/** The released events' columns, shared by the CSV (its header) and the workbook's Events sheet (its title). */
+const RELEASED_EVENT_COLUMNS: Array<{
+  csv: string;
+  sheet: string;
+  value: (row: ReleasePreviewRow) => string | number | null;
+}> = [
+  { csv: "number", sheet: "Number", value: (row) => row.number },
+  { csv: "kind", sheet: "Kind", value: (row) => row.kind },
+  { csv: "started", sheet: "Started", value: (row) => row.startedAt },
+  { csv: "location", sheet: "Location", value: (row) => row.address },
+  { csv: "latitude", sheet: "Latitude", value: (row) => row.latitude },
+  { csv: "longitude", sheet: "Longitude", value: (row) => row.longitude },
+  { csv: "drainage basin", sheet: "Drainage basin", value: (row) => row.basin },
+  { csv: "water gal", sheet: "Water (gal)", value: (row) => row.waterGal },
+  { csv: "concentrate gal", sheet: "Concentrate (gal)", value: (row) => row.concentrateGal },
+  { csv: "solution gal", sheet: "Solution (gal)", value: (row) => row.solutionGal },
+];
+
 function eventsCsv(rows: ReleasePreviewRow[]): Uint8Array {
-  const header = csvLine([
-    "number",
-    "kind",
-    "started",
-    "location",
-    "latitude",
-    "longitude",
-    "drainage basin",
-    "water gal",
-    "concentrate gal",
-    "solution gal",
-  ]);
-  const lines = rows.map((row) =>
-    csvLine([
-      row.number,
-      row.kind,
-      row.startedAt,
-      row.address,
-      row.latitude,
-      row.longitude,
-      row.basin,
-      row.waterGal,
-      row.concentrateGal,
-      row.solutionGal,
-    ]),
-  );
+  const header = csvLine(RELEASED_EVENT_COLUMNS.map((column) => column.csv));
+  const lines = rows.map((row) => csvLine(RELEASED_EVENT_COLUMNS.map((column) => column.value(row))));
   return new TextEncoder().encode("\uFEFF" + header + lines.join(""));
 }
 
@@ -155,32 +149,8 @@ async function eventsWorkbook(
   workbook.creator = "Foamtally";
   workbook.created = new Date(0);
   const events = workbook.addWorksheet("Events");
-  events.addRow([
-    "Number",
-    "Kind",
-    "Started",
-    "Location",
-    "Latitude",
-    "Longitude",
-    "Drainage basin",
-    "Water (gal)",
-    "Concentrate (gal)",
-    "Solution (gal)",
-  ]);
-  for (const row of rows) {
-    events.addRow([
-      row.number,
-      row.kind,
-      row.startedAt,
-      row.address,
-      row.latitude,
-      row.longitude,
-      row.basin,
-      row.waterGal,
-      row.concentrateGal,
-      row.solutionGal,
-    ]);
-  }
+  events.addRow(RELEASED_EVENT_COLUMNS.map((column) => column.sheet));
+  for (const row of rows) events.addRow(RELEASED_EVENT_COLUMNS.map((column) => column.value(row)));
   const discharges = workbook.addWorksheet("Discharges");
   discharges.addRow([
     "Event",
