@@ -4,7 +4,7 @@ import type { Route } from "./+types/events.$id.notifications";
 import { authorize, requireCapability } from "~/lib/access.server";
 import { ReleaseNotificationSchema } from "~/lib/foam/notification-schema";
 import { readFormData } from "~/lib/form-data.server";
-import { clientAddress, httpError, invariantResponse } from "~/lib/http.server";
+import { clientAddress, httpError, invariantResponse, requireRecordId } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { reportAccessRecord } from "~/models/event-read.server";
 import { recordReleaseNotification } from "~/models/release-notification.server";
@@ -17,7 +17,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 /** Records who was notified of this event's release. The record itself notifies no one. */
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireCapability(request, "report.notify");
-  const eventId = Number(params.id);
+  const eventId = requireRecordId(request, params.id, "No such report.");
   const record = await reportAccessRecord(eventId);
   invariantResponse(record, "No such report.");
   authorize(request, user, "report.notify", record);

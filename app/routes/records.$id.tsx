@@ -11,7 +11,7 @@ import {
   RECORDS_REQUEST_STATUSES,
 } from "~/lib/foam/vocabulary";
 import { readFormData } from "~/lib/form-data.server";
-import { invariantResponse } from "~/lib/http.server";
+import { invariantResponse, requireRecordId } from "~/lib/http.server";
 import { RequestChangeSchema } from "~/lib/records/queue-query";
 import { BuildPackageSchema, ReleaseSelectionSchema, SendPackageSchema } from "~/lib/records/release-selection";
 import {
@@ -32,12 +32,6 @@ import {
 export const meta: Route.MetaFunction = ({ data: loaded }) => [
   { title: `${loaded?.request.trackingCode ?? "Request"} · Public-records requests · Foamtally` },
 ];
-
-function idOf(params: { id: string }): number {
-  const id = Number(params.id);
-  invariantResponse(Number.isInteger(id) && id > 0, "There is no such request.");
-  return id;
-}
 
 type SelectionInput = ReturnType<typeof ReleaseSelectionSchema.parse>;
 
@@ -65,7 +59,7 @@ function selectionOf(
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireCapability(request, "records.manage");
-  const found = await getRecordsRequest(idOf(params));
+  const found = await getRecordsRequest(requireRecordId(request, params.id, "There is no such request."));
   invariantResponse(found, "There is no such request.");
   const url = new URL(request.url);
   let preview = null;
@@ -84,7 +78,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireCapability(request, "records.manage");
-  const id = idOf(params);
+  const id = requireRecordId(request, params.id, "There is no such request.");
   const formData = await readFormData(request, [RequestChangeSchema, BuildPackageSchema, SendPackageSchema]);
   if (formData.get("intent") === "build") {
     const built = parseWithZod(formData, { schema: BuildPackageSchema });
