@@ -58,7 +58,9 @@ app.use((req, res, next) => {
   }
   next();
 });
-app.use(compression());
+// Bodies under 1 KB go as they are (the app declares the length of its JSON answers); a body the
+// app already compressed (the map's events, kept gzipped per data version) is left alone.
+app.use(compression({ threshold: 1024 }));
 app.use(
   "/assets",
   express.static(path.join(buildDirectory, "client/assets"), { immutable: true, maxAge: "1y", index: false }),

@@ -7,7 +7,7 @@ import { recordAudit } from "./audit.server";
 import { db } from "./db.server";
 import { apiError, clientAddress, isApiRequest, rethrowDatabaseDown } from "./http.server";
 import { acceptsApiToken, isRole, type Principal, type Role } from "./access";
-import { getSession } from "./session.server";
+import { sessionPersonRow } from "./session.server";
 import { MAX_PASSWORD_BYTES, passwordBytes } from "./password-rules";
 import { SignInFormSchema } from "./sign-in-form";
 import { describeWait, recordSignInFailure, recordSignInSuccess, signInWaitSeconds } from "./sign-in-throttle.server";
@@ -124,19 +124,38 @@ async function userFromBearer(request: Request): Promise<SessionUser | null> {
 }
 
 async function userFromSession(request: Request): Promise<SessionUser | null> {
-  const session = await getSession(request);
-  const userId = session.get("userId");
-  if (typeof userId !== "number") return null;
-  const user = await loadUser({ "users.id": userId });
-  if (!user || !user.active) return null;
-  return sessionUserOf(user);
+  const row = await sessionPersonRow(request);
+  if (!row || !row.active) return null;
+  return {
+    id: row.id,
+    email: row.email,
+    name: row.name,
+    roles: String(row.roles ?? "")
+      .split(",")
+      .filter(isRole),
+    stationId: row.station_id ?? null,
+  };
 }
+
+// A page's root loader and its route loader both ask who is signed in; a GET asks the database
+// once. Actions ask afresh, since they may change the answer (sign-out, roles) before loaders run.
+const usersOfReads = new WeakMap<Request, Promise<SessionUser | null>>();
 
 /**
  * The signed-in person, or null. Never throws for a bad cookie. A bearer token counts on `/api/*`
  * only: it never signs into a page, a download or a form action.
  */
-export async function getUser(request: Request): Promise<SessionUser | null> {
+export function getUser(request: Request): Promise<SessionUser | null> {
+  if (request.method !== "GET" && request.method !== "HEAD") return readUser(request);
+  let user = usersOfReads.get(request);
+  if (!user) {
+    user = readUser(request);
+    usersOfReads.set(request, user);
+  }
+  return user;
+}
+
+async function readUser(request: Request): Promise<SessionUser | null> {
   try {
     if (acceptsApiToken(new URL(request.url).pathname) && request.headers.has("Authorization")) {
       return await userFromBearer(request);

@@ -78,3 +78,15 @@ export function requireRecordId(request: Request, value: string | undefined, mes
   if (isApiRequest(request)) apiError(404, message);
   httpError(404, message);
 }
+
+/**
+ * A JSON response that declares its length, so the server's compression leaves bodies under its
+ * 1 KB threshold alone (a small answer costs more to compress than to send).
+ */
+export function jsonResponse(body: unknown, init: ResponseInit = {}): Response {
+  const bytes = Buffer.from(JSON.stringify(body), "utf8");
+  const headers = new Headers(init.headers);
+  headers.set("Content-Type", "application/json; charset=utf-8");
+  headers.set("Content-Length", String(bytes.byteLength));
+  return new Response(bytes, { ...init, headers });
+}

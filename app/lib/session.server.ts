@@ -2,6 +2,7 @@ import { createHash, randomBytes } from "node:crypto";
 import { createSessionStorage, type Session } from "react-router";
 import { db, type Db } from "./db.server";
 import { env } from "./env.server";
+import { createSignedCookie } from "./signed-cookie.server";
 
 type SessionData = { userId: number };
 type SessionFlash = { flash: string };
@@ -32,19 +33,57 @@ export async function deleteExpiredSessions(limit = 500): Promise<number> {
   return db("sessions").where("expires_at", "<", db.fn.now(3)).limit(limit).delete();
 }
 
+let cookie: ReturnType<typeof createSignedCookie> | undefined;
+
+/** The session cookie: signed with SESSION_SECRET, whose key is made once per process. */
+export function sessionCookie() {
+  cookie ??= createSignedCookie("__foamtally", {
+    httpOnly: true,
+    sameSite: "lax",
+    path: "/",
+    secure: env().COOKIE_SECURE,
+    secrets: [env().SESSION_SECRET],
+    maxAge: SESSION_SECONDS,
+  });
+  return cookie;
+}
+
+/**
+ * The person a request's session cookie names, with their roles, in one query (session, person
+ * and roles together); null for no cookie, a bad signature, or an ended or expired session.
+ */
+export async function sessionPersonRow(request: Request): Promise<{
+  id: number;
+  email: string;
+  name: string;
+  station_id: number | null;
+  active: number | boolean;
+  roles: string | null;
+} | null> {
+  const id = await sessionCookie().parse(request.headers.get("Cookie"));
+  if (typeof id !== "string" || id === "") return null;
+  const row = await db("sessions as s")
+    .join("users as u", "u.id", "s.user_id")
+    .leftJoin("user_roles as r", "r.user_id", "u.id")
+    .where("s.id_hash", sessionIdHash(id))
+    .andWhere("s.expires_at", ">", db.fn.now(3))
+    .groupBy("u.id", "u.email", "u.name", "u.station_id", "u.active")
+    .first(
+      "u.id",
+      "u.email",
+      "u.name",
+      "u.station_id",
+      "u.active",
+      db.raw("GROUP_CONCAT(r.role ORDER BY r.role) AS roles"),
+    );
+  return row ?? null;
+}
+
 let storage: ReturnType<typeof createSessionStorage<SessionData, SessionFlash>> | undefined;
 
 export function sessionStorage() {
   storage ??= createSessionStorage<SessionData, SessionFlash>({
-    cookie: {
-      name: "__foamtally",
-      httpOnly: true,
-      sameSite: "lax",
-      path: "/",
-      secure: env().COOKIE_SECURE,
-      secrets: [env().SESSION_SECRET],
-      maxAge: SESSION_SECONDS,
-    },
+    cookie: sessionCookie(),
     async createData(data, expires) {
       const id = newSessionId();
       await db("sessions").insert({

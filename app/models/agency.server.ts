@@ -4,6 +4,7 @@ import { recordAudit } from "~/lib/audit.server";
 import { db } from "~/lib/db.server";
 import { readAgencySettings, UNSAVED_SETTINGS_VERSION } from "./agency-settings.server";
 import { recomputeAllEventGeography } from "./geography.server";
+import { bumpDataVersion } from "./data-version.server";
 
 type AuditedSettings = Omit<AgencySettings, "updatedAt" | "version">;
 
@@ -83,6 +84,7 @@ export async function saveAgencySettings(
         .where({ id: 1 })
         .update({ ...values, updated_at: trx.fn.now() });
     else await trx("agency_settings").insert({ id: 1, ...values });
+    await bumpDataVersion(trx, "catalogue");
     const eventsRechecked = changed.includes("waterwayBufferM") ? await recomputeAllEventGeography(trx) : null;
     await recordAudit(
       {

@@ -7,6 +7,7 @@ import { db } from "~/lib/db.server";
 import { isProportionerType, type ProportionerType } from "~/lib/foam/vocabulary";
 import { apparatusRow, outletRow, stationRow } from "./catalogue-rows.server";
 import type { OutletDefaults } from "./catalogue.server";
+import { bumpDataVersion } from "./data-version.server";
 
 export type StationRecord = {
   id: number;
@@ -147,6 +148,7 @@ export async function saveStation(
         .update({ ...columns, version: Number(current!.version) + 1 });
       savedId = id;
     }
+    await bumpDataVersion(trx, "catalogue");
     await recordAudit(
       {
         actorUserId: actor.id,
@@ -210,6 +212,7 @@ export async function saveApparatus(
     if (value.outlets.length) {
       await trx("apparatus_outlets").insert(value.outlets.map((outlet) => outletRow(savedId, outlet)));
     }
+    await bumpDataVersion(trx, "catalogue");
     await recordAudit(
       {
         actorUserId: actor.id,

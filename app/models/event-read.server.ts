@@ -21,6 +21,8 @@ import { endOfLocalDay, instantToWallClock, startOfLocalDay } from "~/lib/time-z
 import { readAgencySettings } from "./agency-settings.server";
 import { dischargedFoamClass } from "./catalogue.server";
 import { checksOfRow } from "./geography.server";
+import { VersionedCache } from "~/lib/versioned-cache";
+import { currentDataVersions } from "./data-version.server";
 
 export function apiVolume(gallons: number): Volume {
   const volume = volumeFromGallons(gallons);
@@ -459,28 +461,19 @@ export type EventPage = {
   totals: { water: number; concentrate: number; solution: number };
 };
 
-export async function listEvents(user: SessionUser, filters: EventFilters): Promise<EventPage> {
-  const { timeZone } = await readAgencySettings();
-  const [rows, aggregate] = await Promise.all([
-    filteredEvents(user, filters, timeZone)
-      .select(...LIST_COLUMNS, classesSubquery())
-      .orderBy(SORTABLE[filters.sort], filters.direction)
-      .orderBy("events.id", filters.direction)
-      .limit(filters.pageSize)
-      .offset((filters.page - 1) * filters.pageSize),
-    filteredEvents(user, filters, timeZone)
-      .select(
-        db.raw("COUNT(*) as count"),
-        db.raw("SUM(events.water_gal) as water"),
-        db.raw("SUM(events.concentrate_gal) as concentrate"),
-        db.raw("SUM(events.solution_gal) as solution"),
-      )
-      .first() as Promise<
-      { count: number; water: string | null; concentrate: string | null; solution: string | null } | undefined
-    >,
-  ]);
+type ListTotals = Pick<EventPage, "count" | "totals">;
+
+/** The count and sums of everything a filter selects, for whoever sees it (every page of it agrees). */
+export async function listTotals(user: SessionUser, filters: EventFilters, timeZone: string): Promise<ListTotals> {
+  const aggregate = (await filteredEvents(user, filters, timeZone)
+    .select(
+      db.raw("COUNT(*) as count"),
+      db.raw("SUM(events.water_gal) as water"),
+      db.raw("SUM(events.concentrate_gal) as concentrate"),
+      db.raw("SUM(events.solution_gal) as solution"),
+    )
+    .first()) as { count: number; water: string | null; concentrate: string | null; solution: string | null } | undefined;
   return {
-    items: rows.map((row: Record<string, unknown>) => listItem(row, timeZone)),
     count: Number(aggregate?.count ?? 0),
     totals: {
       water: decimalOrZero(aggregate?.water),
@@ -488,6 +481,31 @@ export async function listEvents(user: SessionUser, filters: EventFilters): Prom
       solution: decimalOrZero(aggregate?.solution),
     },
   };
+}
+
+// The totals of a filter change only when reports do: kept per person (drafts are their own) and
+// filter while the reports' version stamp stands, so paging through a list sums it once.
+const keptListTotals = new VersionedCache<ListTotals>(500);
+
+function listTotalsKey(user: SessionUser, filters: EventFilters, timeZone: string): string {
+  const { sort: _sort, direction: _direction, page: _page, pageSize: _pageSize, ...selection } = filters;
+  return JSON.stringify([user.id, timeZone, selection]);
+}
+
+export async function listEvents(user: SessionUser, filters: EventFilters): Promise<EventPage> {
+  const [{ timeZone }, versions] = await Promise.all([readAgencySettings(), currentDataVersions(db)]);
+  const [rows, totals] = await Promise.all([
+    filteredEvents(user, filters, timeZone)
+      .select(...LIST_COLUMNS, classesSubquery())
+      .orderBy(SORTABLE[filters.sort], filters.direction)
+      .orderBy("events.id", filters.direction)
+      .limit(filters.pageSize)
+      .offset((filters.page - 1) * filters.pageSize),
+    keptListTotals.get(listTotalsKey(user, filters, timeZone), versions.reports, () =>
+      listTotals(user, filters, timeZone),
+    ),
+  ]);
+  return { items: rows.map((row: Record<string, unknown>) => listItem(row, timeZone)), ...totals };
 }
 
 /** Every event the filters select, streamed in the list's order (for CSV downloads). */

@@ -33,6 +33,7 @@ import {
   type ReportLines,
   type ReportTankReading,
 } from "./report-rows.server";
+import { bumpDataVersion } from "./data-version.server";
 
 type TankReadingLine = NonNullable<FiledReport["tankReadings"]>[number];
 
@@ -583,6 +584,7 @@ export async function reviewReport(args: {
         review_comment: args.comment || null,
         updated_at: trx.fn.now(),
       });
+    await bumpDataVersion(trx, "reports");
     await recordAudit(
       {
         actorUserId: args.user.id,

@@ -19,6 +19,7 @@ import { LAYER_KINDS, LAYER_RULES, validateLayer, type LayerKind } from "~/lib/g
 import { deleteObjectQuietly, putObject } from "~/lib/storage.server";
 import { readAgencySettings } from "./agency-settings.server";
 import { describeFile, recordNewVersion, type StoredFile } from "./file-versions.server";
+import { bumpDataVersion } from "./data-version.server";
 
 type Actor = { id: number; email: string } | null;
 
@@ -143,6 +144,7 @@ export async function recomputeEventGeography(eventId: number, trx: Db = db): Pr
   await trx("events")
     .where({ id: eventId })
     .update({ ...checkColumns(checks), geo_checked_at: trx.fn.now() });
+  await bumpDataVersion(trx, "reports");
   return checks;
 }
 
@@ -182,6 +184,7 @@ export async function recomputeAllEventGeography(connection: Db = db): Promise<n
       bindings,
     );
   }
+  await bumpDataVersion(connection, "reports");
   return count;
 }
 

@@ -10,6 +10,7 @@ import { deleteObjectQuietly, putObject } from "~/lib/storage.server";
 import { productColumns } from "./catalogue-rows.server";
 import { nominalPercentsOf } from "./catalogue.server";
 import { describeFile, recordNewVersion, type StoredFile } from "./file-versions.server";
+import { bumpDataVersion } from "./data-version.server";
 
 export type ProductRecord = {
   id: number;
@@ -133,6 +134,7 @@ export async function saveProduct(
           .update({ ...columns, version: Number(current!.version) + 1 });
         savedId = id;
       }
+      await bumpDataVersion(trx, "catalogue");
       const after = recordOf((await trx("foam_products").where({ id: savedId }).first())!);
       // Each sheet keeps its own key: the one replaced stays in the file store and is listed as earlier.
       const replacedSheet = sheetFile

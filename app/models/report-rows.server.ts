@@ -3,6 +3,7 @@
 // the demo and large seeds, the test fixtures and the benchmarks all write through it. Relative
 // imports and a connection passed in, so that the knex CLI can run it from a seed.
 import type { Knex } from "knex";
+import { bumpDataVersion } from "./data-version.server";
 import type { DischargeInput, TankReading, UsageWarning } from "../lib/foam/totals";
 import type { FlowUnit } from "../lib/foam/units";
 import {
@@ -195,6 +196,8 @@ export async function insertReportLinesInBatches(
   await insert("discharges", discharges);
   await insert("runoff_dispositions", dispositions);
   await insert("tank_readings", tankReadings);
+  // Every write of a report's rows (saves, seeds, fixtures) makes kept list totals and map answers stale.
+  await bumpDataVersion(connection, "reports");
   return { discharges: discharges.length, dispositions: dispositions.length, tankReadings: tankReadings.length };
 }
 

@@ -2,9 +2,9 @@ import type { Route } from "./+types/api.totals";
 import { requireUser } from "~/lib/auth.server";
 import { fieldErrors, TotalsRequestSchema } from "~/lib/foam/report-schema";
 import { readJsonBody } from "~/lib/form-data.server";
-import { apiError } from "~/lib/http.server";
+import { apiError, jsonResponse } from "~/lib/http.server";
 import { apiVolume } from "~/models/event-read.server";
-import { computeForInputs } from "~/models/event.server";
+import { computeWithKeptFacts } from "~/models/kept-facts.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireUser(request);
@@ -19,7 +19,7 @@ export async function action({ request }: Route.ActionArgs) {
   if (!parsed.success) {
     return Response.json({ error: "Some values cannot be used.", errors: fieldErrors(parsed.error) }, { status: 400 });
   }
-  const usage = await computeForInputs(
+  const usage = await computeWithKeptFacts(
     parsed.data.discharges.map((line) => ({
       ...line,
       percent: line.percent ?? null,
@@ -39,7 +39,7 @@ export async function action({ request }: Route.ActionArgs) {
     solution: apiVolume(item.solution.gal),
     effectivePercentOfSolution: item.effectivePercentOfSolution,
   });
-  return Response.json({
+  return jsonResponse({
     discharges: usage.discharges.map((line) => ({
       ...totals(line),
       percentOf: line.percentOf,

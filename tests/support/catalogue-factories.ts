@@ -10,12 +10,14 @@ import {
   type ApparatusSpec,
   type ProductSpec,
 } from "~/models/catalogue-rows.server";
+import { bumpDataVersion } from "~/models/data-version.server";
 
 const unique = () => randomUUID().slice(0, 6);
 
 export async function makeStationRow(connection: Knex = db) {
   const code = `T${unique()}`;
   const [id] = await connection("stations").insert(stationRow({ code, name: `Test station ${code} (test)` }));
+  await bumpDataVersion(connection, "catalogue");
   return { id, code };
 }
 
@@ -28,6 +30,7 @@ export async function makeProductRow(spec: Partial<ProductSpec> = {}, connection
     ...spec,
   };
   const [id] = await connection("foam_products").insert(productRow(full));
+  await bumpDataVersion(connection, "catalogue");
   return { id, ...full };
 }
 
@@ -35,5 +38,6 @@ export async function makeApparatusRow(spec: Partial<ApparatusSpec> = {}, connec
   const full: ApparatusSpec = { unitId: `E-${unique()}`, ...spec };
   const [id] = await connection("apparatus").insert(apparatusRow(full));
   for (const outlet of full.outlets ?? []) await connection("apparatus_outlets").insert(outletRow(id, outlet));
+  await bumpDataVersion(connection, "catalogue");
   return { id, ...full };
 }
