@@ -11,6 +11,7 @@ import {
 } from "~/lib/foam/vocabulary";
 import type { GeographyChecks } from "~/lib/geo/checks";
 import type { MapFilters } from "~/lib/geo/map-filters";
+import { startOfLocalDay } from "~/lib/time-zone";
 import { dischargedFoamClass } from "./catalogue.server";
 
 /** Reports still in draft are the officer's work in progress and stay off the map and totals. */
@@ -166,7 +167,6 @@ export async function mapEvents(filters: MapFilters): Promise<MapEventCollection
 }
 
 type Totals = { events: number; waterGal: number; concentrateGal: number; solutionGal: number };
-const zero = (): Totals => ({ events: 0, waterGal: 0, concentrateGal: 0, solutionGal: 0 });
 
 export type UsageSummary = {
   from: string;
@@ -190,11 +190,6 @@ export type UsageSummary = {
   byMonth: { month: string; classAConcentrateGal: number; classBConcentrateGal: number }[];
 };
 
-function monthIn(timeZone: string) {
-  const format = new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit" });
-  return (instant: Date) => format.format(instant).slice(0, 7);
-}
-
 function monthsBetween(from: string, to: string): string[] {
   const months: string[] = [];
   let [year, month] = from.slice(0, 7).split("-").map(Number);
@@ -209,42 +204,75 @@ function monthsBetween(from: string, to: string): string[] {
   return months;
 }
 
-const add = (target: Totals, row: { water_gal: unknown; concentrate_gal: unknown; solution_gal: unknown }) => {
-  target.events += 1;
-  target.waterGal += decimalOrZero(row.water_gal);
-  target.concentrateGal += decimalOrZero(row.concentrate_gal);
-  target.solutionGal += decimalOrZero(row.solution_gal);
+/**
+ * SQL giving the index of the agency month an event started in (0 for the first of `months`):
+ * the months' first instants are worked out here in the agency's zone, so the database needs no
+ * time-zone tables.
+ */
+function monthIndexSql(months: string[], timeZone: string, column: string): Knex.Raw {
+  const starts = months.slice(1).map((month) => startOfLocalDay(`${month}-01`, timeZone));
+  if (starts.length === 0) return db.raw("0");
+  return db.raw(`CASE ${starts.map(() => `WHEN ${column} < ? THEN ?`).join(" ")} ELSE ? END`, [
+    ...starts.flatMap((start, index) => [start, index]),
+    starts.length,
+  ]);
+}
+
+type SqlRow = Record<string, unknown>;
+
+type TotalsRow = {
+  events: number | string;
+  water_gal: unknown;
+  concentrate_gal: unknown;
+  solution_gal: unknown;
 };
-const rounded = <T extends Totals>(totals: T): T => ({
-  ...totals,
-  waterGal: gallons(totals.waterGal),
-  concentrateGal: gallons(totals.concentrateGal),
-  solutionGal: gallons(totals.solutionGal),
+
+const totalsOf = (row: TotalsRow | SqlRow | undefined): Totals => ({
+  events: Number(row?.events ?? 0),
+  waterGal: gallons(row?.water_gal),
+  concentrateGal: gallons(row?.concentrate_gal),
+  solutionGal: gallons(row?.solution_gal),
 });
 
-/** Totals for what matches (for the map: what is in view), by foam class, product, runoff, basin, station and month. */
+/** Totals for what matches (for the map: what is in view), by foam class, product, runoff, basin, station and month; summed by the database. */
 export async function usageSummary(filters: MapFilters, timeZone: string): Promise<UsageSummary> {
-  const events = await filteredEvents(filters)
-    .leftJoin("stations as s", "s.id", "e.station_id")
-    .select(
-      "e.id",
-      "e.started_at",
-      "e.water_gal",
-      "e.concentrate_gal",
-      "e.solution_gal",
-      "e.pfas_containing",
-      "e.drainage_basin",
-      "s.code as station_code",
-      "s.name as station_name",
-    );
-  const ids = filteredEvents(filters).select("e.id");
+  const ids = () => filteredEvents(filters).select("e.id");
   // With a foam-class filter, only that class's concentrate counts: an event that flowed Class A and
   // Class B is shown under "Class B" with its Class B concentrate, not its Class A as well.
   const ofClass = (query: Knex.QueryBuilder) =>
     filters.foamClass ? query.where("p.foam_class", filters.foamClass) : query;
-  const [products, classByEvent, dispositions] = await Promise.all([
+  const events = () => {
+    const query = filteredEvents(filters).leftJoin("stations as s", "s.id", "e.station_id");
+    if (!filters.foamClass) return query;
+    return query.leftJoin(
+      ofClass(db("discharges as d").join("foam_products as p", "p.id", "d.product_id"))
+        .groupBy("d.event_id")
+        .select("d.event_id", db.raw("SUM(d.concentrate_gal) AS concentrate_gal"))
+        .as("cc"),
+      "cc.event_id",
+      "e.id",
+    );
+  };
+  const concentrate = filters.foamClass ? "COALESCE(cc.concentrate_gal, 0)" : "e.concentrate_gal";
+  const sums = [
+    db.raw("COUNT(*) AS events"),
+    db.raw("SUM(e.water_gal) AS water_gal"),
+    db.raw(`SUM(${concentrate}) AS concentrate_gal`),
+    db.raw("SUM(e.solution_gal) AS solution_gal"),
+  ];
+  const months = monthsBetween(filters.from, filters.to);
+  const [overall, basins, stations, products, classes, byMonth, dispositions] = (await Promise.all([
+    events()
+      .select(
+        ...sums,
+        db.raw("SUM(e.pfas_containing <> 0) AS pfas_events"),
+        db.raw(`SUM(CASE WHEN e.pfas_containing <> 0 THEN ${concentrate} ELSE 0 END) AS pfas_concentrate_gal`),
+      )
+      .first(),
+    events().groupBy("e.drainage_basin").select("e.drainage_basin", ...sums),
+    events().groupBy("s.code").select("s.code as station_code", db.raw("MIN(s.name) AS station_name"), ...sums),
     ofClass(db("discharges as d").join("foam_products as p", "p.id", "d.product_id"))
-      .whereIn("d.event_id", ids)
+      .whereIn("d.event_id", ids())
       .groupBy("p.id", "p.name", "p.foam_class", "p.pfas_containing")
       .orderBy("p.name")
       .select(
@@ -257,12 +285,29 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
         db.raw("COUNT(DISTINCT d.event_id) AS events"),
       ),
     ofClass(db("discharges as d").join("foam_products as p", "p.id", "d.product_id"))
-      .whereIn("d.event_id", ids)
-      .groupBy("d.event_id", "p.foam_class")
-      .select("d.event_id", "p.foam_class", db.raw("SUM(d.concentrate_gal) AS concentrate_gal")),
+      .whereIn("d.event_id", ids())
+      .groupBy("p.foam_class")
+      .select(
+        "p.foam_class",
+        db.raw("SUM(d.concentrate_gal) AS concentrate_gal"),
+        db.raw("SUM(d.solution_gal) AS solution_gal"),
+        db.raw("COUNT(DISTINCT d.event_id) AS events"),
+      ),
+    ofClass(
+      db("discharges as d")
+        .join("foam_products as p", "p.id", "d.product_id")
+        .join("events as me", "me.id", "d.event_id"),
+    )
+      .whereIn("d.event_id", ids())
+      .groupBy("month_index", "p.foam_class")
+      .select(
+        db.raw(`${monthIndexSql(months, timeZone, "me.started_at").toQuery()} AS month_index`),
+        "p.foam_class",
+        db.raw("SUM(d.concentrate_gal) AS concentrate_gal"),
+      ),
     db("runoff_dispositions as r")
       .join("events as re", "re.id", "r.event_id")
-      .whereIn("r.event_id", ids)
+      .whereIn("r.event_id", ids())
       .groupBy("r.disposition")
       .orderBy("r.disposition")
       .select(
@@ -270,66 +315,35 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
         db.raw(`SUM(${releasedGallonsSql("r", "re")}) AS solution_gal`),
         db.raw("COUNT(DISTINCT r.event_id) AS events"),
       ),
-  ]);
+  ])) as [SqlRow | undefined, SqlRow[], SqlRow[], SqlRow[], SqlRow[], SqlRow[], SqlRow[]];
 
-  const totals = { ...zero(), pfasEvents: 0, pfasConcentrateGal: 0 };
-  const basins = new Map<string | null, Totals>();
-  const stations = new Map<string | null, Totals & { name: string | null }>();
-  const startedAt = new Map<number, Date | null>();
-  const classConcentrate = new Map<number, number>();
-  for (const row of classByEvent) {
-    classConcentrate.set(row.event_id, (classConcentrate.get(row.event_id) ?? 0) + decimalOrZero(row.concentrate_gal));
-  }
-  for (const stored of events) {
-    const row = filters.foamClass ? { ...stored, concentrate_gal: classConcentrate.get(stored.id) ?? 0 } : stored;
-    add(totals, row);
-    if (row.pfas_containing) {
-      totals.pfasEvents += 1;
-      totals.pfasConcentrateGal += decimalOrZero(row.concentrate_gal);
-    }
-    const basin = basins.get(row.drainage_basin ?? null) ?? zero();
-    add(basin, row);
-    basins.set(row.drainage_basin ?? null, basin);
-    const station = stations.get(row.station_code ?? null) ?? { ...zero(), name: row.station_name ?? null };
-    add(station, row);
-    stations.set(row.station_code ?? null, station);
-    startedAt.set(row.id, row.started_at ? new Date(row.started_at) : null);
-  }
-
-  const toMonth = monthIn(timeZone);
-  const months = new Map(monthsBetween(filters.from, filters.to).map((month) => [month, { a: 0, b: 0 }]));
-  const classes = new Map<string, { concentrateGal: number; events: Set<number> }>();
-  for (const row of classByEvent) {
-    const when = startedAt.get(row.event_id);
-    const entry = classes.get(row.foam_class) ?? { concentrateGal: 0, events: new Set<number>() };
-    entry.concentrateGal += decimalOrZero(row.concentrate_gal);
-    entry.events.add(row.event_id);
-    classes.set(row.foam_class, entry);
-    if (!when) continue;
-    const month = months.get(toMonth(when));
+  const monthTotals = months.map(() => ({ a: 0, b: 0 }));
+  for (const row of byMonth) {
+    const month = monthTotals[Number(row.month_index)];
     if (month) month[row.foam_class === "A" ? "a" : "b"] += decimalOrZero(row.concentrate_gal);
   }
-  const solutionByClass = new Map<string, number>();
-  for (const row of products) {
-    solutionByClass.set(row.foam_class, (solutionByClass.get(row.foam_class) ?? 0) + decimalOrZero(row.solution_gal));
-  }
+  const byClass = new Map(classes.map((row) => [row.foam_class as string, row]));
 
   return {
     from: filters.from,
     to: filters.to,
     bbox: filters.bbox,
     units: "US gallons",
-    totals: { ...rounded(totals), pfasConcentrateGal: gallons(totals.pfasConcentrateGal) },
+    totals: {
+      ...totalsOf(overall),
+      pfasEvents: Number(overall?.pfas_events ?? 0),
+      pfasConcentrateGal: gallons(overall?.pfas_concentrate_gal),
+    },
     byFoamClass: FOAM_CLASSES.map((foamClass) => ({
       foamClass,
-      concentrateGal: gallons(classes.get(foamClass)?.concentrateGal ?? 0),
-      solutionGal: gallons(solutionByClass.get(foamClass) ?? 0),
-      events: classes.get(foamClass)?.events.size ?? 0,
+      concentrateGal: gallons(byClass.get(foamClass)?.concentrate_gal),
+      solutionGal: gallons(byClass.get(foamClass)?.solution_gal),
+      events: Number(byClass.get(foamClass)?.events ?? 0),
     })),
     byProduct: products.map((row) => ({
-      productId: row.id,
-      name: row.name,
-      foamClass: row.foam_class,
+      productId: row.id as number,
+      name: row.name as string,
+      foamClass: row.foam_class as string,
       pfasContaining: Boolean(row.pfas_containing),
       concentrateGal: gallons(row.concentrate_gal),
       solutionGal: gallons(row.solution_gal),
@@ -340,16 +354,20 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
       solutionGal: gallons(row.solution_gal),
       events: Number(row.events),
     })),
-    byDrainageBasin: [...basins.entries()]
-      .map(([drainageBasin, value]) => ({ drainageBasin, ...rounded(value) }))
+    byDrainageBasin: basins
+      .map((row) => ({ drainageBasin: (row.drainage_basin as string | null) ?? null, ...totalsOf(row) }))
       .sort((a, b) => (a.drainageBasin ?? "~").localeCompare(b.drainageBasin ?? "~")),
-    byStation: [...stations.entries()]
-      .map(([station, value]) => ({ station, ...rounded(value) }))
+    byStation: stations
+      .map((row) => ({
+        station: (row.station_code as string | null) ?? null,
+        name: (row.station_name as string | null) ?? null,
+        ...totalsOf(row),
+      }))
       .sort((a, b) => (a.station ?? "~").localeCompare(b.station ?? "~")),
-    byMonth: [...months.entries()].map(([month, value]) => ({
+    byMonth: months.map((month, index) => ({
       month,
-      classAConcentrateGal: gallons(value.a),
-      classBConcentrateGal: gallons(value.b),
+      classAConcentrateGal: gallons(monthTotals[index].a),
+      classBConcentrateGal: gallons(monthTotals[index].b),
     })),
   };
 }
