@@ -60,7 +60,7 @@ export function EventsInViewTable({
               {view.rows.map(({ event }) => (
                 <tr key={event.id}>
                   <th scope="row" className="border-b border-stone-200 font-normal whitespace-nowrap">
-                    <Link to={event.url} className="font-semibold text-pond-700 underline">
+                    <Link to={`/events/${event.id}`} className="font-semibold text-pond-700 underline">
                       {event.number}
                     </Link>
                   </th>

@@ -98,7 +98,7 @@ function popupContent(properties: Record<string, unknown>, timeZone: string): HT
     );
   }
   const link = text("a", "Open the event report", "font-semibold text-pond-700 underline");
-  link.setAttribute("href", String(properties.url));
+  link.setAttribute("href", `/events/${Number(properties.id)}`);
   box.append(link);
   return box;
 }

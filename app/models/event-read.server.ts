@@ -472,7 +472,8 @@ export async function listTotals(user: SessionUser, filters: EventFilters, timeZ
       db.raw("SUM(events.concentrate_gal) as concentrate"),
       db.raw("SUM(events.solution_gal) as solution"),
     )
-    .first()) as { count: number; water: string | null; concentrate: string | null; solution: string | null } | undefined;
+    .first()) as
+    { count: number; water: string | null; concentrate: string | null; solution: string | null } | undefined;
   return {
     count: Number(aggregate?.count ?? 0),
     totals: {

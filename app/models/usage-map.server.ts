@@ -1,3 +1,6 @@
+import { createHash } from "node:crypto";
+import { promisify } from "node:util";
+import { gzip } from "node:zlib";
 import type { Knex } from "knex";
 import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db } from "~/lib/db.server";
@@ -12,7 +15,9 @@ import {
 import type { GeographyChecks } from "~/lib/geo/checks";
 import type { MapFilters } from "~/lib/geo/map-filters";
 import { startOfLocalDay } from "~/lib/time-zone";
+import { VersionedCache } from "~/lib/versioned-cache";
 import { dischargedFoamClass } from "./catalogue.server";
+import { currentDataVersions } from "./data-version.server";
 
 /** Reports still in draft are the officer's work in progress and stay off the map and totals. */
 const MAPPED_STATUSES = ["filed", "returned", "accepted"];
@@ -35,6 +40,13 @@ function filteredEvents(filters: MapFilters): Knex.QueryBuilder {
 }
 
 const gallons = (value: unknown) => Math.round(decimalOrZero(value) * 1000) / 1000;
+// Five decimals of a degree is about a metre on the ground (common practice, no source): finer than
+// a map point or an address needs.
+const degrees = (value: unknown) => Math.round(decimalOrZero(value) * 1e5) / 1e5;
+const metres = (value: unknown) => {
+  const distance = decimalOrNull(value);
+  return distance === null ? null : Math.round(distance);
+};
 
 export type MapEventProperties = {
   id: number;
@@ -51,14 +63,12 @@ export type MapEventProperties = {
   solutionGal: number;
   classAConcentrateGal: number;
   classBConcentrateGal: number;
-  url: string;
 } & Pick<GeographyChecks, "drainageBasin" | "nearestWaterway" | "nearestWaterwayM" | "withinWaterwayBuffer">;
 
 export type MapEventCollection = {
   type: "FeatureCollection";
   features: {
     type: "Feature";
-    id: number;
     geometry: { type: "Point"; coordinates: [number, number] };
     properties: MapEventProperties;
   }[];
@@ -88,7 +98,11 @@ type MapEventRow = {
   uses_b: number | string | null;
 };
 
-/** Every mapped event that matches, as an RFC 7946 FeatureCollection with its totals. */
+/**
+ * Every mapped event that matches, as an RFC 7946 FeatureCollection with its totals: the event's id
+ * once (`properties.id`; its page is `/events/:id`), coordinates to five decimals, distances to the
+ * metre, instants to the second.
+ */
 export async function mapEvents(filters: MapFilters): Promise<MapEventCollection> {
   const rows: MapEventRow[] = await filteredEvents(filters)
     .leftJoin("stations as s", "s.id", "e.station_id")
@@ -138,14 +152,13 @@ export async function mapEvents(filters: MapFilters): Promise<MapEventCollection
       const usesB = Number(row.uses_b) === 1;
       return {
         type: "Feature",
-        id: row.id,
-        geometry: { type: "Point", coordinates: [decimalOrZero(row.longitude), decimalOrZero(row.latitude)] },
+        geometry: { type: "Point", coordinates: [degrees(row.longitude), degrees(row.latitude)] },
         properties: {
           id: row.id,
           number: row.number,
           kind: row.kind,
           status: row.status,
-          startedAt: row.started_at ? new Date(row.started_at).toISOString() : null,
+          startedAt: row.started_at ? new Date(row.started_at).toISOString().replace(".000Z", "Z") : null,
           address: row.address,
           station: row.station_code ?? null,
           foamClass: usesA && usesB ? "A+B" : usesA ? "A" : usesB ? "B" : "none",
@@ -157,9 +170,8 @@ export async function mapEvents(filters: MapFilters): Promise<MapEventCollection
           classBConcentrateGal: gallons(row.class_b_gal),
           drainageBasin: row.drainage_basin ?? null,
           nearestWaterway: row.nearest_waterway ?? null,
-          nearestWaterwayM: decimalOrNull(row.nearest_waterway_m),
+          nearestWaterwayM: metres(row.nearest_waterway_m),
           withinWaterwayBuffer: row.within_waterway_buffer == null ? null : Boolean(row.within_waterway_buffer),
-          url: `/events/${row.id}`,
         },
       };
     }),
@@ -269,8 +281,12 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
         db.raw(`SUM(CASE WHEN e.pfas_containing <> 0 THEN ${concentrate} ELSE 0 END) AS pfas_concentrate_gal`),
       )
       .first(),
-    events().groupBy("e.drainage_basin").select("e.drainage_basin", ...sums),
-    events().groupBy("s.code").select("s.code as station_code", db.raw("MIN(s.name) AS station_name"), ...sums),
+    events()
+      .groupBy("e.drainage_basin")
+      .select("e.drainage_basin", ...sums),
+    events()
+      .groupBy("s.code")
+      .select("s.code as station_code", db.raw("MIN(s.name) AS station_name"), ...sums),
     ofClass(db("discharges as d").join("foam_products as p", "p.id", "d.product_id"))
       .whereIn("d.event_id", ids())
       .groupBy("p.id", "p.name", "p.foam_class", "p.pfas_containing")
@@ -370,6 +386,61 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
       classBConcentrateGal: gallons(monthTotals[index].b),
     })),
   };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Kept answers: the map's events and summaries change only when reports or the catalogue do, so
+// each is computed once per filter and data version, on each server, and kept (the events gzipped).
+
+const gzipAsync = promisify(gzip);
+
+async function mapDataVersion(): Promise<string | null> {
+  const { reports, catalogue } = await currentDataVersions(db);
+  return reports && catalogue ? `${reports}/${catalogue}` : null;
+}
+
+function filtersKey(filters: MapFilters, extra = ""): string {
+  return JSON.stringify([
+    filters.startUtc.toISOString(),
+    filters.endUtc.toISOString(),
+    filters.from,
+    filters.to,
+    filters.bbox,
+    filters.foamClass,
+    filters.kind,
+    filters.stationId,
+    extra,
+  ]);
+}
+
+export type MapEventsBody = { etag: string | null; gzipped: Buffer };
+
+const keptMapEvents = new VersionedCache<MapEventsBody>(24);
+
+/**
+ * The map's events for these filters as gzipped GeoJSON with its entity tag, computed once per
+ * filter and data version. The tag names the version and the filters, so a browser that sends it
+ * back gets `304` until a report or the catalogue changes.
+ */
+export async function mapEventsBody(filters: MapFilters): Promise<MapEventsBody> {
+  const version = await mapDataVersion();
+  const key = filtersKey(filters);
+  return keptMapEvents.get(key, version, async () => {
+    const gzipped = await gzipAsync(Buffer.from(JSON.stringify(await mapEvents(filters)), "utf8"));
+    const tag = createHash("sha256")
+      .update(`${version ?? "unversioned"} ${key}`)
+      .digest("base64url")
+      .slice(0, 27);
+    return { etag: version ? `"${tag}"` : null, gzipped };
+  });
+}
+
+const keptSummaries = new VersionedCache<UsageSummary>(100);
+
+/** `usageSummary`, computed once per filter, time zone and data version. */
+export async function usageSummaryKept(filters: MapFilters, timeZone: string): Promise<UsageSummary> {
+  const version = await mapDataVersion();
+  return keptSummaries.get(filtersKey(filters, timeZone), version, () => usageSummary(filters, timeZone));
 }
 
 export async function listStations(): Promise<{ id: number; code: string; name: string }[]> {

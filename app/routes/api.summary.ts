@@ -3,7 +3,7 @@ import { requireCapability } from "~/lib/access.server";
 import { parseMapFilters } from "~/lib/geo/map-filters";
 import { apiError } from "~/lib/http.server";
 import { readAgencySettings } from "~/models/agency-settings.server";
-import { usageSummary } from "~/models/usage-map.server";
+import { usageSummaryKept } from "~/models/usage-map.server";
 
 /** GET /api/summary?from=&to=&bbox= — totals by foam class, product, runoff disposition, drainage basin. */
 export async function loader({ request }: Route.LoaderArgs) {
@@ -11,7 +11,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const timeZone = (await readAgencySettings()).timeZone;
   const parsed = parseMapFilters(new URL(request.url).searchParams, timeZone);
   if (!parsed.ok) apiError(400, parsed.message, { errors: { [parsed.field]: [parsed.message] } });
-  const summary = await usageSummary(parsed.filters, timeZone);
+  const summary = await usageSummaryKept(parsed.filters, timeZone);
   return Response.json(summary, {
     headers: { "Cache-Control": "private, no-store" },
   });

@@ -26,7 +26,7 @@ import { mapQuery, parseMapFilters, type BoundingBox } from "~/lib/geo/map-filte
 import { httpError } from "~/lib/http.server";
 import { localDateTime } from "~/lib/time-zone";
 import { readAgencySettings } from "~/models/agency-settings.server";
-import { listStations, usageSummary, type UsageSummary } from "~/models/usage-map.server";
+import { listStations, usageSummaryKept, type UsageSummary } from "~/models/usage-map.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Usage map · Foamtally" }];
 
@@ -49,7 +49,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const parsed = parseMapFilters(params, timeZone);
   if (!parsed.ok) httpError(400, parsed.message);
   const { filters } = parsed;
-  const [stations, summary] = await Promise.all([listStations(), usageSummary(filters, timeZone)]);
+  const [stations, summary] = await Promise.all([listStations(), usageSummaryKept(filters, timeZone)]);
   return {
     filters: {
       from: filters.from,

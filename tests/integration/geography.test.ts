@@ -1,8 +1,10 @@
 import { randomUUID } from "node:crypto";
 import { readFileSync } from "node:fs";
+import { gunzipSync } from "node:zlib";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/lib/db.server";
 import type { LayerKind } from "~/lib/geo/layers";
+import { bumpDataVersion } from "~/models/data-version.server";
 import { recomputeEventGeography, replaceLayer } from "~/models/geography.server";
 import { loader as checkLoader } from "~/routes/api.geo.check";
 import { loader as addressLoader } from "~/routes/api.geo.addresses";
@@ -212,7 +214,7 @@ describe("GET /api/map/events.geojson", () => {
     expect(response.headers.get("Content-Type")).toMatch(/application\/geo\+json/);
     const body = await response.json();
     expect(body.type).toBe("FeatureCollection");
-    const byId = new Map(body.features.map((f: { id: number }) => [f.id, f]));
+    const byId = new Map(body.features.map((f: { properties: { id: number } }) => [f.properties.id, f]));
     expect(byId.has(ids.draft)).toBe(false);
     const pond = byId.get(ids.onPond) as { geometry: unknown; properties: Record<string, unknown> };
     expect(pond.geometry).toEqual({ type: "Point", coordinates: [-98.236, 38.724] });
@@ -223,14 +225,85 @@ describe("GET /api/map/events.geojson", () => {
       classBConcentrateGal: 5,
       nearestWaterway: "Heron Pond",
       withinWaterwayBuffer: true,
-      url: `/events/${ids.onPond}`,
     });
+    // The id once: no feature-level id and no url beside it (the map links to /events/:id).
+    expect(Object.keys(pond)).toEqual(["type", "geometry", "properties"]);
+    expect(pond.properties).not.toHaveProperty("url");
     expect(body.features).toHaveLength(3);
+  });
+
+  it("carries everything the map's points, popups and list of events in view read", async () => {
+    const body = await ((await load(PERIOD)) as Response).json();
+    for (const feature of body.features) {
+      expect(Object.keys(feature.properties).sort()).toEqual(
+        [
+          "address",
+          "classAConcentrateGal",
+          "classBConcentrateGal",
+          "concentrateGal",
+          "drainageBasin",
+          "foamClass",
+          "id",
+          "kind",
+          "nearestWaterway",
+          "nearestWaterwayM",
+          "number",
+          "pfasContaining",
+          "solutionGal",
+          "startedAt",
+          "station",
+          "status",
+          "waterGal",
+          "withinWaterwayBuffer",
+        ].sort(),
+      );
+      expect(new Date(feature.properties.startedAt).toISOString().replace(".000Z", "Z")).toBe(
+        feature.properties.startedAt,
+      );
+      for (const coordinate of feature.geometry.coordinates) {
+        expect(Math.round(coordinate * 1e5) / 1e5).toBe(coordinate);
+      }
+      if (feature.properties.nearestWaterwayM !== null) {
+        expect(Number.isInteger(feature.properties.nearestWaterwayM)).toBe(true);
+      }
+    }
+  });
+
+  it("sends the same events gzipped on request, and 304 for the tag it gave until a report changes", async () => {
+    const plain = (await load(PERIOD)) as Response;
+    const etag = plain.headers.get("ETag");
+    expect(etag).toMatch(/^".+"$/);
+    const plainText = await plain.text();
+    const zipped = (await eventsLoader(
+      routeArgs(getRequest(`/api/map/events.geojson?${PERIOD}`, { Cookie: chief, "Accept-Encoding": "gzip, br" })),
+    )) as Response;
+    expect(zipped.headers.get("Content-Encoding")).toBe("gzip");
+    expect(gunzipSync(Buffer.from(await zipped.arrayBuffer())).toString("utf8")).toBe(plainText);
+
+    const again = (await eventsLoader(
+      routeArgs(getRequest(`/api/map/events.geojson?${PERIOD}`, { Cookie: chief, "If-None-Match": etag! })),
+    )) as Response;
+    expect(again.status).toBe(304);
+    expect(await again.text()).toBe("");
+    // Another filter is another answer with its own tag.
+    const other = (await load(`${PERIOD}&class=B`)) as Response;
+    expect(other.headers.get("ETag")).not.toBe(etag);
+
+    // A report's write gives the data a new version: the old tag no longer matches, and the answer is fresh.
+    await bumpDataVersion(db, "reports");
+    const afterWrite = (await eventsLoader(
+      routeArgs(getRequest(`/api/map/events.geojson?${PERIOD}`, { Cookie: chief, "If-None-Match": etag! })),
+    )) as Response;
+    expect(afterWrite.status).toBe(200);
+    expect(afterWrite.headers.get("ETag")).not.toBe(etag);
+    expect(await afterWrite.text()).toBe(plainText);
   });
 
   it("filters by foam class, kind and bounding box", async () => {
     const ofQuery = async (query: string) =>
-      ((await ((await load(`${PERIOD}&${query}`)) as Response).json()).features as { id: number }[]).map((f) => f.id);
+      (
+        (await ((await load(`${PERIOD}&${query}`)) as Response).json()).features as { properties: { id: number } }[]
+      ).map((f) => f.properties.id);
     expect(await ofQuery("class=B")).toEqual([ids.onPond]);
     expect(await ofQuery("kind=test")).toEqual([ids.nearMillrace]);
     expect(await ofQuery("bbox=-98.16,38.73,-98.14,38.74")).toEqual([ids.nearMillrace]);

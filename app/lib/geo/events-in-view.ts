@@ -11,7 +11,6 @@ export type MappedEvent = {
   pfasContaining: boolean;
   concentrateGal: number;
   drainageBasin: string | null;
-  url: string;
   [other: string]: unknown;
 };
 
