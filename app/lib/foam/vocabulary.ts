@@ -284,6 +284,14 @@ export const FIGURE_BASIS_LABELS: Record<FigureBasis, string> = {
   not_recorded: "Not recorded",
 };
 
+/** Which concentrate figure a PFAS estimate used: the computed one, or a larger tank drawdown. */
+export const CONCENTRATE_FIGURES = ["computed", "tank-drawdown"] as const;
+export type ConcentrateFigure = (typeof CONCENTRATE_FIGURES)[number];
+export const CONCENTRATE_FIGURE_LABELS: Record<ConcentrateFigure, string> = {
+  computed: "Computed from flows, times and percentages",
+  "tank-drawdown": "Tank drawdown, larger than computed: conservative figure",
+};
+
 /** The two sums of runoff a regulator reads apart (see `reachedEnvironment` in released-volume.ts). */
 export const RELEASED_TO_ENVIRONMENT_LABEL =
   "Released to the environment (soil, storm drain, surface water, unknown, sewer without notice)";
