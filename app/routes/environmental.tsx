@@ -8,7 +8,7 @@ import { lastCompleteQuarter, parseReportPeriod, periodQuery, type ReportPeriod 
 import { localDateTime } from "~/lib/time-zone";
 import { can } from "~/lib/access";
 import { flashHeaders } from "~/lib/session.server";
-import { FOAM_CLASS_LABELS, RQ_ANSWER_LABELS } from "~/lib/foam/vocabulary";
+import { COUNTED_REPORTS, FOAM_CLASS_LABELS, RQ_ANSWER_LABELS } from "~/lib/foam/vocabulary";
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { eventsChangedSince, periodAggregates, pfasRows } from "~/models/environmental-report.server";
 import { latestSubmissionFor, listSubmissions } from "~/models/quarterly-submission.server";
@@ -243,6 +243,9 @@ export default function Environmental({ loaderData, actionData }: Route.Componen
             ({period.from} to {period.to}, {agency.timeZone})
           </span>
         </h2>
+        <p className="text-sm text-slate-ft" data-testid="quarter-counted">
+          Reports counted in the totals below: {COUNTED_REPORTS.accepted}.
+        </p>
         <dl className="grid gap-x-6 gap-y-2 sm:grid-cols-2 lg:grid-cols-3">
           <Figure label="Accepted reports counted" value={String(figures.accepted)} />
           <Figure label="Filed, awaiting review (not counted)" value={String(figures.awaitingReview)} />

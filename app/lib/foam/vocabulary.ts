@@ -139,11 +139,30 @@ export function isPfasContentUnit(value: unknown): value is PfasContentUnit {
 /** The three volumes every discharge and every report is totalled in. */
 export const VOLUMES = ["water", "concentrate", "solution"] as const;
 export type VolumeName = (typeof VOLUMES)[number];
+/** The three big figures of a report: computed from what was entered, not a proportioner's readout. */
 export const VOLUME_LABELS: Record<VolumeName, string> = {
-  water: "Water",
-  concentrate: "Concentrate",
-  solution: "Foam solution",
+  water: "Computed water",
+  concentrate: "Computed concentrate",
+  solution: "Computed solution",
 };
+
+/**
+ * Which reports a total counts, in the same words beside every total: the quarter counts accepted
+ * reports only, the map filed, returned and accepted ones, the events list those and one's own drafts.
+ */
+export const COUNTED_REPORTS = {
+  accepted: "accepted only",
+  submitted: "filed, returned and accepted",
+  withDrafts: "filed, returned and accepted, including your drafts",
+} as const;
+
+/** The events list's words for what its total counts, with or without a status filter. */
+export function countedReportsOfList(status: EventStatus | undefined): string {
+  if (!status) return COUNTED_REPORTS.withDrafts;
+  if (status === "draft") return "your drafts only";
+  if (status === "accepted") return COUNTED_REPORTS.accepted;
+  return `${EVENT_STATUS_LABELS[status].toLowerCase()} only`;
+}
 
 export const FLOW_UNIT_LABELS: Record<FlowUnit, string> = {
   gpm: "gpm",
