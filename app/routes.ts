@@ -9,6 +9,7 @@ export default [
   route("admin/settings", "routes/admin.settings.tsx"),
   route("api/me", "routes/api.me.ts"),
   route("events", "routes/events._index.tsx"),
+  route("review", "routes/review.tsx"),
   route("events.csv", "routes/events.csv.ts"),
   route("events/new", "routes/events.new.tsx"),
   route("events/:id", "routes/events.$id.tsx"),

@@ -17,8 +17,8 @@ describe("the menu and the home page follow the access table", () => {
   });
 
   it("offers the review queue to reviewers only, and filing to officers only", () => {
-    expect(tasksFor("environmental").map((task) => task.to)).toContain("/events?status=filed");
-    expect(tasksFor("officer").map((task) => task.to)).not.toContain("/events?status=filed");
+    expect(tasksFor("environmental").map((task) => task.to)).toContain("/review");
+    expect(tasksFor("officer").map((task) => task.to)).not.toContain("/review");
     expect(tasksFor("officer").map((task) => task.to)).toContain("/events/new");
     expect(tasksFor("chief").map((task) => task.to)).not.toContain("/events/new");
   });

@@ -7,7 +7,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: "/", label: "Home", capability: "signed-in" },
   { to: "/events/new", label: "New report", capability: "report.create" },
   { to: "/events", label: "Events", capability: "report.read" },
-  { to: "/events?status=filed", label: "To review", capability: "report.review" },
+  { to: "/review", label: "To review", capability: "report.review" },
   { to: "/admin/users", label: "People and roles", capability: "users.manage" },
   { to: "/admin/settings", label: "Agency settings", capability: "settings.read" },
   { to: "/products", label: "Foam products", capability: "catalogue.read" },

@@ -797,11 +797,12 @@ export async function eventsChangedSince(
     .select("e.number", "e.revision", "e.updated_at", "e.status")
     .orderBy(["e.updated_at", "e.number"]);
   return [
+    // A revision row keeps the state it replaced: the revision made is the next one.
     ...revisions.map((row) => ({
       number: row.number,
-      revision: Number(row.revision),
+      revision: Number(row.revision) + 1,
       changedAt: row.created_at,
-      reason: row.reason,
+      reason: `Revision ${Number(row.revision) + 1} filed in place of revision ${Number(row.revision)}: ${row.reason}`,
     })),
     ...updated
       .filter((row) => !seen.has(row.number))
@@ -809,7 +810,7 @@ export async function eventsChangedSince(
         number: row.number,
         revision: Number(row.revision),
         changedAt: row.updated_at,
-        reason: `Record changed after submission (now ${EVENT_STATUS_LABELS[row.status as EventStatus] ?? String(row.status)})`,
+        reason: `Revision ${Number(row.revision)} changed after submission (now ${EVENT_STATUS_LABELS[row.status as EventStatus] ?? String(row.status)})`,
       })),
   ];
 }

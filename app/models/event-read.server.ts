@@ -560,6 +560,7 @@ const ACTION_LABELS: Record<string, string> = {
   report_draft_saved: "Saved the draft",
   report_filed: "Filed the report",
   report_revised: "Revised the accepted report",
+  report_changed_in_review: "Changed the filed report",
   report_accepted: "Accepted the report",
   report_returned: "Returned the report",
 };

@@ -156,6 +156,16 @@ export const COUNTED_REPORTS = {
   withDrafts: "filed, returned and accepted, including your drafts",
 } as const;
 
+/** What a reviewer should look at first on a filed report, as the "To review" queue flags it. */
+export const REVIEW_FLAGS = ["pfas", "to-water", "warnings", "no-location"] as const;
+export type ReviewFlag = (typeof REVIEW_FLAGS)[number];
+export const REVIEW_FLAG_LABELS: Record<ReviewFlag, string> = {
+  pfas: "PFAS-containing foam",
+  "to-water": "Storm drain or surface water",
+  warnings: "Warnings",
+  "no-location": "No location",
+};
+
 /** The events list's words for what its total counts, with or without a status filter. */
 export function countedReportsOfList(status: EventStatus | undefined): string {
   if (!status) return COUNTED_REPORTS.withDrafts;
