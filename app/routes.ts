@@ -4,6 +4,8 @@ export default [
   index("routes/home.tsx"),
   route("sign-in", "routes/sign-in.tsx"),
   route("sign-out", "routes/sign-out.tsx"),
+  route("forgot-password", "routes/forgot-password.tsx"),
+  route("reset-password/:token", "routes/reset-password.$token.tsx"),
   route("profile", "routes/profile.tsx"),
   route("admin/users", "routes/admin.users.tsx"),
   route("admin/settings", "routes/admin.settings.tsx"),

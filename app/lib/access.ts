@@ -255,6 +255,8 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "": { GET: "signed-in" },
   "sign-in": { GET: "public", POST: "public" },
   "sign-out": { GET: "public", POST: "public" },
+  "forgot-password": { GET: "public", POST: "public" },
+  "reset-password/:token": { GET: "public", POST: "public" },
   profile: { GET: "signed-in", POST: "signed-in" },
   "admin/users": { GET: "users.manage", POST: "users.manage" },
   "admin/settings": { GET: "settings.read", POST: "settings.edit" },
