@@ -15,9 +15,9 @@ export function AppShell({
   demoMode: boolean;
   children: React.ReactNode;
 }) {
-  const items = user ? navFor(user.roles) : [];
+  const items = user ? navFor(user.roles, demoMode) : [];
   const location = useLocation();
-  // A link with a query (such as the review queue) is current only with that query; its plain
+  // A link with a query is current only with that query; its plain
   // sibling is current only when no such link is.
   const current = (to: string, pathActive: boolean) => {
     const [path, query] = to.split("?");

@@ -9,6 +9,12 @@ describe("the menu and the home page follow the access table", () => {
     expect(tasksFor("admin").some((task) => task.to?.startsWith("/events"))).toBe(false);
   });
 
+  it("links the mail outbox for the administrator where it exists, in demo mode", () => {
+    expect(navFor(["admin"], true).map((item) => item.to)).toContain("/admin/outbox");
+    expect(navFor(["admin"], false).map((item) => item.to)).not.toContain("/admin/outbox");
+    expect(navFor(["chief"], true).map((item) => item.to)).not.toContain("/admin/outbox");
+  });
+
   it("gives a person with two roles the menu items of both, once each", () => {
     const menu = navFor(["admin", "records"]).map((item) => item.to);
     expect(menu).toContain("/events");
@@ -17,8 +23,8 @@ describe("the menu and the home page follow the access table", () => {
   });
 
   it("offers the review queue to reviewers only, and filing to officers only", () => {
-    expect(tasksFor("environmental").map((task) => task.to)).toContain("/events?status=filed");
-    expect(tasksFor("officer").map((task) => task.to)).not.toContain("/events?status=filed");
+    expect(tasksFor("environmental").map((task) => task.to)).toContain("/review");
+    expect(tasksFor("officer").map((task) => task.to)).not.toContain("/review");
     expect(tasksFor("officer").map((task) => task.to)).toContain("/events/new");
     expect(tasksFor("chief").map((task) => task.to)).not.toContain("/events/new");
   });

@@ -1,13 +1,14 @@
 import { type Capability, type Role, rolesCan } from "~/lib/access";
 
-export type NavItem = { to: string; label: string; capability: Capability | "signed-in" };
+/** `demoOnly`: the page exists in demo mode only (the outbox of the local mail fake). */
+export type NavItem = { to: string; label: string; capability: Capability | "signed-in"; demoOnly?: boolean };
 
 /** The menu; each item shows for the roles the access table gives its capability. */
 export const NAV_ITEMS: NavItem[] = [
   { to: "/", label: "Home", capability: "signed-in" },
   { to: "/events/new", label: "New report", capability: "report.create" },
   { to: "/events", label: "Events", capability: "report.read" },
-  { to: "/events?status=filed", label: "To review", capability: "report.review" },
+  { to: "/review", label: "To review", capability: "report.review" },
   { to: "/admin/users", label: "People and roles", capability: "users.manage" },
   { to: "/admin/settings", label: "Agency settings", capability: "settings.read" },
   { to: "/products", label: "Foam products", capability: "catalogue.read" },
@@ -15,8 +16,11 @@ export const NAV_ITEMS: NavItem[] = [
   { to: "/map", label: "Usage map", capability: "usage.map" },
   { to: "/geography", label: "Drainage layers", capability: "geography.edit" },
   { to: "/environmental", label: "Quarterly summaries", capability: "exports.quarterly" },
+  { to: "/admin/outbox", label: "Mail outbox", capability: "outbox.view", demoOnly: true },
 ];
 
-export function navFor(roles: readonly Role[]): NavItem[] {
-  return NAV_ITEMS.filter((item) => item.capability === "signed-in" || rolesCan(roles, item.capability));
+export function navFor(roles: readonly Role[], demoMode = false): NavItem[] {
+  return NAV_ITEMS.filter(
+    (item) => (demoMode || !item.demoOnly) && (item.capability === "signed-in" || rolesCan(roles, item.capability)),
+  );
 }

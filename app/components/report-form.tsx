@@ -84,6 +84,8 @@ export type ReportFormProps = {
   products: ProductOption[];
   /** The number a new report gets when the field is left blank (nothing is reserved). */
   numberSuggestion?: string;
+  /** A reviewer changing a report someone else filed gives a reason (`changeReasonFor`). */
+  reasonRequired?: boolean;
 };
 
 type TotalsVolume = { gal: number; L: number };
@@ -453,23 +455,28 @@ export function ReportForm(props: ReportFormProps) {
           </ol>
         </section>
 
-        {accepted ? (
+        {accepted || props.reasonRequired ? (
           <section className="card" aria-labelledby="revision-title">
             <h2 id="revision-title" className="text-lg font-semibold">
-              Reason for this revision
+              {accepted ? "Reason for this revision" : "Reason for this change"}
             </h2>
             <p className="text-sm text-slate-ft">
-              This report was accepted. Your change becomes a new revision and goes back for review.
+              {accepted
+                ? "This report was accepted. Your change becomes a new revision and goes back for review."
+                : "Someone else filed this report. Your reason is kept in its history with your name."}
             </p>
             <textarea
               name="revisionReason"
               id="revision-reason"
-              aria-label="Reason for this revision"
+              aria-label={accepted ? "Reason for this revision" : "Reason for this change"}
+              aria-invalid={form.allErrors.revisionReason ? true : undefined}
+              aria-describedby={form.allErrors.revisionReason ? "revision-reason-error" : undefined}
               rows={2}
               className="field-input"
               maxLength={500}
               required
             />
+            <ErrorList id="revision-reason-error" errors={form.allErrors.revisionReason} />
           </section>
         ) : null}
 

@@ -68,6 +68,15 @@ export type SummaryReport = {
   }>;
   /** Foam solution no runoff line accounts for (`unaccountedGallons`); 0 when they add up. */
   unaccountedGal: number;
+  /** Each tank's drawdown beside the concentrate computed for it (absent on older snapshots). */
+  drawdowns?: Array<{
+    apparatus: string | null;
+    product: string | null;
+    computedGal: number;
+    drawdownGal: number;
+    drawdownExceeds: boolean;
+    pfasContaining: boolean;
+  }>;
   tankReadings: Array<{
     apparatus: string | null;
     product: string | null;
@@ -287,6 +296,7 @@ export function ReportSummary({ report }: { report: SummaryReport }) {
                 </li>
               ))}
             </ul>
+            <DrawdownTable drawdowns={report.drawdowns ?? []} />
           </>
         ) : null}
       </section>
@@ -300,5 +310,40 @@ function Item({ label, value }: { label: string; value: string }) {
       <dt className="text-sm font-semibold text-slate-ft">{label}</dt>
       <dd>{value}</dd>
     </div>
+  );
+}
+
+function DrawdownTable({ drawdowns }: { drawdowns: NonNullable<SummaryReport["drawdowns"]> }) {
+  if (drawdowns.length === 0) return null;
+  return (
+    <table className="data-table mt-3" data-testid="drawdowns">
+      <caption className="text-left text-sm font-semibold">Tank drawdown beside computed concentrate</caption>
+      <thead>
+        <tr>
+          <th scope="col">Apparatus · concentrate</th>
+          <th scope="col">Computed concentrate (gal)</th>
+          <th scope="col">Tank drawdown (gal)</th>
+          <th scope="col">Figure for PFAS estimates</th>
+        </tr>
+      </thead>
+      <tbody>
+        {drawdowns.map((line, index) => (
+          <tr key={index}>
+            <td>
+              {line.apparatus ?? "any apparatus"} · {line.product ?? "any concentrate"}
+            </td>
+            <td>{gal(line.computedGal)}</td>
+            <td>{gal(line.drawdownGal)}</td>
+            <td>
+              {line.drawdownExceeds
+                ? line.pfasContaining
+                  ? "Tank drawdown: larger than computed, counted as the conservative figure"
+                  : "Tank drawdown is larger than computed"
+                : "Computed"}
+            </td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
   );
 }

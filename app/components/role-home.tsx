@@ -9,7 +9,7 @@ type Task = { label: string; capability: Capability; to?: string; note?: string 
  */
 export const HOME_TASKS: Task[] = [
   { label: "File a foam-usage report for your crew's event", capability: "report.create", to: "/events/new" },
-  { label: "Review filed reports", capability: "report.review", to: "/events?status=filed" },
+  { label: "Review filed reports", capability: "report.review", to: "/review" },
   { label: "Events and their usage reports", capability: "report.read", to: "/events" },
   { label: "Usage across the district on the map", capability: "usage.map", to: "/map" },
   { label: "Quarterly runoff and PFAS summaries", capability: "exports.quarterly", to: "/environmental" },

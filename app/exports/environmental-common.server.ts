@@ -147,7 +147,7 @@ export function methodLines(agency: AgencySettings): [string, string][] {
     ],
     [
       "Estimates",
-      "Every figure here is an estimate from entered flows, durations and percentages, not a measurement. Concentrate tank drawdowns, where recorded, are compared on each report and differences are flagged as warnings.",
+      "Every figure here is an estimate from entered flows, durations and percentages, not a measurement. Concentrate tank drawdowns, where recorded, are compared on each report and differences are flagged as warnings. Where a tank drawdown exceeds the computed concentrate, the PFAS sheet counts the larger figure as the conservative one and says so in its “Concentrate figure” column.",
     ],
     [
       "Cautions",

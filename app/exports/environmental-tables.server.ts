@@ -1,6 +1,11 @@
 import type { Db } from "~/lib/db.server";
 import { figureBasis } from "~/lib/foam/figure-basis";
-import { FIGURE_BASIS_LABELS, PFAS_CONTENT_UNIT_LABELS, isPfasContentUnit } from "~/lib/foam/vocabulary";
+import {
+  CONCENTRATE_FIGURE_LABELS,
+  FIGURE_BASIS_LABELS,
+  PFAS_CONTENT_UNIT_LABELS,
+  isPfasContentUnit,
+} from "~/lib/foam/vocabulary";
 import { LITRES_PER_US_GALLON } from "~/lib/foam/units";
 import type { ReportPeriod } from "~/lib/reporting/period";
 import {
@@ -212,18 +217,38 @@ export function pfasColumns(wall: WallClock, thresholdLb: number): Column<PfasRo
       value: (r) => FIGURE_BASIS_LABELS[figureBasis(r.contentSource)],
     },
     {
+      key: "computedConcentrate",
+      header: "Computed concentrate (US gal)",
+      width: 12,
+      numFmt: GAL,
+      value: (r) => r.computedConcentrateGallons,
+    },
+    {
+      key: "drawdown",
+      header: "Tank drawdown (US gal)",
+      width: 12,
+      numFmt: GAL,
+      value: (r) => r.drawdownGallons,
+    },
+    {
       key: "concentrate",
-      header: "Concentrate used (US gal)",
+      header: "Concentrate counted for PFAS (US gal)",
       width: 12,
       numFmt: GAL,
       value: (r) => r.concentrateGallons,
     },
     {
       key: "concentrateL",
-      header: "Concentrate used (L)",
+      header: "Concentrate counted for PFAS (L)",
       width: 12,
       numFmt: LITRES,
       value: (r) => litres(r.concentrateGallons),
+    },
+    {
+      key: "concentrateFigure",
+      header: "Concentrate figure",
+      width: 22,
+      value: (r) => CONCENTRATE_FIGURE_LABELS[r.concentrateFigure],
     },
     {
       key: "grams",
@@ -302,6 +327,9 @@ export function pfasColumns(wall: WallClock, thresholdLb: number): Column<PfasRo
             ? "PFOA or PFOS content not recorded: whether the reportable quantity was reached is unknown (mixture rule, 40 CFR 302.6(b)(1)(ii))."
             : "",
           r.content === null ? "Total PFAS content not recorded." : "",
+          r.concentrateFigure === "tank-drawdown"
+            ? "Tank drawdown exceeds the computed concentrate: the larger figure is counted, as the conservative one."
+            : "",
           r.dispositionsRecorded ? "" : "No runoff dispositions recorded: all of it counted as released.",
         ]
           .filter(Boolean)

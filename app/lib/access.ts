@@ -227,6 +227,19 @@ export function decide<C extends Capability>(
   return check(principal, capability, record) ? "allow" : "forbidden";
 }
 
+export type ChangeReason = "revision" | "review-edit";
+
+/**
+ * Which changes must give their reason, for the report's history: a revision of an accepted report,
+ * and a reviewer's edit of a report someone else filed (the officer who filed it may still correct
+ * it until the review without one).
+ */
+export function changeReasonFor(principal: Principal, report: ReportRecord): ChangeReason | null {
+  if (report.status === "accepted") return "revision";
+  if (report.status === "filed" && report.createdBy !== principal.id) return "review-edit";
+  return null;
+}
+
 /** Changing a report is editing it, or revising it once it is accepted. */
 export function changeCapabilityFor(status: ReportStatus): "report.edit" | "report.revise" {
   return status === "accepted" ? "report.revise" : "report.edit";
@@ -242,11 +255,14 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "": { GET: "signed-in" },
   "sign-in": { GET: "public", POST: "public" },
   "sign-out": { GET: "public", POST: "public" },
+  "forgot-password": { GET: "public", POST: "public" },
+  "reset-password/:token": { GET: "public", POST: "public" },
   profile: { GET: "signed-in", POST: "signed-in" },
   "admin/users": { GET: "users.manage", POST: "users.manage" },
   "admin/settings": { GET: "settings.read", POST: "settings.edit" },
   "api/me": { GET: "signed-in" },
   events: { GET: "report.read" },
+  review: { GET: "report.review" },
   "events.csv": { GET: "report.read" },
   "events/new": { GET: "report.create", POST: "report.create" },
   "events/:id": { GET: "report.read", POST: "report.review" },

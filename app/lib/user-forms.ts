@@ -66,3 +66,23 @@ export const EndSessionsSchema = z.object({
   intent: z.literal("end-sessions"),
   userId: z.coerce.number().int().positive(),
 });
+
+/** "Forgot your password?": the address to send a link to. */
+export const RequestPasswordResetSchema = z.object({ email });
+
+/** A new password set through a reset link, by the same rules as every new password. */
+export const ResetPasswordSchema = z
+  .object({
+    newPassword,
+    confirmPassword: z.string({ error: "Repeat the new password." }),
+  })
+  .refine((value) => value.newPassword === value.confirmPassword, {
+    path: ["confirmPassword"],
+    message: "The two new passwords do not match.",
+  });
+
+/** An administrator's "Send reset link" on one person. */
+export const SendResetLinkSchema = z.object({
+  intent: z.literal("send-reset"),
+  userId: z.coerce.number().int().positive(),
+});

@@ -1,6 +1,7 @@
 import type { Knex } from "knex";
 import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
+import { conservativeConcentrate, type ConcentrateLine } from "~/lib/foam/drawdown";
 import {
   gramsToPoundsMass,
   pfasGrams,
@@ -30,6 +31,7 @@ import {
   isPfasContentUnit,
   NOTIFIED_PARTY_LABELS,
   type NotifiedParty,
+  type ConcentrateFigure,
   type RqAnswer,
   WATER_ONLY_LABEL,
   type Disposition,
@@ -38,6 +40,7 @@ import {
   type FlowBasis,
   type FoamType,
 } from "~/lib/foam/vocabulary";
+import type { TankReading } from "~/lib/foam/totals";
 import type { FlowUnit } from "~/lib/foam/units";
 import type { ReportPeriod } from "~/lib/reporting/period";
 import { wallClockIn } from "~/lib/time-zone";
@@ -519,7 +522,15 @@ export type PfasRow = {
   contentUnit: string;
   contentBasis: string;
   contentSource: string;
+  /**
+   * Concentrate the PFAS figures use: the computed figure, or a larger tank drawdown
+   * (`conservativeConcentrate`), as `concentrateFigure` says.
+   */
   concentrateGallons: number;
+  computedConcentrateGallons: number;
+  /** What the tank readings attributable to this product say left the tanks; null: no reading. */
+  drawdownGallons: number | null;
+  concentrateFigure: ConcentrateFigure;
   /** Share of the event's foam solution not contained and collected, 0–1. */
   shareNotContained: number;
   dispositionsRecorded: boolean;
@@ -628,6 +639,7 @@ async function pfasRowsAround(
       "e.status",
       "e.started_at",
       "e.solution_gal as event_solution_gal",
+      "p.id as product_id",
       "p.name",
       "p.pfas_content",
       "p.pfas_content_unit",
@@ -647,11 +659,12 @@ async function pfasRowsAround(
     .sum({ concentrate: "d.concentrate_gal", solution: "d.solution_gal" })
     .groupBy("e.id", "p.id")
     .orderBy(["e.started_at", "e.id", "p.name"]);
-  const uses: PfasUse[] = rows.map((row) => {
+  const concentrate = await concentrateFigures(rows, connection);
+  const uses: PfasUse[] = rows.map((row, index) => {
     const solution = num(row.event_solution_gal);
     return {
       at: (row.first_discharge_at as Date | null) ?? (row.started_at as Date),
-      concentrateGal: num(row.concentrate),
+      concentrateGal: concentrate[index].conservativeGal,
       solutionGal: num(row.solution),
       // Every discharge reached some surface, land included (40 CFR 302.3); net leaves out what was contained.
       grossShare: 1,
@@ -694,7 +707,10 @@ async function pfasRowsAround(
       contentUnit: unit ?? "",
       contentBasis: row.pfas_content_basis ?? "",
       contentSource: row.pfas_content_source ?? "",
-      concentrateGallons: num(row.concentrate),
+      concentrateGallons: concentrate[index].conservativeGal,
+      computedConcentrateGallons: concentrate[index].computedGal,
+      drawdownGallons: concentrate[index].drawdownGal,
+      concentrateFigure: concentrate[index].basis,
       shareNotContained: use.netShare,
       dispositionsRecorded: num(row.disposition_count) > 0,
       gramsInConcentrate,
@@ -712,6 +728,50 @@ async function pfasRowsAround(
     });
   });
   return result;
+}
+
+/** For each (event, product) row, its computed concentrate beside the event's tank readings. */
+async function concentrateFigures(rows: SqlRow[], connection: Db) {
+  const eventIds = [...new Set(rows.map((row) => Number(row.id)))];
+  const [discharges, readings] = eventIds.length
+    ? await Promise.all([
+        connection("discharges")
+          .whereIn("event_id", eventIds)
+          .select("event_id", "apparatus_id", "product_id", "concentrate_gal"),
+        connection("tank_readings")
+          .whereIn("event_id", eventIds)
+          .select("event_id", "apparatus_id", "product_id", "refill_gal", "level_before_gal", "level_after_gal"),
+      ])
+    : [[], []];
+  const linesOf = new Map<number, ConcentrateLine[]>();
+  for (const line of discharges as SqlRow[]) {
+    const list = linesOf.get(Number(line.event_id)) ?? [];
+    list.push({
+      apparatusId: line.apparatus_id ?? null,
+      productId: line.product_id ?? null,
+      concentrateGal: num(line.concentrate_gal),
+    });
+    linesOf.set(Number(line.event_id), list);
+  }
+  const readingsOf = new Map<number, TankReading[]>();
+  for (const reading of readings as SqlRow[]) {
+    const list = readingsOf.get(Number(reading.event_id)) ?? [];
+    list.push({
+      apparatusId: reading.apparatus_id ?? null,
+      productId: reading.product_id ?? null,
+      refillGal: numOrNull(reading.refill_gal),
+      levelBeforeGal: numOrNull(reading.level_before_gal),
+      levelAfterGal: numOrNull(reading.level_after_gal),
+    });
+    readingsOf.set(Number(reading.event_id), list);
+  }
+  return rows.map((row) =>
+    conservativeConcentrate(
+      linesOf.get(Number(row.id)) ?? [],
+      readingsOf.get(Number(row.id)) ?? [],
+      Number(row.product_id),
+    ),
+  );
 }
 
 export type AmendedEvent = { number: string; revision: number; changedAt: Date; reason: string };
@@ -737,11 +797,12 @@ export async function eventsChangedSince(
     .select("e.number", "e.revision", "e.updated_at", "e.status")
     .orderBy(["e.updated_at", "e.number"]);
   return [
+    // A revision row keeps the state it replaced: the revision made is the next one.
     ...revisions.map((row) => ({
       number: row.number,
-      revision: Number(row.revision),
+      revision: Number(row.revision) + 1,
       changedAt: row.created_at,
-      reason: row.reason,
+      reason: `Revision ${Number(row.revision) + 1} filed in place of revision ${Number(row.revision)}: ${row.reason}`,
     })),
     ...updated
       .filter((row) => !seen.has(row.number))
@@ -749,7 +810,7 @@ export async function eventsChangedSince(
         number: row.number,
         revision: Number(row.revision),
         changedAt: row.updated_at,
-        reason: `Record changed after submission (now ${EVENT_STATUS_LABELS[row.status as EventStatus] ?? String(row.status)})`,
+        reason: `Revision ${Number(row.revision)} changed after submission (now ${EVENT_STATUS_LABELS[row.status as EventStatus] ?? String(row.status)})`,
       })),
   ];
 }

@@ -4,7 +4,8 @@ import type { SessionUser } from "~/lib/auth.server";
 import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
 import { releasedGallons, unaccountedGallons } from "~/lib/foam/released-volume";
-import type { UsageWarning } from "~/lib/foam/totals";
+import { drawdownComparisons, type ConcentrateLine, type DrawdownComparison } from "~/lib/foam/drawdown";
+import type { TankReading, UsageWarning } from "~/lib/foam/totals";
 import { roundForDisplay, volumeFromGallons, type Volume } from "~/lib/foam/units";
 import {
   EVENT_KINDS,
@@ -189,6 +190,7 @@ function reportDetailOf({ event, discharges, dispositions, tankReadings }: Repor
       })),
       solutionGal,
     ),
+    drawdowns: drawdownsOf(discharges, tankReadings),
     tankReadings: tankReadings.map((row) => ({
       apparatusId: (row.apparatus_id as number | null) ?? null,
       apparatus: (row.apparatus_unit_id as string | null) ?? null,
@@ -199,6 +201,48 @@ function reportDetailOf({ event, discharges, dispositions, tankReadings }: Repor
       levelAfterGal: decimalOrNull(row.level_after_gal),
     })),
   };
+}
+
+export type DrawdownLine = DrawdownComparison & {
+  apparatus: string | null;
+  product: string | null;
+  /** Some discharge these readings cover used PFAS-containing foam. */
+  pfasContaining: boolean;
+};
+
+/** Each tank the readings name: its drawdown beside the concentrate computed for it. */
+function drawdownsOf(discharges: SqlRow[], tankReadings: SqlRow[]): DrawdownLine[] {
+  const lines: Array<ConcentrateLine & { pfas: boolean }> = discharges.map((row) => ({
+    apparatusId: (row.apparatus_id as number | null) ?? null,
+    productId: (row.product_id as number | null) ?? null,
+    concentrateGal: decimalOrZero(row.concentrate_gal),
+    pfas: Boolean(row.product_pfas),
+  }));
+  const readings: TankReading[] = tankReadings.map((row) => ({
+    apparatusId: (row.apparatus_id as number | null) ?? null,
+    productId: (row.product_id as number | null) ?? null,
+    refillGal: decimalOrNull(row.refill_gal),
+    levelBeforeGal: decimalOrNull(row.level_before_gal),
+    levelAfterGal: decimalOrNull(row.level_after_gal),
+  }));
+  return drawdownComparisons(lines, readings).map((comparison) => {
+    const named = tankReadings.find(
+      (row) =>
+        ((row.apparatus_id as number | null) ?? null) === comparison.apparatusId &&
+        ((row.product_id as number | null) ?? null) === comparison.productId,
+    );
+    return {
+      ...comparison,
+      apparatus: (named?.apparatus_unit_id as string | null) ?? null,
+      product: (named?.product_name as string | null) ?? null,
+      pfasContaining: lines.some(
+        (line) =>
+          line.pfas &&
+          (comparison.apparatusId == null || line.apparatusId === comparison.apparatusId) &&
+          (comparison.productId == null || line.productId === comparison.productId),
+      ),
+    };
+  });
 }
 
 export type RevisionEntry = { revision: number; reason: string; changedAt: string; changedBy: string };
@@ -535,6 +579,7 @@ const ACTION_LABELS: Record<string, string> = {
   report_draft_saved: "Saved the draft",
   report_filed: "Filed the report",
   report_revised: "Revised the accepted report",
+  report_changed_in_review: "Changed the filed report",
   report_accepted: "Accepted the report",
   report_returned: "Returned the report",
 };

@@ -14,7 +14,7 @@ import {
 } from "~/lib/foam/report-schema";
 import { boundedDraft } from "~/lib/foam/report-draft.server";
 import { computeUsage, type DischargeInput, type TankReading, type UsageResult } from "~/lib/foam/totals";
-import { changeCapabilityFor, decide } from "~/lib/access";
+import { changeCapabilityFor, changeReasonFor, decide } from "~/lib/access";
 import { EVENT_KINDS, type EventKind, type EventStatus } from "~/lib/foam/vocabulary";
 import { wallClockToInstant } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
@@ -376,7 +376,8 @@ async function loadReport(trx: Knex.Transaction, request: SaveRequest): Promise<
   return { columns, lines, stored, usage, row };
 }
 
-type StatusChange = { status: EventStatus; revision: number; revised: boolean };
+/** `reviewEdit`: a reviewer changed a report someone else filed, with a reason. */
+type StatusChange = { status: EventStatus; revision: number; revised: boolean; reviewEdit?: boolean };
 
 /**
  * Step 2: whether this person may make this change to this report now. Access first, then the
@@ -413,10 +414,19 @@ function checkStatusChange(request: SaveRequest, row: LoadedReport["row"]): Stat
   if (row.status === "filed" && !filing) {
     refuse(refused(400, "This report has been filed. Change it and file it again, or wait for the review."));
   }
+  const reviewEdit = changeReasonFor(request.user, reportRecordOf(row)) === "review-edit";
+  if (reviewEdit && !request.revisionReason) {
+    refuse(
+      refused(400, "Give the reason for changing a report someone else filed.", {
+        revisionReason: ["Give the reason for changing a report someone else filed; it is kept in the history."],
+      }),
+    );
+  }
   return {
     status: filing ? "filed" : row.status === "returned" ? "returned" : "draft",
     revision: row.revision,
     revised: false,
+    reviewEdit,
   };
 }
 
@@ -481,11 +491,13 @@ async function auditReport(
   const after = await snapshotEvent(eventId, trx);
   const action = change.revised
     ? "report_revised"
-    : filing
-      ? "report_filed"
-      : before
-        ? "report_draft_saved"
-        : "report_created";
+    : change.reviewEdit
+      ? "report_changed_in_review"
+      : filing
+        ? "report_filed"
+        : before
+          ? "report_draft_saved"
+          : "report_created";
   const count = lines.discharges.length;
   await recordAudit(
     {
@@ -496,9 +508,11 @@ async function auditReport(
       entityId: eventId,
       summary: change.revised
         ? `Revision ${change.revision}: ${request.revisionReason}`
-        : filing
-          ? `Filed with ${count} discharge${count === 1 ? "" : "s"}`
-          : "Draft saved",
+        : change.reviewEdit
+          ? `Reason: ${request.revisionReason}`
+          : filing
+            ? `Filed with ${count} discharge${count === 1 ? "" : "s"}`
+            : "Draft saved",
       before: before ?? undefined,
       after,
       clientAddress: request.clientAddress,

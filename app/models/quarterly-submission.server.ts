@@ -2,6 +2,8 @@ import { readFile } from "node:fs/promises";
 import { recordAudit } from "~/lib/audit.server";
 import { db, type Db } from "~/lib/db.server";
 import type { ReportPeriod } from "~/lib/reporting/period";
+import { instantToWallClock, localDateTime } from "~/lib/time-zone";
+import { readAgencySettings } from "./agency-settings.server";
 
 export type SubmissionSummary = {
   id: number;
@@ -65,6 +67,32 @@ export async function latestSubmissionFor(
     .orderBy("q.id", "desc")
     .first();
   return row ? toSummary(row) : null;
+}
+
+export type SubmittedPeriod = { label: string; submittedAt: string; submittedBy: string };
+
+/**
+ * The period already marked submitted that holds this report's start (the agency's calendar day),
+ * the latest submission of it; null when no submitted period holds it.
+ */
+export async function submittedPeriodOf(eventId: number, connection: Db = db): Promise<SubmittedPeriod | null> {
+  const event = await connection("events").where({ id: eventId }).first("started_at");
+  if (!event?.started_at) return null;
+  const { timeZone } = await readAgencySettings(connection);
+  const day = instantToWallClock(event.started_at as Date, timeZone).slice(0, 10);
+  const row = await summaryQuery(connection)
+    .where("q.period_from", "<=", day)
+    .where("q.period_to", ">=", day)
+    .orderBy("q.submitted_at", "desc")
+    .orderBy("q.id", "desc")
+    .first();
+  if (!row) return null;
+  const summary = toSummary(row);
+  return {
+    label: summary.label,
+    submittedAt: localDateTime(summary.submittedAt, timeZone),
+    submittedBy: String(row.submitted_by_name),
+  };
 }
 
 export async function listSubmissions(limit = 50): Promise<SubmissionSummary[]> {

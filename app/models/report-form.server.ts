@@ -27,6 +27,7 @@ import { refusalData, refusalStatus } from "~/lib/refusal";
 import { reportSummary, saveReport } from "~/models/event.server";
 import { notificationReason } from "./release-notification.server";
 import { reportAccessRecord } from "~/models/event-read.server";
+import { submittedPeriodOf } from "./quarterly-submission.server";
 
 /**
  * The guard of the edit page: the report named in the URL, if this person may change it (edit it,
@@ -100,11 +101,18 @@ export async function handleReportSubmission(request: Request, guard: () => Prom
       const notice = reason
         ? ` Notification needed: ${reason}. Notify immediately (CERCLA §103, EPCRA §304; state rules add their own) and record it on this page — this report is not a notification.`
         : "";
+      const submitted =
+        outcome.kind === "saved" && outcome.status === "filed" && eventId !== undefined
+          ? await submittedPeriodOf(outcome.eventId)
+          : null;
+      const submittedNote = submitted
+        ? ` This report falls in ${submitted.label}, already marked submitted: the change is listed under “Changed since submission” on the quarterly page.`
+        : "";
       const message =
         outcome.kind === "repeat"
           ? "This form was already sent; here is the report it made."
           : outcome.status === "filed"
-            ? `Report filed. The environmental officer will review it.${notice}`
+            ? `Report filed. The environmental officer will review it.${notice}${submittedNote}`
             : "Draft saved. You can come back to it at any time.";
       const target =
         outcome.kind === "saved" && outcome.status !== "filed"

@@ -7,9 +7,11 @@ import { ADMINISTRATOR, can, ROLE_LABELS, ROLES, type Role } from "~/lib/access"
 import { authorize, requireCapability } from "~/lib/access.server";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress } from "~/lib/http.server";
+import { RESET_LINK_MINUTES } from "~/lib/password-reset";
 import { flashHeaders } from "~/lib/session.server";
-import { CreateUserSchema, EndSessionsSchema, UpdateUserSchema } from "~/lib/user-forms";
+import { CreateUserSchema, EndSessionsSchema, SendResetLinkSchema, UpdateUserSchema } from "~/lib/user-forms";
 import { listStationOptions, type StationOption } from "~/models/catalogue.server";
+import { sendPasswordResetLink } from "~/models/password-reset.server";
 import {
   accountRecord,
   createUser,
@@ -38,7 +40,12 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requireCapability(request, "users.manage");
-  const formData = await readFormData(request, [CreateUserSchema, UpdateUserSchema, EndSessionsSchema]);
+  const formData = await readFormData(request, [
+    CreateUserSchema,
+    UpdateUserSchema,
+    EndSessionsSchema,
+    SendResetLinkSchema,
+  ]);
   const stationIds = new Set((await listStationOptions()).map((station) => station.id));
   const intent = formData.get("intent");
   if (intent === "create") {
@@ -74,6 +81,30 @@ export async function action({ request }: Route.ActionArgs) {
     }
     throw redirect("/admin/users", {
       headers: await flashHeaders(request, `Account created for ${submission.value.email}.`),
+    });
+  }
+  if (intent === "send-reset") {
+    const submission = parseWithZod(formData, { schema: SendResetLinkSchema });
+    const target = submission.status === "success" ? await accountRecord(submission.value.userId) : null;
+    if (submission.status !== "success" || !target) {
+      return data({ intent: "update", result: submission.reply({ formErrors: ["No such person."] }) }, { status: 404 });
+    }
+    authorize(request, actor, "users.manage", target);
+    const sent = await sendPasswordResetLink(submission.value.userId, actor, clientAddress(request));
+    if (!sent) {
+      return data(
+        {
+          intent: "update",
+          result: submission.reply({ formErrors: ["This account is not active: no link was sent."] }),
+        },
+        { status: 400 },
+      );
+    }
+    throw redirect("/admin/users", {
+      headers: await flashHeaders(
+        request,
+        `A reset link is on its way (through the outbox). It works once, for ${RESET_LINK_MINUTES} minutes; earlier links stopped working.`,
+      ),
     });
   }
   if (intent === "end-sessions") {
@@ -328,6 +359,15 @@ function UserRowForm({ user, roles, stations }: { user: UserRow; roles: readonly
             <input type="hidden" name="userId" value={user.id} />
             <button type="submit" className="btn-secondary mt-1" disabled={navigation.state === "submitting"}>
               End sessions<span className="sr-only"> of {user.email}</span>
+            </button>
+          </Form>
+        ) : null}
+        {user.active ? (
+          <Form method="post">
+            <input type="hidden" name="intent" value="send-reset" />
+            <input type="hidden" name="userId" value={user.id} />
+            <button type="submit" className="btn-secondary mt-1" disabled={navigation.state === "submitting"}>
+              Send reset link<span className="sr-only"> to {user.email}</span>
             </button>
           </Form>
         ) : null}

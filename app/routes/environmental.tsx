@@ -8,7 +8,7 @@ import { lastCompleteQuarter, parseReportPeriod, periodQuery, type ReportPeriod 
 import { localDateTime } from "~/lib/time-zone";
 import { can } from "~/lib/access";
 import { flashHeaders } from "~/lib/session.server";
-import { FOAM_CLASS_LABELS, RQ_ANSWER_LABELS } from "~/lib/foam/vocabulary";
+import { COUNTED_REPORTS, FOAM_CLASS_LABELS, RQ_ANSWER_LABELS } from "~/lib/foam/vocabulary";
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { eventsChangedSince, periodAggregates, pfasRows } from "~/models/environmental-report.server";
 import { latestSubmissionFor, listSubmissions } from "~/models/quarterly-submission.server";
@@ -106,6 +106,15 @@ export async function action({ request }: Route.ActionArgs) {
   const back = `/environmental?${periodQuery(period)}`;
   const actor = { user, clientAddress: clientAddress(request) };
   if (intent === "submit") {
+    const already = await latestSubmissionFor(period);
+    if (already) {
+      return data(
+        {
+          error: `${period.label} was already marked submitted on ${localDateTime(already.submittedAt, agency.timeZone)} by ${already.submittedBy}. Changes since are listed under “Changed since submission”; the submitted file stays as it was.`,
+        },
+        { status: 409 },
+      );
+    }
     const note =
       String(formData.get("note") ?? "")
         .trim()
@@ -243,6 +252,9 @@ export default function Environmental({ loaderData, actionData }: Route.Componen
             ({period.from} to {period.to}, {agency.timeZone})
           </span>
         </h2>
+        <p className="text-sm text-slate-ft" data-testid="quarter-counted">
+          Reports counted in the totals below: {COUNTED_REPORTS.accepted}.
+        </p>
         <dl className="grid gap-x-6 gap-y-2 sm:grid-cols-2 lg:grid-cols-3">
           <Figure label="Accepted reports counted" value={String(figures.accepted)} />
           <Figure label="Filed, awaiting review (not counted)" value={String(figures.awaitingReview)} />
@@ -329,12 +341,21 @@ export default function Environmental({ loaderData, actionData }: Route.Componen
               <label htmlFor="note" className="field-label">
                 Note (optional, e.g. where it was sent)
               </label>
-              <input id="note" name="note" maxLength={2000} className="field-input" />
-              <button type="submit" className="btn-primary" disabled={busy}>
+              <input
+                id="note"
+                name="note"
+                maxLength={2000}
+                className="field-input"
+                disabled={submission !== null}
+                aria-describedby="submit-hint"
+              />
+              <button type="submit" className="btn-primary" disabled={busy || submission !== null}>
                 Mark {period.label} submitted
               </button>
-              <p className="text-xs text-slate-ft">
-                Stores this exact workbook with its SHA-256 digest, your name and the time.
+              <p id="submit-hint" className="text-xs text-slate-ft">
+                {submission
+                  ? `${period.label} is already marked submitted; its stored file stays as it was.`
+                  : "Stores this exact workbook with its SHA-256 digest, your name and the time."}
               </p>
             </Form>
             <Form method="post" className="space-y-2">

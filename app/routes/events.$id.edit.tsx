@@ -1,19 +1,24 @@
 import { randomUUID } from "node:crypto";
 import type { Route } from "./+types/events.$id.edit";
 import { ReportForm } from "~/components/report-form";
+import { SubmittedPeriodNote } from "~/components/submitted-period-note";
+import { changeReasonFor } from "~/lib/access";
 import { invariantResponse, requireRecordId } from "~/lib/http.server";
 import { getReport } from "~/models/event-read.server";
 import { formValuesOf, reportFormOptions } from "~/models/report-options.server";
+import { submittedPeriodOf } from "~/models/quarterly-submission.server";
 import { handleReportSubmission, requireReportChange } from "~/models/report-form.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Edit ${data?.number ?? "report"} · Foamtally` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const eventId = requireRecordId(request, params.id, "No such report.");
-  await requireReportChange(request, eventId);
+  const user = await requireReportChange(request, eventId);
   const report = await getReport(eventId);
   invariantResponse(report, "No such report.");
   return {
+    reasonRequired: changeReasonFor(user, report) === "review-edit",
+    submittedPeriod: await submittedPeriodOf(eventId),
     ...(await reportFormOptions()),
     number: report.number,
     version: report.version,
@@ -30,7 +35,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function EditReport({ loaderData, actionData }: Route.ComponentProps) {
-  const { reviewComment, number, ...form } = loaderData;
+  const { reviewComment, number, submittedPeriod, ...form } = loaderData;
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">
@@ -42,6 +47,7 @@ export default function EditReport({ loaderData, actionData }: Route.ComponentPr
           <p className="whitespace-pre-line">{reviewComment}</p>
         </div>
       ) : null}
+      {submittedPeriod ? <SubmittedPeriodNote period={submittedPeriod} changing /> : null}
       <ReportForm {...form} lastResult={actionData?.result} />
     </div>
   );

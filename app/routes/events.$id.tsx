@@ -6,6 +6,7 @@ import type { Route } from "./+types/events.$id";
 import { ErrorList, FormErrors } from "~/components/form-fields";
 import { ReleaseNotifications } from "~/components/release-notifications";
 import { ReportSummary } from "~/components/report-summary";
+import { SubmittedPeriodNote } from "~/components/submitted-period-note";
 import { can, changeCapabilityFor } from "~/lib/access";
 import { authorize, requireCapability } from "~/lib/access.server";
 import { readFormData } from "~/lib/form-data.server";
@@ -19,6 +20,7 @@ import { getReport, listRevisions, reportAccessRecord, reportHistory } from "~/m
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { listReleaseNotifications } from "~/models/release-notification.server";
 import { eventReportableQuantity } from "~/models/environmental-report.server";
+import { submittedPeriodOf } from "~/models/quarterly-submission.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.number ?? "Report"} · Foamtally` }];
 
@@ -40,6 +42,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     ),
     canNotify: report.status !== "draft" && can(user, "report.notify", report),
     timeZone: settings.timeZone,
+    submittedPeriod: report.status === "draft" ? null : await submittedPeriodOf(report.id),
     reportableQuantity:
       report.pfasContaining && report.status !== "draft"
         ? {
@@ -73,8 +76,18 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function EventReport({ loaderData, actionData }: Route.ComponentProps) {
-  const { report, history, revisions, canReview, canEdit, notifications, canNotify, timeZone, reportableQuantity } =
-    loaderData;
+  const {
+    report,
+    history,
+    revisions,
+    canReview,
+    canEdit,
+    notifications,
+    canNotify,
+    timeZone,
+    reportableQuantity,
+    submittedPeriod,
+  } = loaderData;
   return (
     <div className="space-y-6">
       <div className="flex flex-wrap items-start justify-between gap-3">
@@ -107,6 +120,7 @@ export default function EventReport({ loaderData, actionData }: Route.ComponentP
           <p className="whitespace-pre-line">{report.reviewComment}</p>
         </div>
       ) : null}
+      {submittedPeriod ? <SubmittedPeriodNote period={submittedPeriod} /> : null}
       <ReportSummary report={report} />
       {reportableQuantity?.pfoa ? <ReportableQuantity answer={reportableQuantity} /> : null}
       {canReview ? (

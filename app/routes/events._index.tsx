@@ -2,6 +2,7 @@ import { Form, Link, useSearchParams } from "react-router";
 import type { Route } from "./+types/events._index";
 import { requireCapability } from "~/lib/access.server";
 import {
+  countedReportsOfList,
   EVENT_KIND_LABELS,
   EVENT_KINDS,
   EVENT_STATUS_LABELS,
@@ -167,7 +168,10 @@ export default function Events({ loaderData }: Route.ComponentProps) {
           <tfoot>
             <tr className="font-bold" data-testid="totals-row">
               <th scope="row" colSpan={5} className="px-2 py-2 text-left">
-                Total of all {count.toLocaleString("en-US")} matching
+                Total of all {count.toLocaleString("en-US")} matching{" "}
+                <span className="font-normal" data-testid="totals-counted">
+                  ({countedReportsOfList(filters.status)})
+                </span>
               </th>
               <td className="px-2 py-2 text-right tabular-nums">{gal(totals.water)}</td>
               <td className="px-2 py-2 text-right tabular-nums">{gal(totals.concentrate)}</td>

@@ -64,7 +64,7 @@ export default function Home({ loaderData }: Route.ComponentProps) {
       ) : null}
       {awaiting != null ? (
         <p className="card">
-          <Link to="/events?status=filed" className="font-semibold text-pond-700 underline underline-offset-4">
+          <Link to="/review" className="font-semibold text-pond-700 underline underline-offset-4">
             {awaiting} filed report{awaiting === 1 ? "" : "s"} waiting for review
           </Link>
         </p>

@@ -12,6 +12,7 @@ import {
   type UsageMapControl,
 } from "~/components/usage-map";
 import { requireCapability } from "~/lib/access.server";
+import { COUNTED_REPORTS } from "~/lib/foam/vocabulary";
 import { eventsInView, type MappedEventFeature } from "~/lib/geo/events-in-view";
 import {
   BOTH_CLASSES_LABEL,
@@ -199,7 +200,8 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
               ) : null}
             </h2>
             <p className="text-sm text-slate-ft">
-              {summary.from} to {summary.to}; filed, returned and accepted reports (drafts left out). US gallons.
+              {summary.from} to {summary.to}; reports counted: {COUNTED_REPORTS.submitted} (drafts left out). US
+              gallons.
             </p>
             <dl className="mt-2 grid grid-cols-2 gap-x-4 gap-y-1 text-sm">
               <dt>Events</dt>

@@ -1,7 +1,7 @@
 import { getFormProps, useForm } from "@conform-to/react";
 import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
 import { useEffect } from "react";
-import { data, Form, redirect, useNavigation } from "react-router";
+import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/sign-in";
 import { FormErrors, TextField } from "~/components/form-fields";
 import { authenticator, getUser, safeRedirectTo, SignInError } from "~/lib/auth.server";
@@ -79,6 +79,11 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
             {navigation.state === "submitting" ? "Signing in…" : "Sign in"}
           </button>
         </Form>
+        <p className="mt-4 text-sm">
+          <Link to="/forgot-password" className="text-pond-700 underline">
+            Forgot your password?
+          </Link>
+        </p>
       </div>
     </section>
   );

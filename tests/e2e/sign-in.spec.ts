@@ -25,7 +25,7 @@ test.describe("signing in", () => {
         "Quarterly summaries",
       ],
       records: ["Home", "Events"],
-      admin: ["Home", "People and roles", "Agency settings", "Apparatus and stations"],
+      admin: ["Home", "People and roles", "Agency settings", "Apparatus and stations", "Mail outbox"],
     };
     for (const role of Object.keys(expected) as (keyof typeof DEMO)[]) {
       await signInAs(page, role);

@@ -157,9 +157,10 @@ describe("environmental downloads and submission", () => {
       .first();
     const later = new Date(Date.now() + 5_000);
     await db("events").where({ id: event.id }).update({ revision: 1, updated_at: later });
+    // As a save stores it: the revision row keeps revision 0, the state that revision 1 replaced.
     await db("event_revisions").insert({
       event_id: event.id,
-      revision: 1,
+      revision: 0,
       reason: "Corrected the duration of line 1",
       snapshot_json: "{}",
       created_by: event.created_by,
@@ -176,7 +177,12 @@ describe("environmental downloads and submission", () => {
     );
     const heading = summary.findIndex((row) => row[0] === "Changes since submission");
     expect(summary[heading + 1]).toEqual(["Event number", "Revision", "Changed at (local)", "What changed"]);
-    expect(summary[heading + 2]).toEqual([event.number, 1, expect.any(String), "Corrected the duration of line 1"]);
+    expect(summary[heading + 2]).toEqual([
+      event.number,
+      1,
+      expect.any(String),
+      "Revision 1 filed in place of revision 0: Corrected the duration of line 1",
+    ]);
     expect(summary).toHaveLength(heading + 3);
   });
 

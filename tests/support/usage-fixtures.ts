@@ -6,7 +6,13 @@ import type { Knex } from "knex";
 import { db } from "~/lib/db.server";
 import type { EventKind, EventStatus, FlowBasis, FoamClass, FoamType, PfasContentUnit } from "~/lib/foam/vocabulary";
 import { apparatusRow, productRow, stationRow } from "~/models/catalogue-rows.server";
-import { statedResults, totalsColumns, writeReportLines, type ReportRunoff } from "~/models/report-rows.server";
+import {
+  statedResults,
+  totalsColumns,
+  writeReportLines,
+  type ReportRunoff,
+  type ReportTankReading,
+} from "~/models/report-rows.server";
 
 const unique = () => randomUUID().slice(0, 8);
 
@@ -88,6 +94,7 @@ export type EventFixture = {
   nearestWaterway?: string | null;
   discharges?: DischargeFixture[];
   dispositions?: DispositionFixture[];
+  tankReadings?: ReportTankReading[];
   pfasContaining?: boolean;
 };
 
@@ -126,6 +133,7 @@ export async function makeEvent(spec: EventFixture, connection: Knex = db) {
         minutes: d.minutes ?? 10,
       })),
       dispositions: spec.dispositions,
+      tankReadings: spec.tankReadings,
     },
     results,
   );

@@ -139,11 +139,40 @@ export function isPfasContentUnit(value: unknown): value is PfasContentUnit {
 /** The three volumes every discharge and every report is totalled in. */
 export const VOLUMES = ["water", "concentrate", "solution"] as const;
 export type VolumeName = (typeof VOLUMES)[number];
+/** The three big figures of a report: computed from what was entered, not a proportioner's readout. */
 export const VOLUME_LABELS: Record<VolumeName, string> = {
-  water: "Water",
-  concentrate: "Concentrate",
-  solution: "Foam solution",
+  water: "Computed water",
+  concentrate: "Computed concentrate",
+  solution: "Computed solution",
 };
+
+/**
+ * Which reports a total counts, in the same words beside every total: the quarter counts accepted
+ * reports only, the map filed, returned and accepted ones, the events list those and one's own drafts.
+ */
+export const COUNTED_REPORTS = {
+  accepted: "accepted only",
+  submitted: "filed, returned and accepted",
+  withDrafts: "filed, returned and accepted, including your drafts",
+} as const;
+
+/** What a reviewer should look at first on a filed report, as the "To review" queue flags it. */
+export const REVIEW_FLAGS = ["pfas", "to-water", "warnings", "no-location"] as const;
+export type ReviewFlag = (typeof REVIEW_FLAGS)[number];
+export const REVIEW_FLAG_LABELS: Record<ReviewFlag, string> = {
+  pfas: "PFAS-containing foam",
+  "to-water": "Storm drain or surface water",
+  warnings: "Warnings",
+  "no-location": "No location",
+};
+
+/** The events list's words for what its total counts, with or without a status filter. */
+export function countedReportsOfList(status: EventStatus | undefined): string {
+  if (!status) return COUNTED_REPORTS.withDrafts;
+  if (status === "draft") return "your drafts only";
+  if (status === "accepted") return COUNTED_REPORTS.accepted;
+  return `${EVENT_STATUS_LABELS[status].toLowerCase()} only`;
+}
 
 export const FLOW_UNIT_LABELS: Record<FlowUnit, string> = {
   gpm: "gpm",
@@ -282,6 +311,14 @@ export const FIGURE_BASIS_LABELS: Record<FigureBasis, string> = {
   practice: "Common practice, no published source",
   estimate: "Estimate, not verified",
   not_recorded: "Not recorded",
+};
+
+/** Which concentrate figure a PFAS estimate used: the computed one, or a larger tank drawdown. */
+export const CONCENTRATE_FIGURES = ["computed", "tank-drawdown"] as const;
+export type ConcentrateFigure = (typeof CONCENTRATE_FIGURES)[number];
+export const CONCENTRATE_FIGURE_LABELS: Record<ConcentrateFigure, string> = {
+  computed: "Computed from flows, times and percentages",
+  "tank-drawdown": "Tank drawdown, larger than computed: conservative figure",
 };
 
 /** The two sums of runoff a regulator reads apart (see `reachedEnvironment` in released-volume.ts). */
