@@ -662,3 +662,18 @@ export async function saveFoamSystem(
     return { id: savedId };
   });
 }
+
+/** The systems of one apparatus, for its page. */
+export async function listSystemsOfApparatus(apparatusId: number, connection: Db = db) {
+  const rows = await connection("foam_systems")
+    .where({ apparatus_id: apparatusId })
+    .orderBy("name")
+    .select("id", "name", "system_type", "status", "active");
+  return rows.map((row) => ({
+    id: row.id as number,
+    name: row.name as string,
+    type: (isFoamSystemType(row.system_type) ? row.system_type : "other") as FoamSystemType,
+    outOfTolerance: row.status === "out_of_tolerance",
+    active: Boolean(row.active),
+  }));
+}
