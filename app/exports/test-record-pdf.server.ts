@@ -37,7 +37,8 @@ export async function accuracyTestPdf(test: PrintedAccuracyTest): Promise<Uint8A
     writer.text(`Concentrate drawn from the calibrated container: ${readings.concentrateGal} gal`);
     writer.text(`Metered water over the same interval: ${readings.waterGal} gal`, { gap: 8 });
   } else {
-    for (const point of readings.calibration) writer.text(`Known mix ${percent(point.percent)}: reading ${point.reading}`);
+    for (const point of readings.calibration)
+      writer.text(`Known mix ${percent(point.percent)}: reading ${point.reading}`);
     writer.text(`Discharge sample: reading ${readings.sampleReading}`);
     writer.text(
       `Least-squares line: reading = ${test.slope?.toPrecision(6)} × percent + ${test.intercept?.toPrecision(6)}; R² = ${test.r2?.toFixed(5)}`,

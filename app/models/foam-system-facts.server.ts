@@ -40,10 +40,11 @@ export async function foamSystemFactsMap(
   const wanted = apparatusIds ? [...new Set(apparatusIds)] : null;
   const map = new Map<number, FoamSystemFacts>();
   if (wanted && wanted.length === 0) return map;
-  const systems: Array<Record<string, unknown> & { id: number; apparatus_id: number; name: string }> =
-    await connection("foam_systems").modify((query) => {
-      if (wanted) query.whereIn("apparatus_id", wanted);
-    });
+  const systems: Array<Record<string, unknown> & { id: number; apparatus_id: number; name: string }> = await connection(
+    "foam_systems",
+  ).modify((query) => {
+    if (wanted) query.whereIn("apparatus_id", wanted);
+  });
   if (systems.length === 0) return map;
   const ids = systems.map((row) => row.id);
   const [outlets, tests] = await Promise.all([

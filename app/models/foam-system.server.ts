@@ -75,7 +75,9 @@ export async function listFleet(
       connection.raw(
         "(SELECT MAX(m.performed_at) FROM foam_system_maintenance m WHERE m.foam_system_id = s.id AND m.kind = 'flush') AS last_flush_at",
       ),
-      connection.raw("(SELECT MAX(t.tested_at) FROM foam_accuracy_tests t WHERE t.foam_system_id = s.id) AS last_test_at"),
+      connection.raw(
+        "(SELECT MAX(t.tested_at) FROM foam_accuracy_tests t WHERE t.foam_system_id = s.id) AS last_test_at",
+      ),
       connection.raw(
         "(SELECT t.pass FROM foam_accuracy_tests t WHERE t.foam_system_id = s.id ORDER BY t.tested_at DESC, t.id DESC LIMIT 1) AS last_test_pass",
       ),
@@ -592,7 +594,9 @@ export async function saveFoamSystem(
     const unknown = outlets.filter((name) => !known.has(name.toLowerCase()));
     if (unknown.length) {
       throw new RefusalError(
-        refused(400, "Check the outlets.", { outlets: [`Not an outlet of ${apparatus.unit_id}: ${unknown.join(", ")}.`] }),
+        refused(400, "Check the outlets.", {
+          outlets: [`Not an outlet of ${apparatus.unit_id}: ${unknown.join(", ")}.`],
+        }),
       );
     }
     const taken = outlets.length

@@ -12,9 +12,14 @@ export async function reportFormOptions() {
     listActiveProducts(),
     readAgencySettings(),
   ]);
-  const systems = [...(await foamSystemFactsMap(db, apparatus.map((unit) => unit.id))).values()].filter(
-    (system) => system.active,
-  );
+  const systems = [
+    ...(
+      await foamSystemFactsMap(
+        db,
+        apparatus.map((unit) => unit.id),
+      )
+    ).values(),
+  ].filter((system) => system.active);
   return {
     timeZone,
     stations: stations.filter((station) => station.active),

@@ -157,9 +157,9 @@ export default function ApparatusPage({ loaderData, actionData }: Route.Componen
             Foam system
           </h2>
           <p className="text-sm text-slate-ft">
-            These figures drive the usage warnings of lines on no foam system: a line whose concentrate rate exceeds
-            the proportioner&apos;s maximum is flagged with the percentage actually reached. A line on one of the
-            foam systems below takes that system&apos;s own figures.
+            These figures drive the usage warnings of lines on no foam system: a line whose concentrate rate exceeds the
+            proportioner&apos;s maximum is flagged with the percentage actually reached. A line on one of the foam
+            systems below takes that system&apos;s own figures.
           </p>
           {apparatus ? (
             <div className="rounded-md border border-stone-200 p-3" data-testid="apparatus-foam-systems">

@@ -129,7 +129,9 @@ export default function FoamSystemPage({ loaderData, actionData }: Route.Compone
             <dt className="font-semibold">Tanks</dt>
             <dd>
               {system.tanks
-                .map((tank) => `${tank.name} ${figure(tank.capacityGal, "gal")}${tank.product ? `, ${tank.product}` : ""}`)
+                .map(
+                  (tank) => `${tank.name} ${figure(tank.capacityGal, "gal")}${tank.product ? `, ${tank.product}` : ""}`,
+                )
                 .join("; ") || "—"}
             </dd>
           </div>
@@ -148,10 +150,7 @@ export default function FoamSystemPage({ loaderData, actionData }: Route.Compone
         </dl>
         {canEdit ? (
           <p>
-            <Link
-              to={`/apparatus/${system.apparatusId}/foam-systems/${system.id}`}
-              className="text-pond-700 underline"
-            >
+            <Link to={`/apparatus/${system.apparatusId}/foam-systems/${system.id}`} className="text-pond-700 underline">
               Change this system&rsquo;s figures
             </Link>
           </p>
@@ -183,7 +182,10 @@ export default function FoamSystemPage({ loaderData, actionData }: Route.Compone
             products={products}
             lastResult={actionData?.intent === "maintenance" ? actionData.result : undefined}
           />
-          <AccuracyTestForm products={products} lastResult={actionData?.intent === "test" ? actionData.result : undefined} />
+          <AccuracyTestForm
+            products={products}
+            lastResult={actionData?.intent === "test" ? actionData.result : undefined}
+          />
         </div>
       ) : null}
 
@@ -333,7 +335,11 @@ function MaintenanceForm({ products, lastResult }: FormProps) {
       <TextField label="When" field={fields.performedAt} type="datetime-local" />
       <div className="grid gap-3 sm:grid-cols-2">
         <TextField label="Water used (gal)" field={fields.waterGal} inputMode="decimal" />
-        <TextField label="Concentrate sent to disposal (gal)" field={fields.concentrateDisposedGal} inputMode="decimal" />
+        <TextField
+          label="Concentrate sent to disposal (gal)"
+          field={fields.concentrateDisposedGal}
+          inputMode="decimal"
+        />
       </div>
       <TextField
         label="Usage report number"

@@ -69,7 +69,9 @@ describe("a line on a foam system", () => {
   it("carries a warning while the system is out of tolerance, and none after the passing retest", () => {
     const failed = new Date("2026-06-01T12:00:00Z");
     const passed = new Date("2026-06-10T12:00:00Z");
-    const systems = new Map([[7, system({ outOfTolerance: [{ from: failed, to: passed, reason: "test of 2026-06-01" }] })]]);
+    const systems = new Map([
+      [7, system({ outOfTolerance: [{ from: failed, to: passed, reason: "test of 2026-06-01" }] })],
+    ]);
     const during = computeDischarge({ ...line, startedAt: new Date("2026-06-05T12:00:00Z") }, { foamSystems: systems });
     expect(during.warnings.map((warning) => warning.code)).toContain("system_out_of_tolerance");
     const after = computeDischarge({ ...line, startedAt: new Date("2026-06-11T12:00:00Z") }, { foamSystems: systems });

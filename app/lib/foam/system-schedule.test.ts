@@ -37,7 +37,12 @@ describe("due dates of a foam system", () => {
   it("puts out of tolerance before any due date", () => {
     expect(
       systemSchedule(
-        { enteredOn: "2026-01-01", lastPassingTestOn: "2026-06-01", lastFlushOn: "2026-11-30", status: "out_of_tolerance" },
+        {
+          enteredOn: "2026-01-01",
+          lastPassingTestOn: "2026-06-01",
+          lastFlushOn: "2026-11-30",
+          status: "out_of_tolerance",
+        },
         intervals,
         "2026-12-02",
       ).status,

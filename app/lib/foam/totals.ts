@@ -265,8 +265,7 @@ export function computeDischarge(input: DischargeInput, context: UsageContext = 
   const system = foamSystemFor(input, context.foamSystems);
   const warnings: UsageWarning[] = [];
   const flowGpm = flowInGpm(input.flow, input.flowUnit);
-  const percentOf =
-    input.percentOf ?? system?.percentOf ?? defaultPercentOf(input.basis, apparatus?.proportionerType);
+  const percentOf = input.percentOf ?? system?.percentOf ?? defaultPercentOf(input.basis, apparatus?.proportionerType);
   const setShare = input.percent ? input.percent / 100 : 0;
   const needed = neededConcentrateGpm(flowGpm, input.basis, percentOf, setShare);
   const unitLabel = system ? `${apparatus?.unitId ?? "the apparatus"} ${system.name}` : apparatus?.unitId;
