@@ -87,6 +87,8 @@ const server = app.listen(port, host, () => {
   console.log(`Foamtally is serving on http://${host}:${port}`);
   // Sends queued mail (alerts, notices, workbooks) every 30 s and retries failed sends with backoff.
   entry.startMailWorker?.();
+  // Queues foam-system reminders (30 days ahead, and when overdue) shortly after start, then hourly.
+  entry.startFoamSystemReminders?.();
 });
 
 function shutdown(signal) {

@@ -104,6 +104,8 @@ function CurrentValues({ settings }: { settings: AgencySettingsView }) {
     ["Drawdown tolerance", `${formatNumber(percent(settings.drawdownToleranceShare))} %`],
     ["PFAS threshold", `${formatNumber(settings.pfasReportableLb, 4)} lb in 24 h`],
     ["Class A accuracy band", `± ${formatNumber(percent(settings.classAAccuracyShare))} %`],
+    ["Foam system accuracy test every", `${settings.accuracyTestIntervalMonths} months`],
+    ["Foam system flush every", `${settings.flushIntervalDays} days`],
     ["Report recipients", settings.reportRecipients.join(", ") || "none"],
     ["Release alert recipients", settings.releaseAlertRecipients.join(", ") || "none"],
     ["Records due-date rule", dueRuleLabel(settings.recordsDueRule)],
@@ -156,6 +158,8 @@ export function AgencySettingsForm({
       drawdownTolerancePercent: String(percent(settings.drawdownToleranceShare)),
       pfasReportableLb: String(settings.pfasReportableLb),
       classAAccuracyPercent: String(percent(settings.classAAccuracyShare)),
+      accuracyTestIntervalMonths: String(settings.accuracyTestIntervalMonths),
+      flushIntervalDays: String(settings.flushIntervalDays),
       reportRecipients: settings.reportRecipients.join("\n"),
       releaseAlertRecipients: settings.releaseAlertRecipients.join("\n"),
       recordsDueRule: settings.recordsDueRule,
@@ -308,7 +312,19 @@ export function AgencySettingsForm({
             label="Class A proportioning accuracy band, ± share of the set percentage"
             field={fields.classAAccuracyPercent}
             unit="%"
-            hint="Default 30 %: from memory, low confidence — no published figure for apparatus Class A systems was found; use your acceptance-test criteria. Stored for reference; no check uses it yet."
+            hint="Default 30 %: from memory, low confidence — no published figure for apparatus Class A systems was found; use your acceptance-test criteria. Class A accuracy tests of foam systems pass within this band."
+          />
+          <NumberField
+            label="Foam system accuracy test interval"
+            field={fields.accuracyTestIntervalMonths}
+            unit="months"
+            hint="Default 12 months (an annual test): common practice, no source. Reminders go to the station's officers 30 days ahead and when overdue."
+          />
+          <NumberField
+            label="Foam system scheduled flush interval"
+            field={fields.flushIntervalDays}
+            unit="days"
+            hint="Default 90 days: common practice, no source. A flush after use or before a product change counts too."
           />
         </section>
 

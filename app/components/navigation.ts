@@ -13,6 +13,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: "/admin/settings", label: "Agency settings", capability: "settings.read" },
   { to: "/products", label: "Foam products", capability: "catalogue.read" },
   { to: "/apparatus", label: "Apparatus and stations", capability: "apparatus.edit" },
+  { to: "/foam-systems", label: "Foam systems", capability: "systems.read" },
   { to: "/map", label: "Usage map", capability: "usage.map" },
   { to: "/geography", label: "Drainage layers", capability: "geography.edit" },
   { to: "/environmental", label: "Quarterly summaries", capability: "exports.quarterly" },

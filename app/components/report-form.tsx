@@ -43,6 +43,7 @@ import {
   type FlowBasis,
   type ProportionerType,
   type FoamClass,
+  type PercentOf,
 } from "~/lib/foam/vocabulary";
 import { EventLocationMap } from "./event-location-map";
 import { ErrorList, FormErrors, SelectField, TextField } from "./form-fields";
@@ -69,7 +70,24 @@ export type ApparatusOption = {
   compressedAirCfm: number | null;
   proportionerType?: ProportionerType | null;
   outlets: OutletOption[];
+  /** Its foam systems and the outlets each serves: the line's outlet picks one. */
+  foamSystems?: FoamSystemOption[];
 };
+export type FoamSystemOption = {
+  id: number;
+  name: string;
+  percentOf: PercentOf;
+  outlets: string[];
+  outOfTolerance: boolean;
+};
+
+/** The system a typed outlet names, as the server picks it (`foamSystemFor` in totals.ts). */
+function systemForOutlet(unit: ApparatusOption | undefined, outlet: string | undefined) {
+  const systems = unit?.foamSystems ?? [];
+  const name = outlet?.trim().toLowerCase();
+  const serving = name ? systems.find((system) => system.outlets.some((item) => item.toLowerCase() === name)) : null;
+  return serving ?? (systems.length === 1 ? systems[0] : null);
+}
 export type StationOption = { id: number; code: string; name: string };
 
 export type ReportFormProps = {
@@ -133,7 +151,7 @@ function computableLines(
     const percentOf =
       line.percentOf === "solution" || line.percentOf === "water"
         ? line.percentOf
-        : defaultPercentOf(basis, unit?.proportionerType);
+        : (systemForOutlet(unit, line.outlet)?.percentOf ?? defaultPercentOf(basis, unit?.proportionerType));
     return [
       {
         index,
@@ -146,6 +164,7 @@ function computableLines(
           minutes,
           productId: productId ?? null,
           apparatusId: number(line.apparatusId) ?? null,
+          outlet: line.outlet?.trim() || undefined,
         },
       },
     ];
@@ -587,6 +606,7 @@ function DischargeLine({ name, index, listName, full, result, ...props }: Discha
               ))}
             </datalist>
           ) : null}
+          <FoamSystemNote unit={unit} outlet={values.outlet} />
           <ErrorList id={row.outlet.errorId} errors={row.outlet.errors} />
         </div>
         <SelectField
@@ -647,6 +667,17 @@ function DischargeLine({ name, index, listName, full, result, ...props }: Discha
 
 function choices(pairs: Array<[string, string]>) {
   return pairs.map(([value, label]) => ({ value, label }));
+}
+
+function FoamSystemNote({ unit, outlet }: { unit?: ApparatusOption; outlet?: string }) {
+  const system = systemForOutlet(unit, outlet);
+  if (!system) return null;
+  return (
+    <p className="mt-1 text-sm text-slate-ft" data-testid="line-foam-system">
+      Foam system: {system.name}
+      {system.outOfTolerance ? " (out of tolerance)" : ""}
+    </p>
+  );
 }
 
 function LineResult({ result }: { result?: NonNullable<TotalsResponse["discharges"]>[number] }) {

@@ -151,6 +151,14 @@ export const CAPABILITIES = {
     does: "add and change apparatus, their foam systems and stations",
     grants: [{ roles: ["chief", "admin"] }],
   }),
+  "systems.read": plain({
+    does: "see the fleet's foam systems, their flushes, accuracy tests, due dates and PFAS history",
+    grants: [{ roles: ["officer", "environmental", "chief"] }],
+  }),
+  "systems.maintain": plain({
+    does: "record flushes, primes, changeovers and accuracy tests of foam systems",
+    grants: [{ roles: ["officer", "chief"] }],
+  }),
   "users.manage": account({
     does: "add people, change their names and roles, deactivate them",
     grants: [{ roles: ["admin"] }, { roles: ["chief"], rule: ACCOUNT_RULES.notAnAdministrator }],
@@ -291,6 +299,12 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   apparatus: { GET: "apparatus.edit" },
   "apparatus/:apparatusId": { GET: "apparatus.edit", POST: "apparatus.edit" },
   "stations/:stationId": { GET: "apparatus.edit", POST: "apparatus.edit" },
+  "apparatus/:apparatusId/foam-systems/:systemId": { GET: "apparatus.edit", POST: "apparatus.edit" },
+  "foam-systems": { GET: "systems.read" },
+  "foam-systems/:systemId": { GET: "systems.read", POST: "systems.maintain" },
+  "foam-systems/:systemId/tests/:testId/record.pdf": { GET: "systems.read" },
+  "api/foam-systems": { GET: "systems.read" },
+  "api/foam-tests/compute": { GET: "signed-in", POST: "signed-in" },
   environmental: { GET: "exports.quarterly", POST: "exports.submit" },
   "environmental/submissions/:id": { GET: "exports.quarterly" },
   "reports/environmental.xlsx": { GET: "exports.quarterly" },

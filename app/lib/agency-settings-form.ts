@@ -153,6 +153,19 @@ export const AgencySettingsSchema = z.object({
     .trim()
     .min(1, "Name the law whose exemptions the cover letter cites.")
     .max(300, "At most 300 characters."),
+  // Optional so that a form from before the fields existed keeps the stored intervals.
+  accuracyTestIntervalMonths: z
+    .number({ error: "Give the interval in whole months." })
+    .int("Give the interval in whole months.")
+    .min(1, "At least 1 month.")
+    .max(60, "At most 60 months.")
+    .optional(),
+  flushIntervalDays: z
+    .number({ error: "Give the interval in whole days." })
+    .int("Give the interval in whole days.")
+    .min(1, "At least 1 day.")
+    .max(730, "At most 730 days.")
+    .optional(),
   /** A checkbox: present ("on") when ticked, absent when not. */
   releaseAlertsToChief: z.preprocess((value) => value === "on" || value === true || value === "true", z.boolean()),
 });
@@ -172,6 +185,9 @@ export type AgencySettings = {
   drawdownToleranceShare: number;
   pfasReportableLb: number;
   classAAccuracyShare: number;
+  /** Foam systems: months between accuracy tests, days between scheduled flushes. */
+  accuracyTestIntervalMonths: number;
+  flushIntervalDays: number;
   reportRecipients: string[];
   releaseAlertRecipients: string[];
   /** Whether release alerts also go to every active chief. */

@@ -10,6 +10,7 @@ import {
 import { decimalOrNull } from "~/lib/decimal";
 import { DEFAULT_EVENT_NUMBER_PREFIX } from "~/lib/foam/event-number";
 import { db, type Db } from "~/lib/db.server";
+import { DEFAULT_ACCURACY_TEST_INTERVAL_MONTHS, DEFAULT_FLUSH_INTERVAL_DAYS } from "~/lib/foam/system-schedule";
 import { parseClosureDays } from "~/lib/records/due-date";
 
 export const DEFAULT_TIME_ZONE = "America/Chicago";
@@ -43,6 +44,8 @@ function settingsFrom(row: SettingsRow): AgencySettings {
     drawdownToleranceShare: number(row?.drawdown_tolerance_share, DEFAULT_DRAWDOWN_TOLERANCE_SHARE),
     pfasReportableLb: number(row?.pfas_reportable_lb, DEFAULT_PFAS_REPORTABLE_LB),
     classAAccuracyShare: number(row?.class_a_accuracy_share, DEFAULT_CLASS_A_ACCURACY_SHARE),
+    accuracyTestIntervalMonths: number(row?.accuracy_test_interval_months, DEFAULT_ACCURACY_TEST_INTERVAL_MONTHS),
+    flushIntervalDays: number(row?.flush_interval_days, DEFAULT_FLUSH_INTERVAL_DAYS),
     reportRecipients: splitRecipientList(row?.report_recipients as string | undefined),
     releaseAlertRecipients: splitRecipientList(row?.release_alert_recipients as string | undefined),
     releaseAlertsToChief:

@@ -19,6 +19,8 @@ function auditedValues(settings: AuditedSettings): AuditedSettings {
     drawdownToleranceShare: settings.drawdownToleranceShare,
     pfasReportableLb: settings.pfasReportableLb,
     classAAccuracyShare: settings.classAAccuracyShare,
+    accuracyTestIntervalMonths: settings.accuracyTestIntervalMonths,
+    flushIntervalDays: settings.flushIntervalDays,
     reportRecipients: settings.reportRecipients,
     releaseAlertRecipients: settings.releaseAlertRecipients,
     recordsDueRule: settings.recordsDueRule,
@@ -59,6 +61,8 @@ export async function saveAgencySettings(
       drawdown_tolerance_share: Number((input.drawdownTolerancePercent / 100).toFixed(4)),
       pfas_reportable_lb: input.pfasReportableLb,
       class_a_accuracy_share: Number((input.classAAccuracyPercent / 100).toFixed(4)),
+      accuracy_test_interval_months: input.accuracyTestIntervalMonths ?? before.accuracyTestIntervalMonths,
+      flush_interval_days: input.flushIntervalDays ?? before.flushIntervalDays,
       report_recipients: input.reportRecipients.join(", "),
       release_alert_recipients: input.releaseAlertRecipients.join(", "),
       records_due_rule: input.recordsDueRule,
@@ -72,6 +76,8 @@ export async function saveAgencySettings(
       eventNumberPrefix: values.event_number_prefix,
       drawdownToleranceShare: values.drawdown_tolerance_share,
       classAAccuracyShare: values.class_a_accuracy_share,
+      accuracyTestIntervalMonths: values.accuracy_test_interval_months,
+      flushIntervalDays: values.flush_interval_days,
     });
     const beforeValues = auditedValues(before);
     const changed = (Object.keys(afterValues) as (keyof typeof afterValues)[]).filter(

@@ -19,6 +19,7 @@ import { EVENT_KINDS, type EventKind, type EventStatus } from "~/lib/foam/vocabu
 import { wallClockToInstant } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
 import { apparatusFactsMap, productFactsMap } from "./catalogue.server";
+import { foamSystemFactsMap } from "./foam-system-facts.server";
 import { allocateEventNumber, agencyYear } from "./event-number.server";
 import { reportRecordOf } from "./event-read.server";
 import { recomputeEventGeography } from "./geography.server";
@@ -79,23 +80,23 @@ export async function computeForInputs(
   } = {},
   connection: Db = db,
 ): Promise<UsageResult> {
-  const [products, apparatus, settings] = await Promise.all([
+  const apparatusIds = [
+    ...inputs.flatMap((input) => (input.apparatusId ? [input.apparatusId] : [])),
+    ...(options.tankReadings ?? []).flatMap((reading) => (reading.apparatusId ? [reading.apparatusId] : [])),
+  ];
+  const [products, apparatus, settings, foamSystems] = await Promise.all([
     productFactsMap(
       inputs.flatMap((input) => (input.productId ? [input.productId] : [])),
       connection,
     ),
-    apparatusFactsMap(
-      [
-        ...inputs.flatMap((input) => (input.apparatusId ? [input.apparatusId] : [])),
-        ...(options.tankReadings ?? []).flatMap((reading) => (reading.apparatusId ? [reading.apparatusId] : [])),
-      ],
-      connection,
-    ),
+    apparatusFactsMap(apparatusIds, connection),
     readAgencySettings(connection),
+    foamSystemFactsMap(connection, apparatusIds),
   ]);
   return computeUsage(inputs, {
     products,
     apparatus,
+    foamSystems,
     eventWindow: options.eventWindow,
     tankReadings: options.tankReadings,
     drawdownTolerance: settings.drawdownToleranceShare,

@@ -8,7 +8,8 @@ export type MailKind =
   | "quarterly_workbook"
   | "records_acknowledgement"
   | "records_release"
-  | "password_reset";
+  | "password_reset"
+  | "foam_system_reminder";
 
 export type QueuedMail = {
   kind: MailKind;

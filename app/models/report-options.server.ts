@@ -1,6 +1,8 @@
+import { db } from "~/lib/db.server";
 import { readAgencySettings } from "./agency-settings.server";
 import { listActiveApparatus, listActiveProducts, listStationOptions } from "./catalogue.server";
 import type { ReportDetail } from "./event-read.server";
+import { foamSystemFactsMap } from "./foam-system-facts.server";
 
 /** The choices the usage-report form offers. */
 export async function reportFormOptions() {
@@ -10,6 +12,14 @@ export async function reportFormOptions() {
     listActiveProducts(),
     readAgencySettings(),
   ]);
+  const systems = [
+    ...(
+      await foamSystemFactsMap(
+        db,
+        apparatus.map((unit) => unit.id),
+      )
+    ).values(),
+  ].filter((system) => system.active);
   return {
     timeZone,
     stations: stations.filter((station) => station.active),
@@ -19,6 +29,15 @@ export async function reportFormOptions() {
       description,
       compressedAirCfm,
       outlets,
+      foamSystems: systems
+        .filter((system) => system.apparatusId === id)
+        .map((system) => ({
+          id: system.id,
+          name: system.name,
+          percentOf: system.percentOf,
+          outlets: system.outlets,
+          outOfTolerance: system.outOfTolerance.some((span) => span.to == null),
+        })),
     })),
     products: products.map(({ id, name, foamClass, nominalPercents, pfasContaining }) => ({
       id,

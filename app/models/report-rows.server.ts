@@ -68,6 +68,8 @@ export type ComputedDischarge = {
   /** The convention the computation read the percentage in (a `DischargeResult` carries it). */
   percentOf?: PercentOf;
   effectivePercentOfSolution?: number | null;
+  /** The foam system the computation placed the line on (a `DischargeResult` carries it). */
+  foamSystemId?: number | null;
   warnings: UsageWarning[];
 };
 
@@ -90,6 +92,7 @@ export function dischargeInputs(discharges: readonly ReportDischarge[]): Dischar
     minutes: line.minutes,
     productId: line.productId,
     apparatusId: line.apparatusId,
+    outlet: line.outlet ?? "",
     startedAt: line.startedAt ?? null,
     endedAt: line.endedAt ?? null,
   }));
@@ -125,6 +128,7 @@ export function dischargeRows(eventId: number, discharges: readonly ReportDischa
       event_id: eventId,
       position: index + 1,
       apparatus_id: line.apparatusId,
+      foam_system_id: result.foamSystemId ?? null,
       outlet: line.outlet ?? "",
       product_id: line.productId,
       percent: line.productId == null ? null : line.percent,

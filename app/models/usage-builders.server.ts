@@ -3,10 +3,17 @@
 // module the server uses, so seeded numbers equal what a save would store. A report's own rows are
 // written by `report-rows.server.ts`, as a save writes them.
 import type { Knex } from "knex";
-import { computeUsage, type ApparatusFacts, type ProductFacts, type UsageResult } from "../lib/foam/totals";
+import {
+  computeUsage,
+  type ApparatusFacts,
+  type FoamSystemFacts,
+  type ProductFacts,
+  type UsageResult,
+} from "../lib/foam/totals";
 import type { EventKind, EventStatus } from "../lib/foam/vocabulary";
 import { readAgencySettings } from "./agency-settings.server";
 import { allCatalogueFacts } from "./catalogue.server";
+import { foamSystemFactsMap } from "./foam-system-facts.server";
 import {
   dischargeInputs,
   tankReadingInputs,
@@ -58,6 +65,7 @@ export type EventSpec = ReportLines & {
 export type CatalogueFacts = {
   products: ReadonlyMap<number, ProductFacts>;
   apparatus: ReadonlyMap<number, ApparatusFacts>;
+  foamSystems?: ReadonlyMap<number, FoamSystemFacts>;
   /** The agency's drawdown tolerance (a share, 0.15 for 15 %). */
   drawdownTolerance?: number;
 };
@@ -67,6 +75,7 @@ export function usageOf(spec: EventSpec, facts: CatalogueFacts): UsageResult {
   return computeUsage(dischargeInputs(spec.discharges), {
     products: facts.products,
     apparatus: facts.apparatus,
+    foamSystems: facts.foamSystems,
     eventWindow: { start: spec.startedAt, end: spec.clearedAt },
     tankReadings: tankReadingInputs(spec.tankReadings),
     drawdownTolerance: facts.drawdownTolerance,
@@ -112,6 +121,10 @@ export async function insertEvent(
 
 /** Facts for the computation, read from the catalogue tables through the given connection. */
 export async function loadCatalogueFacts(connection: Knex | Knex.Transaction): Promise<CatalogueFacts> {
-  const [catalogue, settings] = await Promise.all([allCatalogueFacts(connection), readAgencySettings(connection)]);
-  return { ...catalogue, drawdownTolerance: settings.drawdownToleranceShare };
+  const [catalogue, settings, foamSystems] = await Promise.all([
+    allCatalogueFacts(connection),
+    readAgencySettings(connection),
+    foamSystemFactsMap(connection),
+  ]);
+  return { ...catalogue, foamSystems, drawdownTolerance: settings.drawdownToleranceShare };
 }

@@ -10,6 +10,7 @@ import {
   APPLICATION_METHODS,
   FLOW_BASES,
   FLOW_BASIS_LABELS,
+  FOAM_SYSTEM_TYPE_LABELS,
   PERCENT_OF_LABELS,
   PROPORTIONER_PERCENT_OF,
   PROPORTIONER_TYPE_LABELS,
@@ -28,6 +29,7 @@ import {
   saveApparatus,
   UnknownStationError,
 } from "~/models/apparatus.server";
+import { listSystemsOfApparatus } from "~/models/foam-system.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `${data?.apparatus ? data.apparatus.unitId : "New apparatus"} · Foamtally` },
@@ -44,10 +46,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   await requireCapability(request, "apparatus.edit");
   const id = apparatusIdOf(params);
   const stations = await listStations();
-  if (id == null) return { apparatus: null, stations };
+  if (id == null) return { apparatus: null, stations, foamSystems: [] };
   const apparatus = await getApparatus(id);
   invariantResponse(apparatus, "No such apparatus.");
-  return { apparatus, stations };
+  return { apparatus, stations, foamSystems: await listSystemsOfApparatus(id) };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -83,7 +85,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function ApparatusPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { apparatus, stations } = loaderData;
+  const { apparatus, stations, foamSystems } = loaderData;
   const navigation = useNavigation();
   const [form, fields] = useForm({
     id: "apparatus",
@@ -155,9 +157,30 @@ export default function ApparatusPage({ loaderData, actionData }: Route.Componen
             Foam system
           </h2>
           <p className="text-sm text-slate-ft">
-            These figures drive the usage warnings: a line whose concentrate rate exceeds the proportioner&apos;s
-            maximum is flagged with the percentage actually reached. Take them from the system&apos;s test records.
+            These figures drive the usage warnings of lines on no foam system: a line whose concentrate rate exceeds the
+            proportioner&apos;s maximum is flagged with the percentage actually reached. A line on one of the foam
+            systems below takes that system&apos;s own figures.
           </p>
+          {apparatus ? (
+            <div className="rounded-md border border-stone-200 p-3" data-testid="apparatus-foam-systems">
+              <h3 className="font-semibold">Foam systems</h3>
+              <ul className="mt-1 list-disc pl-5 text-sm">
+                {foamSystems.map((system) => (
+                  <li key={system.id}>
+                    <Link to={`/foam-systems/${system.id}`} className="text-pond-700 underline">
+                      {system.name}
+                    </Link>{" "}
+                    ({FOAM_SYSTEM_TYPE_LABELS[system.type]}
+                    {system.outOfTolerance ? ", out of tolerance" : ""}
+                    {system.active ? "" : ", out of service"})
+                  </li>
+                ))}
+              </ul>
+              <Link to={`/apparatus/${apparatus.id}/foam-systems/new`} className="btn-secondary mt-2 inline-block">
+                Add a foam system
+              </Link>
+            </div>
+          ) : null}
           <div className="grid gap-4 sm:grid-cols-2">
             <TextField label="Concentrate tank (gal)" field={fields.concentrateTankGal} inputMode="decimal" />
             <SelectField

@@ -3,12 +3,13 @@ import { DEMO, DEMO_PASSWORD, expect, signInAs, test } from "../support/e2e";
 test.describe("signing in", () => {
   test("each demo role signs in and sees only its own navigation", async ({ page }) => {
     const expected: Record<keyof typeof DEMO, string[]> = {
-      officer: ["Home", "New report", "Events"],
+      officer: ["Home", "New report", "Events", "Foam systems"],
       environmental: [
         "Home",
         "Events",
         "To review",
         "Foam products",
+        "Foam systems",
         "Usage map",
         "Drainage layers",
         "Quarterly summaries",
@@ -21,6 +22,7 @@ test.describe("signing in", () => {
         "Agency settings",
         "Foam products",
         "Apparatus and stations",
+        "Foam systems",
         "Usage map",
         "Quarterly summaries",
       ],

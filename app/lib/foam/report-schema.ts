@@ -43,6 +43,8 @@ export const TotalsDischargeSchema = z.object({
   minutes: positiveNumber("duration in minutes", MAX_DISCHARGE_MINUTES),
   productId: id.nullable().optional(),
   apparatusId: id.nullable().optional(),
+  /** The outlet names the apparatus's foam system, whose limits the warnings use. */
+  outlet: z.string().trim().max(60, "The outlet name has at most 60 characters.").optional(),
 });
 
 export const TotalsRequestSchema = z.object({

@@ -23,6 +23,9 @@ export type DischargeInput = {
   minutes: number;
   productId?: number | null;
   apparatusId?: number | null;
+  /** The outlet the line flowed from: it names the foam system when `foamSystemId` is not given. */
+  outlet?: string | null;
+  foamSystemId?: number | null;
   startedAt?: Date | null;
   endedAt?: Date | null;
 };
@@ -56,6 +59,41 @@ export type ApparatusFacts = {
   waterFlowMaxGpm: number | null;
 };
 
+/** A foam system's limits and its spans out of tolerance (a failed test until the passing retest). */
+export type FoamSystemFacts = {
+  id: number;
+  apparatusId: number;
+  name: string;
+  active: boolean;
+  percentOf: PercentOf;
+  minConcentrateGpm: number | null;
+  maxConcentrateGpm: number | null;
+  waterFlowMinGpm: number | null;
+  waterFlowMaxGpm: number | null;
+  /** Outlet names it serves on its apparatus. */
+  outlets: string[];
+  outOfTolerance: Array<{ from: Date; to: Date | null; reason: string }>;
+};
+
+/**
+ * The system a line flowed through: the one named, else the one serving its outlet, else the
+ * apparatus's only active system; null when none or several could be meant.
+ */
+export function foamSystemFor(
+  input: Pick<DischargeInput, "apparatusId" | "outlet" | "foamSystemId">,
+  systems: ReadonlyMap<number, FoamSystemFacts> | undefined,
+): FoamSystemFacts | null {
+  if (!systems) return null;
+  if (input.foamSystemId != null) return systems.get(input.foamSystemId) ?? null;
+  if (input.apparatusId == null) return null;
+  const own = [...systems.values()].filter((system) => system.apparatusId === input.apparatusId);
+  const outlet = input.outlet?.trim().toLowerCase();
+  const serving = outlet ? own.find((system) => system.outlets.some((name) => name.toLowerCase() === outlet)) : null;
+  if (serving) return serving;
+  const active = own.filter((system) => system.active);
+  return active.length === 1 ? active[0] : null;
+}
+
 export type TankReading = {
   apparatusId: number | null;
   productId: number | null;
@@ -68,6 +106,8 @@ export type WarningCode =
   | "percent_unusual_for_class"
   | "below_rated"
   | "proportioner_limit"
+  | "proportioner_minimum"
+  | "system_out_of_tolerance"
   | "flow_out_of_range"
   | "outside_event_window"
   | "duration_mismatch"
@@ -98,12 +138,16 @@ export type DischargeResult = Totals & {
   effectivePercent: number | null;
   foamClass: FoamClass | null;
   pfasContaining: boolean;
+  /** The foam system the line flowed through, where one is known. */
+  foamSystemId: number | null;
   warnings: UsageWarning[];
 };
 
 export type UsageContext = {
   products?: ReadonlyMap<number, ProductFacts>;
   apparatus?: ReadonlyMap<number, ApparatusFacts>;
+  /** Foam systems by id; a line's system gives its limits in place of the apparatus's own figures. */
+  foamSystems?: ReadonlyMap<number, FoamSystemFacts>;
   eventWindow?: { start: Date | null; end: Date | null };
   tankReadings?: TankReading[];
   /** Largest share by which computed concentrate may differ from the tank drawdown before a warning. */
@@ -218,14 +262,16 @@ function classWarnings(
 export function computeDischarge(input: DischargeInput, context: UsageContext = {}): DischargeResult {
   const product = input.productId != null ? context.products?.get(input.productId) : undefined;
   const apparatus = input.apparatusId != null ? context.apparatus?.get(input.apparatusId) : undefined;
+  const system = foamSystemFor(input, context.foamSystems);
   const warnings: UsageWarning[] = [];
   const flowGpm = flowInGpm(input.flow, input.flowUnit);
-  const percentOf = input.percentOf ?? defaultPercentOf(input.basis, apparatus?.proportionerType);
+  const percentOf = input.percentOf ?? system?.percentOf ?? defaultPercentOf(input.basis, apparatus?.proportionerType);
   const setShare = input.percent ? input.percent / 100 : 0;
   const needed = neededConcentrateGpm(flowGpm, input.basis, percentOf, setShare);
+  const unitLabel = system ? `${apparatus?.unitId ?? "the apparatus"} ${system.name}` : apparatus?.unitId;
 
   let concentrateGpm = needed;
-  const maximum = apparatus?.proportionerMaxConcentrateGpm;
+  const maximum = system ? system.maxConcentrateGpm : apparatus?.proportionerMaxConcentrateGpm;
   const capped = maximum != null && setShare > 0 && needed > maximum + EPSILON;
   if (capped) concentrateGpm = maximum;
 
@@ -245,11 +291,23 @@ export function computeDischarge(input: DischargeInput, context: UsageContext = 
       field: "percent",
       message:
         `${formatNumber(flowGpm)} gpm at ${formatNumber(input.percent!)} ${PERCENT_OF_LABELS[percentOf]} needs ${formatNumber(needed, 3)} gpm of ` +
-        `concentrate, above ${apparatus!.unitId}'s proportioner maximum of ${formatNumber(maximum, 3)} gpm: ` +
+        `concentrate, above ${unitLabel}'s proportioner maximum of ${formatNumber(maximum, 3)} gpm: ` +
         `the effective percentage was about ${formatNumber(effectivePercent ?? 0, 3)} ${PERCENT_OF_LABELS[percentOf]}` +
         (percentOf === "water" ? ` (${formatNumber(ofSolution ?? 0, 3)} % of the foam solution).` : "."),
     });
   }
+
+  const minimum = system?.minConcentrateGpm;
+  if (minimum != null && setShare > 0 && needed < minimum - EPSILON) {
+    warnings.push({
+      code: "proportioner_minimum",
+      field: "percent",
+      message:
+        `${formatNumber(flowGpm)} gpm at ${formatNumber(input.percent!)} ${PERCENT_OF_LABELS[percentOf]} needs ${formatNumber(needed, 3)} gpm of ` +
+        `concentrate, below ${unitLabel}'s minimum of ${formatNumber(minimum, 3)} gpm: the proportioner may not have metered it accurately.`,
+    });
+  }
+  if (system) warnings.push(...toleranceWarnings(system, unitLabel ?? system.name, input, context));
 
   const waterGal = waterGpm * input.minutes;
   const concentrateGal = concentrateGpm * input.minutes;
@@ -257,13 +315,14 @@ export function computeDischarge(input: DischargeInput, context: UsageContext = 
 
   if (product && input.percent) warnings.push(...classWarnings(product, input.percent, percentOf, ofSolution ?? 0));
 
-  if (apparatus) {
-    const { waterFlowMinGpm: low, waterFlowMaxGpm: high } = apparatus;
+  const range = system ?? apparatus;
+  if (range) {
+    const { waterFlowMinGpm: low, waterFlowMaxGpm: high } = range;
     if ((low != null && waterGpm < low - EPSILON) || (high != null && waterGpm > high + EPSILON)) {
       warnings.push({
         code: "flow_out_of_range",
         field: "flow",
-        message: `${formatNumber(waterGpm)} gpm of water is outside ${apparatus.unitId}'s range of ${low ?? "?"}–${high ?? "?"} gpm.`,
+        message: `${formatNumber(waterGpm)} gpm of water is outside ${unitLabel}'s range of ${low ?? "?"}–${high ?? "?"} gpm.`,
       });
     }
   }
@@ -302,8 +361,35 @@ export function computeDischarge(input: DischargeInput, context: UsageContext = 
     effectivePercentOfSolution: ofSolution,
     foamClass: product?.foamClass ?? null,
     pfasContaining: product?.pfasContaining ?? false,
+    foamSystemId: system?.id ?? null,
     warnings,
   };
+}
+
+/**
+ * A line that flowed while its system was out of tolerance (after a failed accuracy test, before a
+ * passing retest) carries a warning: its percentage, and every figure from it, may be wrong. A line
+ * without a time of its own is placed at the event's start; without either, the system's present
+ * state decides.
+ */
+function toleranceWarnings(
+  system: FoamSystemFacts,
+  label: string,
+  input: DischargeInput,
+  context: UsageContext,
+): UsageWarning[] {
+  const at = input.startedAt ?? context.eventWindow?.start ?? null;
+  const span = system.outOfTolerance.find((item) =>
+    at ? item.from <= at && (item.to == null || at < item.to) : item.to == null,
+  );
+  if (!span) return [];
+  return [
+    {
+      code: "system_out_of_tolerance",
+      field: "outlet",
+      message: `${label} was out of tolerance (${span.reason}): the proportioned percentage, and the concentrate figures from it, may be wrong until a passing retest.`,
+    },
+  ];
 }
 
 export function sumTotals(items: Totals[]): Totals {

@@ -328,3 +328,73 @@ export const HELD_BACK_LABEL = "Held back (contained and collected, sewer with n
 
 /** The line for foam solution that no runoff line accounts for (`unaccountedGallons`). */
 export const UNACCOUNTED_LABEL = "Unaccounted (no runoff line says where it went)";
+
+/** How a foam system proportions (our words for the trade's kinds of proportioner). */
+export const FOAM_SYSTEM_TYPES = [
+  "direct_injection",
+  "around_the_pump",
+  "balanced_pressure",
+  "inline_eductor",
+  "premix",
+  "other",
+] as const;
+export type FoamSystemType = (typeof FOAM_SYSTEM_TYPES)[number];
+export const FOAM_SYSTEM_TYPE_LABELS: Record<FoamSystemType, string> = {
+  direct_injection: "Direct injection",
+  around_the_pump: "Around-the-pump",
+  balanced_pressure: "Balanced pressure",
+  inline_eductor: "Inline eductor",
+  premix: "Premix",
+  other: "Other",
+};
+/** The convention a new system's controller takes by default (as `PROPORTIONER_PERCENT_OF`). */
+export const FOAM_SYSTEM_PERCENT_OF: Record<FoamSystemType, PercentOf> = {
+  direct_injection: "water",
+  around_the_pump: "solution",
+  balanced_pressure: "solution",
+  inline_eductor: "solution",
+  premix: "solution",
+  other: "solution",
+};
+export function isFoamSystemType(value: unknown): value is FoamSystemType {
+  return (FOAM_SYSTEM_TYPES as readonly unknown[]).includes(value);
+}
+
+/** A system's own state: a failed accuracy test puts it out of tolerance until a passing retest. */
+export const FOAM_SYSTEM_STATUSES = ["in_service", "out_of_tolerance"] as const;
+export type FoamSystemStatus = (typeof FOAM_SYSTEM_STATUSES)[number];
+
+/** Where a system stands on the fleet page and in `GET /api/foam-systems`, worst first. */
+export const FLEET_STATUSES = ["out_of_tolerance", "overdue", "due_soon", "current"] as const;
+export type FleetStatus = (typeof FLEET_STATUSES)[number];
+export const FLEET_STATUS_LABELS: Record<FleetStatus, string> = {
+  out_of_tolerance: "Out of tolerance",
+  overdue: "Overdue",
+  due_soon: "Due within 30 days",
+  current: "Current",
+};
+
+export const MAINTENANCE_KINDS = ["flush", "prime", "strainer", "changeover"] as const;
+export type MaintenanceKind = (typeof MAINTENANCE_KINDS)[number];
+export const MAINTENANCE_KIND_LABELS: Record<MaintenanceKind, string> = {
+  flush: "Flush",
+  prime: "Prime",
+  strainer: "Strainer or check valve cleaned",
+  changeover: "Tank cleaned or product changed over",
+};
+
+export const FLUSH_REASONS = ["after_use", "before_change", "scheduled"] as const;
+export type FlushReason = (typeof FLUSH_REASONS)[number];
+export const FLUSH_REASON_LABELS: Record<FlushReason, string> = {
+  after_use: "After use",
+  before_change: "Before a product change",
+  scheduled: "On schedule",
+};
+
+export const ACCURACY_TEST_METHODS = ["refractometer", "conductivity", "flow"] as const;
+export type AccuracyTestMethod = (typeof ACCURACY_TEST_METHODS)[number];
+export const ACCURACY_TEST_METHOD_LABELS: Record<AccuracyTestMethod, string> = {
+  refractometer: "Refractometer (calibration curve)",
+  conductivity: "Conductivity (calibration curve)",
+  flow: "Flow measurement (timed concentrate draw against metered water)",
+};
