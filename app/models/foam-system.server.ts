@@ -26,6 +26,7 @@ import {
 import { refused, RefusalError, type Refusal } from "~/lib/refusal";
 import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
+import { bumpDataVersion } from "./data-version.server";
 import { failureReason } from "./foam-system-facts.server";
 
 export type FoamSystemSummary = {
@@ -384,7 +385,12 @@ async function productExists(trx: Db, id: number | undefined, field: string) {
 
 async function run<T>(work: (trx: Db) => Promise<T>): Promise<T | Refusal> {
   try {
-    return await db.transaction(work);
+    return await db.transaction(async (trx) => {
+      const result = await work(trx);
+      // A system's limits, tank product and tolerance feed the kept catalogue facts.
+      await bumpDataVersion(trx, "catalogue");
+      return result;
+    });
   } catch (error) {
     if (error instanceof RefusalError) return error.refusal;
     throw error;
