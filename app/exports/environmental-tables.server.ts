@@ -50,6 +50,8 @@ export function eventTable(wall: WallClock): DetailTable<EventExportRow> {
     columns: [
       { key: "number", header: "Event number", width: 16, value: (r) => r.number },
       { key: "kind", header: "Kind", width: 11, value: (r) => r.kind },
+      { key: "incidentType", header: "Incident type", width: 16, value: (r) => r.incidentType },
+      { key: "dispatch", header: "Dispatch (CAD) number", width: 16, value: (r) => r.dispatchNumber },
       { key: "status", header: "Report status", width: 12, value: (r) => r.status },
       { key: "revision", header: "Revision", width: 9, value: (r) => r.revision },
       { key: "started", header: "Started (local)", width: 17, numFmt: DATE_TIME, value: (r) => wall(r.startedAt) },
@@ -82,6 +84,7 @@ export function eventTable(wall: WallClock): DetailTable<EventExportRow> {
       { key: "pfas", header: "PFAS-containing foam", width: 11, value: (r) => r.pfasContaining },
       { key: "warnings", header: "Has warnings", width: 10, value: (r) => r.hasWarnings },
       { key: "eventWarnings", header: "Event warnings", width: 40, value: (r) => r.eventWarnings },
+      { key: "mutualAid", header: "Mutual-aid units", width: 24, value: (r) => r.mutualAid },
     ],
   };
 }
@@ -95,6 +98,7 @@ export const dischargeTable: DetailTable<DischargeExportRow> = {
     { key: "kind", header: "Kind", width: 11, value: (r) => r.kind },
     { key: "position", header: "Line", width: 6, value: (r) => r.position },
     { key: "apparatus", header: "Apparatus", width: 12, value: (r) => r.apparatus },
+    { key: "mutualAid", header: "Mutual aid (no capacity checks)", width: 10, value: (r) => r.mutualAid },
     { key: "outlet", header: "Outlet", width: 16, value: (r) => r.outlet },
     { key: "product", header: "Product", width: 28, value: (r) => r.product },
     { key: "class", header: "Foam class", width: 10, value: (r) => r.foamClass },

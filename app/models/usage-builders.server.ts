@@ -4,7 +4,7 @@
 // written by `report-rows.server.ts`, as a save writes them.
 import type { Knex } from "knex";
 import { computeUsage, type ApparatusFacts, type ProductFacts, type UsageResult } from "../lib/foam/totals";
-import type { EventKind, EventStatus } from "../lib/foam/vocabulary";
+import { DEFAULT_INCIDENT_TYPE, type EventKind, type EventStatus, type IncidentType } from "../lib/foam/vocabulary";
 import { readAgencySettings } from "./agency-settings.server";
 import { allCatalogueFacts } from "./catalogue.server";
 import {
@@ -38,6 +38,9 @@ export type SeededRandom = ReturnType<typeof seededRandom>;
 export type EventSpec = ReportLines & {
   number: string;
   kind: EventKind;
+  /** Absent: the kind's own type for a non-incident event, none (not recorded) for an incident. */
+  incidentType?: IncidentType | null;
+  dispatchNumber?: string | null;
   status: EventStatus;
   startedAt: Date | null;
   clearedAt: Date | null;
@@ -78,6 +81,8 @@ export function eventRow(spec: EventSpec, usage: UsageResult) {
   return {
     number: spec.number,
     kind: spec.kind,
+    incident_type: spec.incidentType === undefined ? DEFAULT_INCIDENT_TYPE[spec.kind] : spec.incidentType,
+    dispatch_number: spec.dispatchNumber ?? null,
     status: spec.status,
     version: spec.version ?? 1,
     revision: 0,
