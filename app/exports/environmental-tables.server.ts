@@ -98,7 +98,6 @@ export const dischargeTable: DetailTable<DischargeExportRow> = {
     { key: "kind", header: "Kind", width: 11, value: (r) => r.kind },
     { key: "position", header: "Line", width: 6, value: (r) => r.position },
     { key: "apparatus", header: "Apparatus", width: 12, value: (r) => r.apparatus },
-    { key: "mutualAid", header: "Mutual aid (no capacity checks)", width: 10, value: (r) => r.mutualAid },
     { key: "outlet", header: "Outlet", width: 16, value: (r) => r.outlet },
     { key: "product", header: "Product", width: 28, value: (r) => r.product },
     { key: "class", header: "Foam class", width: 10, value: (r) => r.foamClass },
@@ -116,6 +115,7 @@ export const dischargeTable: DetailTable<DischargeExportRow> = {
     { key: "concentrateL", header: "Concentrate (L)", width: 12, numFmt: LITRES, value: (r) => litres(r.concentrate) },
     { key: "solutionL", header: "Foam solution (L)", width: 13, numFmt: LITRES, value: (r) => litres(r.solution) },
     { key: "warnings", header: "Warnings", width: 40, value: (r) => r.warnings },
+    { key: "mutualAid", header: "Mutual aid (no capacity checks)", width: 10, value: (r) => r.mutualAid },
   ],
 };
 
