@@ -159,6 +159,13 @@ export const FOAM_TYPE_LABELS: Record<FoamType, string> = {
   other: "Other",
 };
 
+/** A product's class and type in one phrase, the type left out where it only repeats the class. */
+export function foamClassAndTypeLabel(foamClass: FoamClass, foamType: string): string {
+  const classLabel = FOAM_CLASS_LABELS[foamClass];
+  const typeLabel = (FOAM_TYPE_LABELS as Record<string, string>)[foamType] ?? foamType;
+  return !typeLabel || typeLabel === classLabel ? classLabel : `${classLabel} · ${typeLabel}`;
+}
+
 export const PFAS_CONTENT_UNITS = [
   "g_per_l",
   "mg_per_l",
