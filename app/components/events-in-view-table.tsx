@@ -36,7 +36,9 @@ export function EventsInViewTable({
         <p className="text-sm text-slate-ft" data-testid="events-in-view-count">
           {matching === 0
             ? "No events match these filters in this period. Change the dates or the filters above."
-            : `None of the ${matching === 1 ? "1 event" : `${matching} events`} that match the filters is in view. Zoom out or move the map.`}
+            : matching === 1
+              ? "The 1 event that matches the filters is not in view. Zoom out or move the map."
+              : `None of the ${matching} events that match the filters is in view. Zoom out or move the map.`}
         </p>
       ) : (
         <div className="overflow-x-auto">

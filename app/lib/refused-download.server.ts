@@ -19,8 +19,7 @@ export function wantsRefusalPage(request: Request, response: Response): boolean 
   return navigation || acceptsPage;
 }
 
-const escapeHtml = (text: string) =>
-  text.replace(/[&<>"']/g, (character) => `&#${character.charCodeAt(0)};`);
+const escapeHtml = (text: string) => text.replace(/[&<>"']/g, (character) => `&#${character.charCodeAt(0)};`);
 
 /** The refusal as a small page in the app's own styles, with the server's reason when it gave one. */
 export function refusalPage(status: number, message: string | undefined): string {
@@ -32,6 +31,7 @@ export function refusalPage(status: number, message: string | undefined): string
 <meta name="viewport" content="width=device-width, initial-scale=1">
 <title>${escapeHtml(friendly.title)} · Foamtally</title>
 <link rel="stylesheet" href="${stylesheet}">
+<link rel="icon" href="/favicon.svg" type="image/svg+xml">
 </head>
 <body class="min-h-screen bg-stone-50 font-sans text-ink">
 <main class="mx-auto max-w-5xl p-4">
