@@ -242,6 +242,14 @@ export function ReportForm(props: ReportFormProps) {
               hint="The incident number from dispatch, if there is one."
             />
             <SelectField
+              label="Station"
+              field={fields.stationId}
+              placeholder="Choose the station"
+              options={choices(
+                props.stations.map((station) => [String(station.id), `${station.code} ${station.name}`]),
+              )}
+            />
+            <SelectField
               label="Kind"
               field={fields.kind}
               options={choices(EVENT_KINDS.map((kind) => [kind, EVENT_KIND_LABELS[kind]]))}
@@ -261,14 +269,7 @@ export function ReportForm(props: ReportFormProps) {
               }
               options={choices(INCIDENT_TYPES_BY_KIND[kind].map((type) => [type, INCIDENT_TYPE_LABELS[type]]))}
             />
-            <SelectField
-              label="Station"
-              field={fields.stationId}
-              placeholder="Choose the station"
-              options={choices(
-                props.stations.map((station) => [String(station.id), `${station.code} ${station.name}`]),
-              )}
-            />
+            <TextField label="Address or location" field={fields.address} />
             <TextField
               label="Started"
               field={fields.startedAt}
@@ -283,7 +284,6 @@ export function ReportForm(props: ReportFormProps) {
               hintBelow
               hint={`Local time, ${props.timeZone}.`}
             />
-            <TextField label="Address or location" field={fields.address} />
           </div>
           <EventLocationMap
             defaultLatitude={fields.latitude.initialValue}
