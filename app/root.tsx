@@ -13,11 +13,13 @@ import { AppShell } from "./components/app-shell";
 import { useNonce } from "./components/nonce";
 import { getUser } from "./lib/auth.server";
 import { publicEnv } from "./lib/env.server";
+import { friendlyError } from "./lib/error-messages";
+import { refusedDownloadMiddleware } from "./lib/refused-download.server";
 import { securityMiddleware } from "./lib/security.server";
 import { commitSession, getSession } from "./lib/session.server";
 import stylesheet from "./app.css?url";
 
-export const middleware: Route.MiddlewareFunction[] = [securityMiddleware];
+export const middleware: Route.MiddlewareFunction[] = [securityMiddleware, refusedDownloadMiddleware];
 
 export const links: Route.LinksFunction = () => [
   { rel: "stylesheet", href: stylesheet },
@@ -67,21 +69,6 @@ export default function App({ loaderData }: Route.ComponentProps) {
   );
 }
 
-const FRIENDLY: Record<number, { title: string; text: string }> = {
-  400: { title: "That request could not be read", text: "Check what was entered and try again." },
-  401: { title: "Please sign in", text: "Your session has ended. Sign in again to continue." },
-  403: { title: "Not for your role", text: "Your roles do not allow this page. Ask an administrator if you need it." },
-  404: { title: "Not found", text: "There is nothing at this address. It may have been moved or never existed." },
-  409: { title: "Someone else changed this", text: "Reload to see the latest version." },
-  411: { title: "That request could not be read", text: "Send it again with its length declared." },
-  413: { title: "Too much to send", text: "The request is larger than Foamtally accepts. Nothing was saved." },
-  415: { title: "That request could not be read", text: "Send the form from its page. Nothing was saved." },
-  503: {
-    title: "Temporarily unavailable",
-    text: "A service Foamtally depends on is not answering. Try again in a minute.",
-  },
-};
-
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
   const root = useRouteLoaderData<typeof loader>("root");
   let status = 500;
@@ -91,10 +78,7 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
     const body = error.data as { message?: unknown } | string | undefined;
     message = typeof body === "string" ? body : typeof body?.message === "string" ? body.message : undefined;
   }
-  const friendly = FRIENDLY[status] ?? {
-    title: "Something went wrong",
-    text: "Foamtally hit an unexpected problem. Nothing you saved is lost; try again, and tell an administrator if it keeps happening.",
-  };
+  const friendly = friendlyError(status);
   const details = import.meta.env.DEV && error instanceof Error ? error.stack : undefined;
   return (
     <AppShell user={root?.user ?? null} flash={null} demoMode={root?.env.DEMO_MODE ?? false}>

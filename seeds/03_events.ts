@@ -1,6 +1,6 @@
 import { DEFAULT_EVENT_NUMBER_PREFIX, eventNumberSeries, formatEventNumber } from "../app/lib/foam/event-number";
 import type { Knex } from "knex";
-import type { EventKind, EventStatus } from "../app/lib/foam/vocabulary";
+import type { EventKind, EventStatus, IncidentType } from "../app/lib/foam/vocabulary";
 import type { ReportDischarge, ReportRunoff, ReportTankReading } from "../app/models/report-rows.server";
 import {
   insertEvent,
@@ -120,6 +120,7 @@ export function routineEvent(
   let narrative: string;
   let dispositions: ReportRunoff[];
   let minutesOnScene = random.int(35, 150);
+  let incidentType: IncidentType = "training";
   const engine = station === "S2" ? "E2" : station === "S3" ? "E3" : "E1";
   const cafsEngine = station === "S2" ? "E2" : "E1";
 
@@ -154,6 +155,9 @@ export function routineEvent(
     minutesOnScene = minutes + random.int(30, 90);
   } else {
     const type = random.pick(["structure", "structure", "vehicle", "grass", "dumpster"] as const);
+    incidentType = (
+      { structure: "structure_fire", vehicle: "vehicle_fire", grass: "wildland", dumpster: "other" } as const
+    )[type];
     if (type === "structure") {
       const lines = random.int(1, 2);
       for (let line = 0; line < lines; line++) {
@@ -221,6 +225,7 @@ export function routineEvent(
   return {
     number,
     kind,
+    incidentType,
     ...reviewOf(context.status, author, cleared, context.reviewer, random),
     startedAt: start,
     clearedAt: cleared,
@@ -244,6 +249,7 @@ function notableEvents(ids: DemoIds, random: SeededRandom): EventSpec[] {
     {
       number: "",
       kind: "incident",
+      incidentType: "flammable_liquid_spill",
       startedAt: at("2025-12-09T20:14:00Z"),
       clearedAt: at("2025-12-09T23:40:00Z"),
       ...accepted(officer2, at("2025-12-09T23:40:00Z")),
@@ -309,6 +315,7 @@ function notableEvents(ids: DemoIds, random: SeededRandom): EventSpec[] {
     {
       number: "",
       kind: "incident",
+      incidentType: "flammable_liquid_spill",
       startedAt: at("2026-03-18T15:05:00Z"),
       clearedAt: at("2026-03-18T17:20:00Z"),
       ...accepted(officer, at("2026-03-18T17:20:00Z")),
@@ -512,6 +519,7 @@ function notableEvents(ids: DemoIds, random: SeededRandom): EventSpec[] {
     {
       number: "",
       kind: "incident",
+      incidentType: "wildland",
       startedAt: at("2026-08-03T21:10:00Z"),
       clearedAt: at("2026-08-04T01:45:00Z"),
       ...accepted(officer, at("2026-08-04T01:45:00Z")),
@@ -521,7 +529,7 @@ function notableEvents(ids: DemoIds, random: SeededRandom): EventSpec[] {
       stationId: ids.stations.S2,
       narrative:
         "Field and fence-row fire next to Millrace Creek. Foam kept back from the creek bank; part of the runoff reached " +
-        "the creek (demo).",
+        "the creek. Cedar Ford's brush unit came in on mutual aid along the far fence row (demo).",
       createdBy: officer,
       discharges: [
         {
@@ -544,6 +552,19 @@ function notableEvents(ids: DemoIds, random: SeededRandom): EventSpec[] {
           minutes: 35,
           method: "compressed_air",
           airFlowCfm: 40,
+        },
+        {
+          // Another agency's unit: named as typed, no apparatus of ours, so no capacity checks.
+          apparatusId: null,
+          mutualAidAgency: "Cedar Ford Fire Protection District (demo)",
+          mutualAidUnit: "BR61",
+          outlet: "Hose reel",
+          productId: ids.products.classA,
+          percent: 0.3,
+          flow: 30,
+          basis: "water",
+          minutes: 25,
+          method: "wetting",
         },
       ],
       dispositions: [
@@ -616,6 +637,16 @@ export function buildDemoEvents(ids: DemoIds): EventSpec[] {
     const next = (counters.get(key) ?? (series === "AB" && year === 2025 ? 130 : 0)) + 1;
     counters.set(key, next);
     event.number = formatEventNumber(series, year, next);
+  }
+  // Incidents carry the county dispatch centre's own number (invented format): two-digit year and
+  // a sequence that runs far ahead of ours, since dispatch numbers every call it takes.
+  const dispatched = new Map<number, number>();
+  for (const event of events) {
+    if (event.kind !== "incident") continue;
+    const year = event.startedAt!.getUTCFullYear();
+    const sequence = (dispatched.get(year) ?? 0) + 1;
+    dispatched.set(year, sequence);
+    event.dispatchNumber = `${String(year).slice(2)}-${String(1200 + sequence * 37).padStart(6, "0")}`;
   }
   return events;
 }

@@ -1,6 +1,6 @@
-import { Form, NavLink, useLocation } from "react-router";
+import { Form, Link, NavLink, useLocation } from "react-router";
 import { ROLE_LABELS, type Role } from "~/lib/access";
-import { navFor } from "./navigation";
+import { currentNavItem, navFor } from "./navigation";
 
 type ShellUser = { id: number; name: string; email: string; roles: Role[] } | null;
 
@@ -17,16 +17,11 @@ export function AppShell({
 }) {
   const items = user ? navFor(user.roles, demoMode) : [];
   const location = useLocation();
-  // A link with a query is current only with that query; its plain
-  // sibling is current only when no such link is.
-  const current = (to: string, pathActive: boolean) => {
-    const [path, query] = to.split("?");
-    if (query) return location.pathname === path && location.search === `?${query}`;
-    const queried = items.some(
-      (item) => item.to.startsWith(`${path}?`) && location.search === item.to.slice(path.length),
-    );
-    return pathActive && !queried;
-  };
+  const currentTo = currentNavItem(
+    items.map((item) => item.to),
+    location.pathname,
+    location.search,
+  );
   return (
     <div className="flex min-h-screen flex-col">
       <a
@@ -65,15 +60,13 @@ export function AppShell({
             <ul className="mx-auto flex max-w-7xl gap-1 overflow-x-auto px-2 pb-2 text-sm">
               {items.map((item) => (
                 <li key={item.to}>
-                  <NavLink
+                  <Link
                     to={item.to}
-                    end={item.to === "/"}
-                    className={({ isActive }) =>
-                      `block whitespace-nowrap rounded px-3 py-2 ${current(item.to, isActive) ? "bg-white text-ink" : "text-white/90 hover:bg-white/10"}`
-                    }
+                    aria-current={item.to === currentTo ? "page" : undefined}
+                    className={`block whitespace-nowrap rounded px-3 py-2 ${item.to === currentTo ? "bg-white text-ink" : "text-white/90 hover:bg-white/10"}`}
                   >
                     {item.label}
-                  </NavLink>
+                  </Link>
                 </li>
               ))}
             </ul>

@@ -10,11 +10,14 @@ const gal = (value: number) => value.toLocaleString("en-US", { minimumFractionDi
  */
 export function EventsInViewTable({
   view,
+  matching,
   timeZone,
   loading,
   onShow,
 }: {
   view: EventsInView | null;
+  /** How many events the filters select in all, in view or not; null while they load. */
+  matching: number | null;
   timeZone: string;
   loading: boolean;
   onShow: (eventId: number) => void;
@@ -31,7 +34,11 @@ export function EventsInViewTable({
         <p className="text-sm text-slate-ft">{loading ? "Loading the events…" : "The events could not be loaded."}</p>
       ) : view.total === 0 ? (
         <p className="text-sm text-slate-ft" data-testid="events-in-view-count">
-          No events in view. Zoom out or move the map.
+          {matching === 0
+            ? "No events match these filters in this period. Change the dates or the filters above."
+            : matching === 1
+              ? "The 1 event that matches the filters is not in view. Zoom out or move the map."
+              : `None of the ${matching} events that match the filters is in view. Zoom out or move the map.`}
         </p>
       ) : (
         <div className="overflow-x-auto">

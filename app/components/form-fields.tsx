@@ -26,16 +26,21 @@ function FieldHint({ field, hint }: { field: AnyField; hint?: string }) {
   ) : null;
 }
 
-/** A label above its hint, the control and the field's errors. */
+/**
+ * A label above its hint, the control and the field's errors. In a grid row whose fields have hints
+ * of different lengths, `hintBelow` keeps the controls level by putting the hint under the control.
+ */
 function LabelledField({
   label,
   field,
   hint,
+  hintBelow,
   children,
 }: {
   label: string;
   field: AnyField;
   hint?: string;
+  hintBelow?: boolean;
   children: React.ReactNode;
 }) {
   return (
@@ -43,8 +48,9 @@ function LabelledField({
       <label htmlFor={field.id} className="field-label">
         {label}
       </label>
-      <FieldHint field={field} hint={hint} />
+      {hintBelow ? null : <FieldHint field={field} hint={hint} />}
       {children}
+      {hintBelow ? <FieldHint field={field} hint={hint} /> : null}
       <ErrorList id={field.errorId} errors={field.errors} />
     </div>
   );
@@ -55,16 +61,18 @@ export function TextField({
   field,
   type = "text",
   hint,
+  hintBelow,
   ...rest
 }: {
   label: string;
   field: AnyField;
   type?: "text" | "email" | "password" | "number" | "datetime-local" | "date";
   hint?: string;
+  hintBelow?: boolean;
 } & Omit<React.InputHTMLAttributes<HTMLInputElement>, "type">) {
   const props = getInputProps(field, { type, ariaDescribedBy: hintIdOf(field, hint) });
   return (
-    <LabelledField label={label} field={field} hint={hint}>
+    <LabelledField label={label} field={field} hint={hint} hintBelow={hintBelow}>
       <input {...props} {...rest} key={props.key} className="field-input" />
     </LabelledField>
   );
@@ -75,6 +83,7 @@ export function SelectField({
   field,
   options,
   hint,
+  hintBelow,
   placeholder,
   disabled,
   onChange,
@@ -83,13 +92,14 @@ export function SelectField({
   field: AnyField;
   options: Array<{ value: string; label: string }>;
   hint?: string;
+  hintBelow?: boolean;
   placeholder?: string;
   disabled?: boolean;
   onChange?: (event: React.ChangeEvent<HTMLSelectElement>) => void;
 }) {
   const props = getSelectProps(field, { ariaDescribedBy: hintIdOf(field, hint) });
   return (
-    <LabelledField label={label} field={field} hint={hint}>
+    <LabelledField label={label} field={field} hint={hint} hintBelow={hintBelow}>
       <select {...props} key={props.key} className="field-input" disabled={disabled} onChange={onChange}>
         {placeholder !== undefined ? <option value="">{placeholder}</option> : null}
         {options.map((option) => (

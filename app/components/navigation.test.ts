@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { navFor } from "./navigation";
+import { currentNavItem, navFor } from "./navigation";
 import { tasksFor } from "./role-home";
 
 describe("the menu and the home page follow the access table", () => {
@@ -27,5 +27,25 @@ describe("the menu and the home page follow the access table", () => {
     expect(tasksFor("officer").map((task) => task.to)).not.toContain("/review");
     expect(tasksFor("officer").map((task) => task.to)).toContain("/events/new");
     expect(tasksFor("chief").map((task) => task.to)).not.toContain("/events/new");
+  });
+});
+
+describe("the current menu item", () => {
+  const officer = navFor(["officer"]).map((item) => item.to);
+  const reviewer = navFor(["environmental"]).map((item) => item.to);
+
+  it("is New report alone on the new-report page, Events on an event's page", () => {
+    expect(officer).toEqual(expect.arrayContaining(["/events", "/events/new"]));
+    expect(currentNavItem(officer, "/events/new", "")).toBe("/events/new");
+    expect(currentNavItem(officer, "/events/12", "")).toBe("/events");
+    expect(currentNavItem(officer, "/events", "?kind=training")).toBe("/events");
+    expect(currentNavItem(officer, "/", "")).toBe("/");
+    expect(currentNavItem(officer, "/profile", "")).toBeNull();
+  });
+
+  it("is the review queue with its query, the events list without it", () => {
+    expect(reviewer).toContain("/events?status=filed");
+    expect(currentNavItem(reviewer, "/events", "?status=filed")).toBe("/events?status=filed");
+    expect(currentNavItem(reviewer, "/events", "")).toBe("/events");
   });
 });

@@ -25,3 +25,22 @@ export function navFor(roles: readonly Role[], demoMode = false): NavItem[] {
     (item) => (demoMode || !item.demoOnly) && (item.capability === "signed-in" || rolesCan(roles, item.capability)),
   );
 }
+
+/**
+ * The one menu item marked current on a page: the one whose path is the longest part of the
+ * address ("/events/new" is New report, not Events as well). A link with a query (such as the review
+ * queue) is current only with that query; its plain sibling then is not.
+ */
+export function currentNavItem(links: readonly string[], pathname: string, search: string): string | null {
+  let best: { to: string; length: number } | null = null;
+  for (const to of links) {
+    const [path, query] = to.split("?");
+    if (query !== undefined && search !== `?${query}`) continue;
+    const onPath = path === "/" ? pathname === "/" : pathname === path || pathname.startsWith(`${path}/`);
+    if (!onPath) continue;
+    // A query link at the same path wins over its plain sibling.
+    const length = path.length + (query !== undefined ? 0.5 : 0);
+    if (!best || length > best.length) best = { to, length };
+  }
+  return best?.to ?? null;
+}

@@ -8,7 +8,7 @@ import {
   type SubmissionResult,
 } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { useEffect, useMemo, useRef } from "react";
+import { useEffect, useMemo, useRef, useState } from "react";
 import { Form, useFetcher, useNavigation } from "react-router";
 import type { z } from "zod";
 import {
@@ -39,7 +39,12 @@ import {
   VOLUME_LABELS,
   VOLUMES,
   WATER_ONLY_LABEL,
+  DEFAULT_INCIDENT_TYPE,
+  INCIDENT_TYPE_LABELS,
+  INCIDENT_TYPES_BY_KIND,
+  type EventKind,
   type EventStatus,
+  type IncidentType,
   type FlowBasis,
   type ProportionerType,
   type FoamClass,
@@ -47,6 +52,7 @@ import {
 } from "~/lib/foam/vocabulary";
 import { EventLocationMap } from "./event-location-map";
 import { ErrorList, FormErrors, SelectField, TextField } from "./form-fields";
+import { MutualAidFields, MutualAidSwitch } from "./mutual-aid-fields";
 import { UsageCautions } from "./usage-cautions";
 
 export type ProductOption = {
@@ -191,6 +197,9 @@ export function ReportForm(props: ReportFormProps) {
       return parseWithZod(formData, { schema: FiledReportSchema });
     },
   });
+  const kind: EventKind = EVENT_KINDS.includes(fields.kind.value as EventKind)
+    ? (fields.kind.value as EventKind)
+    : "incident";
   const discharges = fields.discharges.getFieldList();
   const dispositions = fields.dispositions.getFieldList();
   const tankReadings = fields.tankReadings.getFieldList();
@@ -240,16 +249,18 @@ export function ReportForm(props: ReportFormProps) {
             <TextField
               label="Event number"
               field={fields.number}
+              hintBelow
               hint={
                 props.numberSuggestion
-                  ? `Dispatch or training number; leave it blank and the next one (${props.numberSuggestion}) is given when you save.`
-                  : "Dispatch or training number."
+                  ? `Foamtally's own number; leave it blank and the next one (${props.numberSuggestion}) is given when you save.`
+                  : "Foamtally's own number for this report."
               }
             />
-            <SelectField
-              label="Kind"
-              field={fields.kind}
-              options={choices(EVENT_KINDS.map((kind) => [kind, EVENT_KIND_LABELS[kind]]))}
+            <TextField
+              label="Dispatch (CAD) number"
+              field={fields.dispatchNumber}
+              hintBelow
+              hint="The incident number from dispatch, if there is one."
             />
             <SelectField
               label="Station"
@@ -259,14 +270,41 @@ export function ReportForm(props: ReportFormProps) {
                 props.stations.map((station) => [String(station.id), `${station.code} ${station.name}`]),
               )}
             />
+            <SelectField
+              label="Kind"
+              field={fields.kind}
+              options={choices(EVENT_KINDS.map((kind) => [kind, EVENT_KIND_LABELS[kind]]))}
+              onChange={(event) => {
+                const kind = event.currentTarget.value as EventKind;
+                const type = fields.incidentType.value as IncidentType | undefined;
+                if (type && !INCIDENT_TYPES_BY_KIND[kind]?.includes(type)) {
+                  form.update({ name: fields.incidentType.name, value: "" });
+                }
+              }}
+            />
+            <SelectField
+              label="Incident type"
+              field={fields.incidentType}
+              placeholder={
+                DEFAULT_INCIDENT_TYPE[kind] ? INCIDENT_TYPE_LABELS[DEFAULT_INCIDENT_TYPE[kind]] : "Not recorded"
+              }
+              options={choices(INCIDENT_TYPES_BY_KIND[kind].map((type) => [type, INCIDENT_TYPE_LABELS[type]]))}
+            />
+            <TextField label="Address or location" field={fields.address} />
             <TextField
               label="Started"
               field={fields.startedAt}
               type="datetime-local"
+              hintBelow
               hint={`Local time, ${props.timeZone}.`}
             />
-            <TextField label="Cleared" field={fields.clearedAt} type="datetime-local" />
-            <TextField label="Address or location" field={fields.address} />
+            <TextField
+              label="Cleared"
+              field={fields.clearedAt}
+              type="datetime-local"
+              hintBelow
+              hint={`Local time, ${props.timeZone}.`}
+            />
           </div>
           <EventLocationMap
             defaultLatitude={fields.latitude.initialValue}
@@ -545,6 +583,7 @@ function DischargeLine({ name, index, listName, full, result, ...props }: Discha
   const values = (line.value ?? {}) as Record<string, string | undefined>;
   const unit = props.apparatusById.get(Number(values.apparatusId));
   const product = props.productsById.get(Number(values.productId));
+  const [mutualAid, setMutualAid] = useState(Boolean(values.mutualAidAgency || values.mutualAidUnit));
   const apparatusById = props.apparatusById;
   const productsById = props.productsById;
   return (
@@ -569,26 +608,42 @@ function DischargeLine({ name, index, listName, full, result, ...props }: Discha
           </button>
         </div>
       </div>
+      <MutualAidSwitch
+        id={`${row.mutualAidAgency.id}-switch`}
+        checked={mutualAid}
+        onChange={(checked) => {
+          setMutualAid(checked);
+          if (checked) form.update({ name: row.apparatusId.name, value: "" });
+          else {
+            form.update({ name: row.mutualAidAgency.name, value: "" });
+            form.update({ name: row.mutualAidUnit.name, value: "" });
+          }
+        }}
+      />
       <div className="mt-2 grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
-        <SelectField
-          label="Apparatus"
-          field={row.apparatusId}
-          placeholder="Not listed / mutual aid"
-          options={choices(
-            props.apparatus.map((option) => [String(option.id), `${option.unitId} ${option.description}`]),
-          )}
-          onChange={(event) => {
-            const chosen = apparatusById.get(Number(event.currentTarget.value));
-            const outlet = chosen?.outlets.find((item) => item.foamCapable) ?? chosen?.outlets[0];
-            if (outlet && !values.outlet) {
-              form.update({ name: row.outlet.name, value: outlet.name });
-              if (outlet.defaultFlowGpm && !values.flow)
-                form.update({ name: row.flow.name, value: String(outlet.defaultFlowGpm) });
-              form.update({ name: row.basis.name, value: outlet.defaultFlowBasis });
-              if (outlet.defaultMethod) form.update({ name: row.method.name, value: outlet.defaultMethod });
-            }
-          }}
-        />
+        {mutualAid ? (
+          <MutualAidFields agency={row.mutualAidAgency} unit={row.mutualAidUnit} />
+        ) : (
+          <SelectField
+            label="Apparatus"
+            field={row.apparatusId}
+            placeholder="Not listed"
+            options={choices(
+              props.apparatus.map((option) => [String(option.id), `${option.unitId} ${option.description}`]),
+            )}
+            onChange={(event) => {
+              const chosen = apparatusById.get(Number(event.currentTarget.value));
+              const outlet = chosen?.outlets.find((item) => item.foamCapable) ?? chosen?.outlets[0];
+              if (outlet && !values.outlet) {
+                form.update({ name: row.outlet.name, value: outlet.name });
+                if (outlet.defaultFlowGpm && !values.flow)
+                  form.update({ name: row.flow.name, value: String(outlet.defaultFlowGpm) });
+                form.update({ name: row.basis.name, value: outlet.defaultFlowBasis });
+                if (outlet.defaultMethod) form.update({ name: row.method.name, value: outlet.defaultMethod });
+              }
+            }}
+          />
+        )}
         <div>
           <label htmlFor={row.outlet.id} className="field-label">
             Outlet

@@ -1,6 +1,9 @@
 import {
   APPLICATION_METHOD_LABELS,
+  dischargeUnitLabel,
   DISPOSITION_LABELS,
+  incidentTypeLabel,
+  MUTUAL_AID_LABEL,
   EVENT_KIND_LABELS,
   FLOW_BASIS_LABELS,
   FLOW_UNIT_LABELS,
@@ -22,6 +25,8 @@ import { UsageCautions } from "./usage-cautions";
 type Line = {
   position: number;
   apparatus: string | null;
+  mutualAidAgency?: string | null;
+  mutualAidUnit?: string | null;
   outlet: string;
   product: string | null;
   foamClass: "A" | "B" | null;
@@ -43,6 +48,8 @@ type Line = {
 
 export type SummaryReport = {
   kind: EventKind;
+  incidentType?: string | null;
+  dispatchNumber?: string | null;
   timeZone: string;
   startedAt: string;
   clearedAt: string;
@@ -99,6 +106,8 @@ export function ReportSummary({ report }: { report: SummaryReport }) {
         </h2>
         <dl className="mt-3 grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
           <Item label="Kind" value={EVENT_KIND_LABELS[report.kind]} />
+          <Item label="Incident type" value={incidentTypeLabel(report.incidentType)} />
+          <Item label="Dispatch (CAD) number" value={report.dispatchNumber || "—"} />
           <Item label="Station" value={report.station ?? "—"} />
           <Item label={`Started (${report.timeZone})`} value={when(report.startedAt)} />
           <Item label={`Cleared (${report.timeZone})`} value={when(report.clearedAt)} />
@@ -204,8 +213,13 @@ export function ReportSummary({ report }: { report: SummaryReport }) {
               <tr key={line.position}>
                 <td>{line.position}</td>
                 <td>
-                  {line.apparatus ?? "—"}
+                  {dischargeUnitLabel(line) ?? "—"}
                   {line.outlet ? ` · ${line.outlet}` : ""}
+                  {line.mutualAidAgency ? (
+                    <span className="block text-xs text-slate-ft">
+                      {MUTUAL_AID_LABEL}: another agency&apos;s foam system, so no capacity checks.
+                    </span>
+                  ) : null}
                   {line.method ? (
                     <span className="block text-xs text-slate-ft">
                       {APPLICATION_METHOD_LABELS[line.method as keyof typeof APPLICATION_METHOD_LABELS]}

@@ -116,6 +116,14 @@ export function methodLines(agency: AgencySettings): [string, string][] {
       "Proportioner limit",
       "Where flow × p exceeds the proportioner's maximum concentrate rate, the set percentage was not reached: the effective percentage is the maximum rate ÷ flow, shown on the Discharges sheet and used in the volumes.",
     ],
+    [
+      "Mutual aid",
+      "A discharge from another agency's unit is marked Mutual aid on the Discharges sheet and named on the Events sheet, as the officer typed it. It counts in every total like our own lines; its foam system is not in our apparatus list, so no proportioner-limit or flow-range check applies to it.",
+    ],
+    [
+      "Incident type and dispatch number",
+      "Each event carries the type the officer chose (structure fire, vehicle fire, flammable-liquid spill, wildland fire, hazmat, or the non-incident kind itself) and, where given, the dispatch (CAD) incident number beside Foamtally's own report number. Incidents saved before the type was recorded show Not recorded.",
+    ],
     ["Volume", "Duration (min) × flow (gpm). Flows entered in L/min are converted with 1 US gal = 3.785411784 L."],
     [
       "Units",

@@ -55,6 +55,8 @@ export function eventTable(wall: WallClock): DetailTable<EventExportRow> {
     columns: [
       { key: "number", header: "Event number", width: 16, value: (r) => r.number },
       { key: "kind", header: "Kind", width: 11, value: (r) => r.kind },
+      { key: "incidentType", header: "Incident type", width: 16, value: (r) => r.incidentType },
+      { key: "dispatch", header: "Dispatch (CAD) number", width: 16, value: (r) => r.dispatchNumber },
       { key: "status", header: "Report status", width: 12, value: (r) => r.status },
       { key: "revision", header: "Revision", width: 9, value: (r) => r.revision },
       { key: "started", header: "Started (local)", width: 17, numFmt: DATE_TIME, value: (r) => wall(r.startedAt) },
@@ -87,6 +89,7 @@ export function eventTable(wall: WallClock): DetailTable<EventExportRow> {
       { key: "pfas", header: "PFAS-containing foam", width: 11, value: (r) => r.pfasContaining },
       { key: "warnings", header: "Has warnings", width: 10, value: (r) => r.hasWarnings },
       { key: "eventWarnings", header: "Event warnings", width: 40, value: (r) => r.eventWarnings },
+      { key: "mutualAid", header: "Mutual-aid units", width: 24, value: (r) => r.mutualAid },
     ],
   };
 }
@@ -117,6 +120,7 @@ export const dischargeTable: DetailTable<DischargeExportRow> = {
     { key: "concentrateL", header: "Concentrate (L)", width: 12, numFmt: LITRES, value: (r) => litres(r.concentrate) },
     { key: "solutionL", header: "Foam solution (L)", width: 13, numFmt: LITRES, value: (r) => litres(r.solution) },
     { key: "warnings", header: "Warnings", width: 40, value: (r) => r.warnings },
+    { key: "mutualAid", header: "Mutual aid (no capacity checks)", width: 10, value: (r) => r.mutualAid },
   ],
 };
 

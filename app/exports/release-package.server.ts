@@ -5,7 +5,14 @@ import { ZipArchive } from "archiver";
 import ExcelJS from "exceljs";
 import { csvLine } from "~/lib/csv";
 import { db } from "~/lib/db.server";
-import { EVENT_KIND_LABELS, type EventKind, type FoamClass, type RecordsRequestStatus } from "~/lib/foam/vocabulary";
+import {
+  dischargeUnitLabel,
+  EVENT_KIND_LABELS,
+  incidentTypeLabel,
+  type EventKind,
+  type FoamClass,
+  type RecordsRequestStatus,
+} from "~/lib/foam/vocabulary";
 import {
   DEFAULT_REDACTIONS,
   hundredBlock,
@@ -38,6 +45,8 @@ export type ReleasePreviewRow = {
   id: number;
   number: string;
   kind: string;
+  incidentType: string;
+  dispatchNumber: string;
   startedAt: string;
   address: string;
   latitude: number | null;
@@ -58,6 +67,8 @@ export async function selectReleaseEvents(selection: ReleaseSelection): Promise<
       "events.id",
       "events.number",
       "events.kind",
+      "events.incident_type",
+      "events.dispatch_number",
       "events.started_at",
       "events.address",
       "events.latitude",
@@ -98,6 +109,8 @@ export async function selectReleaseEvents(selection: ReleaseSelection): Promise<
         id: row.id,
         number: row.number,
         kind: EVENT_KIND_LABELS[row.kind as EventKind],
+        incidentType: incidentTypeLabel(row.incident_type),
+        dispatchNumber: (row.dispatch_number as string | null) ?? "",
         startedAt: row.started_at ? new Date(row.started_at).toISOString().slice(0, 16).replace("T", " ") : "",
         address: redact ? hundredBlock(row.address ?? "") : (row.address ?? ""),
         latitude: redact ? roundCoordinate(latitude) : latitude,
@@ -124,6 +137,8 @@ const RELEASED_EVENT_COLUMNS: Array<{
 }> = [
   { csv: "number", sheet: "Number", value: (row) => row.number },
   { csv: "kind", sheet: "Kind", value: (row) => row.kind },
+  { csv: "incident type", sheet: "Incident type", value: (row) => row.incidentType },
+  { csv: "dispatch number", sheet: "Dispatch (CAD) number", value: (row) => row.dispatchNumber },
   { csv: "started", sheet: "Started", value: (row) => row.startedAt },
   { csv: "location", sheet: "Location", value: (row) => row.address },
   { csv: "latitude", sheet: "Latitude", value: (row) => row.latitude },
@@ -174,7 +189,7 @@ async function eventsWorkbook(
       discharges.addRow([
         report.number,
         line.position + 1,
-        line.apparatus,
+        dischargeUnitLabel(line),
         line.outlet,
         line.product,
         line.percent,

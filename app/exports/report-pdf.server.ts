@@ -2,7 +2,13 @@ import { readFileSync } from "node:fs";
 import { createRequire } from "node:module";
 import fontkit from "@pdf-lib/fontkit";
 import { PDFDocument, type PDFFont, type PDFPage, rgb } from "pdf-lib";
-import { DISPOSITION_LABELS, EVENT_KIND_LABELS, FOAM_CLASS_LABELS } from "~/lib/foam/vocabulary";
+import {
+  dischargeUnitLabel,
+  DISPOSITION_LABELS,
+  EVENT_KIND_LABELS,
+  FOAM_CLASS_LABELS,
+  incidentTypeLabel,
+} from "~/lib/foam/vocabulary";
 import { hundredBlock, type RedactionChoices, roundCoordinate, WITHHELD } from "~/lib/records/redaction";
 import type { ReportDetail } from "~/models/event-read.server";
 
@@ -130,7 +136,9 @@ export async function usageReportPdf(
     : { address: report.address, latitude: report.latitude, longitude: report.longitude };
   writer.text(agencyName, { size: 10, bold: true });
   writer.text(`Foam-usage report ${report.number}`, { size: 16, bold: true, gap: 6 });
-  writer.text(`Kind: ${EVENT_KIND_LABELS[report.kind]} · Revision ${report.revision}`);
+  writer.text(
+    `Kind: ${EVENT_KIND_LABELS[report.kind]} · type: ${incidentTypeLabel(report.incidentType)} · dispatch (CAD) number: ${report.dispatchNumber ?? "—"} · Revision ${report.revision}`,
+  );
   writer.text(
     `Started ${report.startedAt.replace("T", " ")} · cleared ${report.clearedAt.replace("T", " ") || "—"} (${report.timeZone})`,
   );
@@ -151,7 +159,7 @@ export async function usageReportPdf(
   writer.heading("Discharges");
   for (const line of report.discharges) {
     writer.text(
-      `${line.position + 1}. ${line.apparatus ?? "—"} ${line.outlet} · ${line.product ?? "water only"}${line.foamClass ? ` (${FOAM_CLASS_LABELS[line.foamClass]})` : ""} · ` +
+      `${line.position + 1}. ${dischargeUnitLabel(line) ?? "—"} ${line.outlet} · ${line.product ?? "water only"}${line.foamClass ? ` (${FOAM_CLASS_LABELS[line.foamClass]})` : ""} · ` +
         `${line.flow} ${line.flowUnit} on ${line.basis} for ${line.minutes} min at ${line.percent ?? 0} % (effective ${line.effectivePercent ?? "—"} %) → ` +
         `water ${gallons(line.water)}, concentrate ${gallons(line.concentrate)}, solution ${gallons(line.solution)}`,
     );

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import {
   endOfLocalDay,
+  formatInstantInZone,
   instantToWallClock,
   localDateTime,
   startOfLocalDay,
@@ -74,5 +75,15 @@ describe("time zones", () => {
         zoneOffsetMinutes(new Date(start + 179 * 60_000), timeZone),
       );
     }
+  });
+});
+
+describe("an instant as the agency reads it", () => {
+  // Clocks in America/Chicago went from 02:00 CST to 03:00 CDT on 8 March 2026 (IANA tz database).
+  it("gives the agency's date, clock and zone name, either side of a clock change", () => {
+    const before = formatInstantInZone("2026-03-08T07:30:00Z", "America/Chicago");
+    const after = formatInstantInZone(new Date("2026-03-08T08:10:00Z"), "America/Chicago");
+    expect(before).toMatch(/^Mar 8, 2026, 1:30\sAM CST$/);
+    expect(after).toMatch(/^Mar 8, 2026, 3:10\sAM CDT$/);
   });
 });

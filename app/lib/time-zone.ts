@@ -105,3 +105,19 @@ export function wallClockIn(timeZone: string): (instant: Date | null) => Date | 
     return new Date(Math.floor(shifted / 1000) * 1000);
   };
 }
+
+/**
+ * An instant as people of the agency read it: their own date and clock, with the zone's short name,
+ * e.g. "Mar 8, 2026, 3:10 AM CDT" in America/Chicago.
+ */
+export function formatInstantInZone(instant: Date | string, timeZone: string): string {
+  return new Date(instant).toLocaleString("en-US", {
+    timeZone,
+    year: "numeric",
+    month: "short",
+    day: "numeric",
+    hour: "numeric",
+    minute: "2-digit",
+    timeZoneName: "short",
+  });
+}

@@ -39,6 +39,8 @@ import {
   type EventStatus,
   type FlowBasis,
   type FoamType,
+  incidentTypeLabel,
+  mutualAidUnitLabel,
 } from "~/lib/foam/vocabulary";
 import type { TankReading } from "~/lib/foam/totals";
 import type { FlowUnit } from "~/lib/foam/units";
@@ -209,6 +211,10 @@ export async function periodAggregates(period: ReportPeriod, connection: Db = db
 export type EventExportRow = {
   number: string;
   kind: string;
+  incidentType: string;
+  dispatchNumber: string;
+  /** The other agencies whose units flowed on this event, as typed; blank when none did. */
+  mutualAid: string;
   status: string;
   revision: number;
   startedAt: Date | null;
@@ -241,6 +247,12 @@ export async function* streamEventRows(period: ReportPeriod, connection: Db = db
     .select(
       "e.number",
       "e.kind",
+      "e.incident_type",
+      "e.dispatch_number",
+      connection.raw(
+        `(SELECT GROUP_CONCAT(DISTINCT CONCAT_WS(' ', md.mutual_aid_agency, md.mutual_aid_unit) ORDER BY md.position SEPARATOR '; ')
+          FROM discharges md WHERE md.event_id = e.id AND md.mutual_aid_agency IS NOT NULL) AS mutual_aid`,
+      ),
       "e.status",
       "e.revision",
       "e.started_at",
@@ -267,6 +279,9 @@ export async function* streamEventRows(period: ReportPeriod, connection: Db = db
     yield {
       number: row.number,
       kind: EVENT_KIND_LABELS[row.kind as EventKind],
+      incidentType: incidentTypeLabel(row.incident_type),
+      dispatchNumber: row.dispatch_number ?? "",
+      mutualAid: row.mutual_aid ?? "",
       status: EVENT_STATUS_LABELS[row.status as EventStatus],
       revision: Number(row.revision),
       startedAt: row.started_at,
@@ -294,7 +309,9 @@ export type DischargeExportRow = {
   eventNumber: string;
   kind: string;
   position: number;
+  /** Our unit id, or "Mutual aid: agency unit" for another agency's. */
   apparatus: string;
+  mutualAid: string;
   outlet: string;
   product: string;
   foamClass: string;
@@ -336,6 +353,8 @@ export async function* streamDischargeRows(
       "e.kind",
       "d.position",
       "a.unit_id",
+      "d.mutual_aid_agency",
+      "d.mutual_aid_unit",
       "d.outlet",
       "p.name as product",
       "p.foam_class",
@@ -358,7 +377,10 @@ export async function* streamDischargeRows(
       eventNumber: row.number,
       kind: EVENT_KIND_LABELS[row.kind as EventKind],
       position: Number(row.position),
-      apparatus: row.unit_id ?? "",
+      apparatus: row.mutual_aid_agency
+        ? mutualAidUnitLabel(row.mutual_aid_agency, row.mutual_aid_unit)
+        : (row.unit_id ?? ""),
+      mutualAid: row.mutual_aid_agency ? "Yes" : "No",
       outlet: row.outlet ?? "",
       product: row.product ?? WATER_ONLY_LABEL,
       foamClass: foamClassLabel(row.foam_class),

@@ -11,7 +11,9 @@ import {
   EVENT_KINDS,
   EVENT_STATUSES,
   FOAM_CLASSES,
+  INCIDENT_TYPES,
   type Disposition,
+  type IncidentType,
   type EventKind,
   type EventStatus,
   type FoamClass,
@@ -115,6 +117,8 @@ function reportDetailOf({ event, discharges, dispositions, tankReadings }: Repor
     id: event.id as number,
     number: event.number as string,
     kind: event.kind as EventKind,
+    incidentType: (event.incident_type as IncidentType | null) ?? null,
+    dispatchNumber: (event.dispatch_number as string | null) ?? null,
     status: event.status as EventStatus,
     version: event.version as number,
     revision: event.revision as number,
@@ -147,6 +151,8 @@ function reportDetailOf({ event, discharges, dispositions, tankReadings }: Repor
       position: row.position as number,
       apparatusId: (row.apparatus_id as number | null) ?? null,
       apparatus: (row.apparatus_unit_id as string | null) ?? null,
+      mutualAidAgency: (row.mutual_aid_agency as string | null) ?? null,
+      mutualAidUnit: (row.mutual_aid_unit as string | null) ?? null,
       outlet: row.outlet as string,
       productId: (row.product_id as number | null) ?? null,
       product: (row.product_name as string | null) ?? null,
@@ -355,6 +361,8 @@ export const SORTABLE = {
   number: "events.number",
   startedAt: "events.started_at",
   kind: "events.kind",
+  incidentType: "events.incident_type",
+  dispatchNumber: "events.dispatch_number",
   status: "events.status",
   station: "stations.code",
   water: "events.water_gal",
@@ -367,6 +375,9 @@ export type EventFilters = {
   from?: string;
   to?: string;
   kind?: EventKind;
+  incidentType?: IncidentType;
+  /** Part of a dispatch (CAD) incident number, as typed. */
+  dispatchNumber?: string;
   status?: EventStatus;
   stationId?: number;
   foamClass?: FoamClass;
@@ -409,11 +420,15 @@ export function parseEventFilters(search: URLSearchParams): { filters: EventFilt
   };
   const from = date("from");
   const to = date("to");
+  const dispatch = (search.get("dispatch") ?? "").trim();
+  if (dispatch.length > 32) errors.dispatch = "A dispatch number has at most 32 characters.";
   if (from && to && from > to) errors.to = "The end date is before the start date.";
   const filters: EventFilters = {
     from,
     to,
     kind: oneOf("kind", EVENT_KINDS),
+    incidentType: oneOf("type", INCIDENT_TYPES),
+    dispatchNumber: dispatch && dispatch.length <= 32 ? dispatch : undefined,
     status: oneOf("status", EVENT_STATUSES),
     stationId: positiveInteger("station"),
     foamClass: oneOf("class", FOAM_CLASSES),
@@ -433,6 +448,12 @@ function filteredEvents(user: SessionUser, filters: EventFilters, timeZone: stri
   if (filters.from) query.where("events.started_at", ">=", startOfLocalDay(filters.from, timeZone));
   if (filters.to) query.where("events.started_at", "<", endOfLocalDay(filters.to, timeZone));
   if (filters.kind) query.where("events.kind", filters.kind);
+  if (filters.incidentType) query.where("events.incident_type", filters.incidentType);
+  if (filters.dispatchNumber) {
+    // The words typed are matched anywhere in the number, literally (no wildcards of their own).
+    const literal = filters.dispatchNumber.replace(/[\\%_]/g, (character) => `\\${character}`);
+    query.whereRaw("events.dispatch_number LIKE ?", [`%${literal}%`]);
+  }
   if (filters.status) query.where("events.status", filters.status);
   if (filters.stationId) query.where("events.station_id", filters.stationId);
   if (filters.mine) query.where("events.created_by", user.id);
@@ -444,6 +465,8 @@ export type EventListItem = {
   id: number;
   number: string;
   kind: EventKind;
+  incidentType: IncidentType | null;
+  dispatchNumber: string | null;
   status: EventStatus;
   startedAt: string;
   address: string;
@@ -461,6 +484,8 @@ function listItem(row: Record<string, unknown>, timeZone: string): EventListItem
     id: row.id as number,
     number: row.number as string,
     kind: row.kind as EventKind,
+    incidentType: (row.incident_type as IncidentType | null) ?? null,
+    dispatchNumber: (row.dispatch_number as string | null) ?? null,
     status: row.status as EventStatus,
     startedAt: instantToWallClock(row.started_at as Date | null, timeZone),
     address: row.address as string,
@@ -480,6 +505,8 @@ const LIST_COLUMNS = [
   "events.id",
   "events.number",
   "events.kind",
+  "events.incident_type",
+  "events.dispatch_number",
   "events.status",
   "events.started_at",
   "events.address",

@@ -15,7 +15,14 @@ import {
 import { boundedDraft } from "~/lib/foam/report-draft.server";
 import { computeUsage, type DischargeInput, type TankReading, type UsageResult } from "~/lib/foam/totals";
 import { changeCapabilityFor, changeReasonFor, decide } from "~/lib/access";
-import { EVENT_KINDS, type EventKind, type EventStatus } from "~/lib/foam/vocabulary";
+import {
+  DEFAULT_INCIDENT_TYPE,
+  EVENT_KINDS,
+  INCIDENT_TYPES,
+  type EventKind,
+  type EventStatus,
+  type IncidentType,
+} from "~/lib/foam/vocabulary";
 import { wallClockToInstant } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
 import { apparatusFactsMap, productFactsMap } from "./catalogue.server";
@@ -54,6 +61,8 @@ function storedDischarges(lines: DischargeLine[], timeZone: string): ReportDisch
     endedAt: wallClockToInstant(line.endedAt, timeZone),
     method: line.method ?? null,
     airFlowCfm: line.airFlowCfm ?? null,
+    mutualAidAgency: line.mutualAidAgency || null,
+    mutualAidUnit: line.mutualAidUnit || null,
   }));
 }
 
@@ -136,9 +145,14 @@ export function draftColumns(payload: Record<string, unknown>, timeZone: string)
   const latitude = numeric(payload.latitude);
   const longitude = numeric(payload.longitude);
   const stationId = numeric(payload.stationId);
+  const incidentType = INCIDENT_TYPES.includes(payload.incidentType as IncidentType)
+    ? (payload.incidentType as IncidentType)
+    : DEFAULT_INCIDENT_TYPE[kind];
   return {
     number: text(payload.number, 32),
     kind,
+    incident_type: incidentType,
+    dispatch_number: text(payload.dispatchNumber, 32) || null,
     started_at: wallClockToInstant(text(payload.startedAt, 19), timeZone),
     cleared_at: wallClockToInstant(text(payload.clearedAt, 19), timeZone),
     address: text(payload.address, 200),
@@ -335,6 +349,8 @@ async function loadReport(trx: Knex.Transaction, request: SaveRequest): Promise<
     ? {
         number: report!.number ?? "",
         kind: report!.kind,
+        incident_type: report!.incidentType ?? DEFAULT_INCIDENT_TYPE[report!.kind],
+        dispatch_number: report!.dispatchNumber || null,
         started_at: wallClockToInstant(report!.startedAt, timeZone),
         cleared_at: wallClockToInstant(report!.clearedAt, timeZone),
         address: report!.address,

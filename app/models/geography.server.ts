@@ -343,7 +343,7 @@ async function replaceLayerRows(
         action: "geo_layer_replaced",
         entityType: "geo_layer",
         entityId: input.kind,
-        summary: `${LAYER_RULES[input.kind].label}: ${validation.featureCount} features from ${input.fileName}; ${rechecked} events rechecked`,
+        summary: `${LAYER_RULES[input.kind].label}: ${validation.featureCount} feature${validation.featureCount === 1 ? "" : "s"} from ${input.fileName}; ${rechecked} event${rechecked === 1 ? "" : "s"} rechecked`,
         before: before ? { fileName: before.file_name, featureCount: before.feature_count, file: replacedFile } : null,
         after: { fileName: input.fileName, featureCount: validation.featureCount, file: uploaded },
         clientAddress,

@@ -30,6 +30,9 @@ export type ReportDischarge = {
   endedAt?: Date | null;
   method?: ApplicationMethod | null;
   airFlowCfm?: number | null;
+  /** Another agency's unit (mutual aid), as typed; such a line names no apparatus of ours. */
+  mutualAidAgency?: string | null;
+  mutualAidUnit?: string | null;
 };
 
 export type ReportRunoff = {
@@ -141,6 +144,8 @@ export function dischargeRows(eventId: number, discharges: readonly ReportDischa
       minutes: line.minutes,
       method: line.method ?? null,
       air_flow_cfm: line.airFlowCfm ?? null,
+      mutual_aid_agency: line.mutualAidAgency || null,
+      mutual_aid_unit: line.mutualAidUnit || null,
       water_gal: result.water.gal,
       concentrate_gal: result.concentrate.gal,
       solution_gal: result.solution.gal,

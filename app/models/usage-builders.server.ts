@@ -10,7 +10,7 @@ import {
   type ProductFacts,
   type UsageResult,
 } from "../lib/foam/totals";
-import type { EventKind, EventStatus } from "../lib/foam/vocabulary";
+import { DEFAULT_INCIDENT_TYPE, type EventKind, type EventStatus, type IncidentType } from "../lib/foam/vocabulary";
 import { readAgencySettings } from "./agency-settings.server";
 import { allCatalogueFacts } from "./catalogue.server";
 import { foamSystemFactsMap } from "./foam-system-facts.server";
@@ -45,6 +45,9 @@ export type SeededRandom = ReturnType<typeof seededRandom>;
 export type EventSpec = ReportLines & {
   number: string;
   kind: EventKind;
+  /** Absent: the kind's own type for a non-incident event, none (not recorded) for an incident. */
+  incidentType?: IncidentType | null;
+  dispatchNumber?: string | null;
   status: EventStatus;
   startedAt: Date | null;
   clearedAt: Date | null;
@@ -87,6 +90,8 @@ export function eventRow(spec: EventSpec, usage: UsageResult) {
   return {
     number: spec.number,
     kind: spec.kind,
+    incident_type: spec.incidentType === undefined ? DEFAULT_INCIDENT_TYPE[spec.kind] : spec.incidentType,
+    dispatch_number: spec.dispatchNumber ?? null,
     status: spec.status,
     version: spec.version ?? 1,
     revision: 0,

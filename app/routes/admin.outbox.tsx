@@ -149,7 +149,9 @@ export default function Outbox({ loaderData, actionData }: Route.ComponentProps)
                 {attachment.sha256.slice(0, 16)}…)
               </p>
             ))}
-            <pre className="mt-2 text-sm whitespace-pre-wrap">{message.text}</pre>
+            <div className="mt-2 font-sans text-sm whitespace-pre-wrap" data-testid="mail-text">
+              {message.text}
+            </div>
           </article>
         ))}
       </section>

@@ -4,6 +4,7 @@ import { ReportSummary } from "~/components/report-summary";
 import { authorize, requireCapability } from "~/lib/access.server";
 import { invariantResponse, requireRecordId } from "~/lib/http.server";
 import { getRevision, reportAccessRecord } from "~/models/event-read.server";
+import { formatInstantInZone } from "~/lib/time-zone";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `${data?.report.number ?? "Report"} revision ${data?.report.revision ?? ""} (superseded) · Foamtally` },
@@ -31,7 +32,7 @@ export default function EarlierRevision({ loaderData }: Route.ComponentProps) {
         <p className="font-semibold">Earlier state, superseded</p>
         <p>
           This is revision {report.revision} of report {report.number} as it stood before {report.supersededBy} amended
-          it on <time dateTime={report.supersededAt}>{report.supersededAt.slice(0, 16).replace("T", " ")} UTC</time>.
+          it on <time dateTime={report.supersededAt}>{formatInstantInZone(report.supersededAt, report.timeZone)}</time>.
           Reason given: “{report.reason}”. Its figures no longer count in totals or exports; the current report does.
           Station, apparatus and product names are shown as they are named today.
         </p>

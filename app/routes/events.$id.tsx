@@ -21,6 +21,7 @@ import { readAgencySettings } from "~/models/agency-settings.server";
 import { listReleaseNotifications } from "~/models/release-notification.server";
 import { eventReportableQuantity } from "~/models/environmental-report.server";
 import { submittedPeriodOf } from "~/models/quarterly-submission.server";
+import { formatInstantInZone } from "~/lib/time-zone";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.number ?? "Report"} · Foamtally` }];
 
@@ -144,10 +145,8 @@ export default function EventReport({ loaderData, actionData }: Route.ComponentP
                   — superseded by {entry.changedBy}
                 </p>
                 <p className="text-sm text-slate-ft">
-                  <time dateTime={entry.changedAt}>
-                    {new Date(entry.changedAt).toLocaleString("en-US", { timeZone })}
-                  </time>{" "}
-                  · reason: {entry.reason}
+                  <time dateTime={entry.changedAt}>{formatInstantInZone(entry.changedAt, timeZone)}</time> · reason:{" "}
+                  {entry.reason}
                 </p>
               </li>
             ))}
@@ -173,7 +172,7 @@ export default function EventReport({ loaderData, actionData }: Route.ComponentP
                 {entry.action} — {entry.actor}
               </p>
               <p className="text-sm text-slate-ft">
-                <time dateTime={entry.at}>{new Date(entry.at).toLocaleString("en-US", { timeZone })}</time>
+                <time dateTime={entry.at}>{formatInstantInZone(entry.at, timeZone)}</time>
                 {entry.summary ? ` · ${entry.summary}` : ""}
               </p>
             </li>

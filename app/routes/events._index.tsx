@@ -9,6 +9,9 @@ import {
   EVENT_STATUSES,
   FOAM_CLASS_LABELS,
   FOAM_CLASSES,
+  INCIDENT_TYPE_LABELS,
+  INCIDENT_TYPES,
+  incidentTypeLabel,
 } from "~/lib/foam/vocabulary";
 import { can } from "~/lib/access";
 import { listStationOptions } from "~/models/catalogue.server";
@@ -29,6 +32,8 @@ const COLUMNS: Array<{ key: SortKey; label: string; numeric?: boolean }> = [
   { key: "number", label: "Number" },
   { key: "startedAt", label: "Started" },
   { key: "kind", label: "Kind" },
+  { key: "incidentType", label: "Type" },
+  { key: "dispatchNumber", label: "Dispatch no." },
   { key: "station", label: "Station" },
   { key: "status", label: "Status" },
   { key: "water", label: "Water (gal)", numeric: true },
@@ -65,7 +70,7 @@ export default function Events({ loaderData }: Route.ComponentProps) {
           ) : null}
         </div>
       </div>
-      <Form method="get" className="card grid gap-3 sm:grid-cols-3 lg:grid-cols-7" aria-label="Filter events">
+      <Form method="get" className="card grid gap-3 sm:grid-cols-3 lg:grid-cols-5" aria-label="Filter events">
         <Filter label="From" name="from" type="date" value={filters.from} error={errors.from} />
         <Filter label="To" name="to" type="date" value={filters.to} error={errors.to} />
         <Choice
@@ -73,6 +78,19 @@ export default function Events({ loaderData }: Route.ComponentProps) {
           name="kind"
           value={filters.kind}
           options={EVENT_KINDS.map((kind) => [kind, EVENT_KIND_LABELS[kind]])}
+        />
+        <Choice
+          label="Type"
+          name="type"
+          value={filters.incidentType}
+          options={INCIDENT_TYPES.map((type) => [type, INCIDENT_TYPE_LABELS[type]])}
+        />
+        <Filter
+          label="Dispatch number"
+          name="dispatch"
+          type="search"
+          value={filters.dispatchNumber}
+          error={errors.dispatch}
         />
         <Choice
           label="Status"
@@ -150,6 +168,8 @@ export default function Events({ loaderData }: Route.ComponentProps) {
                 </td>
                 <td>{item.startedAt ? item.startedAt.replace("T", " ") : "—"}</td>
                 <td>{EVENT_KIND_LABELS[item.kind]}</td>
+                <td>{incidentTypeLabel(item.incidentType)}</td>
+                <td className="whitespace-nowrap">{item.dispatchNumber ?? "—"}</td>
                 <td>{item.station ?? "—"}</td>
                 <td>{EVENT_STATUS_LABELS[item.status]}</td>
                 <td className="text-right tabular-nums">{gal(item.water)}</td>
@@ -159,7 +179,7 @@ export default function Events({ loaderData }: Route.ComponentProps) {
             ))}
             {items.length === 0 ? (
               <tr>
-                <td colSpan={8} className="py-6 text-center text-slate-ft">
+                <td colSpan={COLUMNS.length} className="py-6 text-center text-slate-ft">
                   No events match these filters.
                 </td>
               </tr>
@@ -167,7 +187,7 @@ export default function Events({ loaderData }: Route.ComponentProps) {
           </tbody>
           <tfoot>
             <tr className="font-bold" data-testid="totals-row">
-              <th scope="row" colSpan={5} className="px-2 py-2 text-left">
+              <th scope="row" colSpan={COLUMNS.length - 3} className="px-2 py-2 text-left">
                 Total of all {count.toLocaleString("en-US")} matching{" "}
                 <span className="font-normal" data-testid="totals-counted">
                   ({countedReportsOfList(filters.status)})

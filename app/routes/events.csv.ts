@@ -1,7 +1,7 @@
 import type { Route } from "./+types/events.csv";
 import { requireCapability } from "~/lib/access.server";
 import { csvLine } from "~/lib/csv";
-import { EVENT_KIND_LABELS, EVENT_STATUS_LABELS } from "~/lib/foam/vocabulary";
+import { EVENT_KIND_LABELS, EVENT_STATUS_LABELS, incidentTypeLabel } from "~/lib/foam/vocabulary";
 import { httpError } from "~/lib/http.server";
 import { recordDownload } from "~/models/download-audit.server";
 import { eachEvent, parseEventFilters } from "~/models/event-read.server";
@@ -10,6 +10,8 @@ const HEADER = [
   "number",
   "started (local)",
   "kind",
+  "incident type",
+  "dispatch number",
   "station",
   "status",
   "address",
@@ -53,6 +55,8 @@ export async function loader({ request }: Route.LoaderArgs) {
             item.number,
             item.startedAt.replace("T", " "),
             EVENT_KIND_LABELS[item.kind],
+            incidentTypeLabel(item.incidentType),
+            item.dispatchNumber ?? "",
             item.station ?? "",
             EVENT_STATUS_LABELS[item.status],
             item.address,

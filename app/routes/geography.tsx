@@ -65,11 +65,17 @@ export async function action({ request }: Route.ActionArgs) {
     return refuse(kind, ["The file store is not answering, so nothing was changed. Try again in a minute."], 503);
   if (!result.ok) return refuse(kind, [...result.errors, "Nothing was changed; the current layer is still in use."]);
   const label = LAYER_RULES[kind].label;
-  const rechecked = kind === "address_points" ? "" : ` ${result.eventsRechecked} events were rechecked.`;
+  const count = result.eventsRechecked;
+  const rechecked = kind === "address_points" ? "" : ` ${count} event${count === 1 ? " was" : "s were"} rechecked.`;
   throw redirect("/geography", {
-    headers: await flashHeaders(request, `${label} replaced with ${result.featureCount} features.${rechecked}`),
+    headers: await flashHeaders(
+      request,
+      `${label} replaced with ${featureCountLabel(result.featureCount)}.${rechecked}`,
+    ),
   });
 }
+
+const featureCountLabel = (count: number) => `${count.toLocaleString("en-US")} feature${count === 1 ? "" : "s"}`;
 
 export default function Geography({ loaderData, actionData }: Route.ComponentProps) {
   const navigation = useNavigation();
@@ -117,8 +123,8 @@ export default function Geography({ loaderData, actionData }: Route.ComponentPro
                 <p className="text-sm font-semibold text-danger-700">Not loaded yet: these checks show “not known”.</p>
               ) : (
                 <p className="text-sm" data-testid={`layer-status-${layer.kind}`}>
-                  {layer.featureCount} features from <span className="font-medium">{layer.fileName}</span>, uploaded{" "}
-                  {layer.uploadedAt?.slice(0, 16).replace("T", " ")} UTC by {layer.uploadedBy}.{" "}
+                  {featureCountLabel(layer.featureCount)} from <span className="font-medium">{layer.fileName}</span>,
+                  uploaded {layer.uploadedAt?.slice(0, 16).replace("T", " ")} UTC by {layer.uploadedBy}.{" "}
                   <a className="text-pond-700 underline" href={`/api/geo/layers/${layer.kind}`} download>
                     Download
                   </a>

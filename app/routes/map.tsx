@@ -1,4 +1,4 @@
-import { useCallback, useMemo, useRef, useState } from "react";
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { Form, useFetcher } from "react-router";
 import type { Route } from "./+types/map";
 import { EventsInViewTable } from "~/components/events-in-view-table";
@@ -84,19 +84,28 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
   const [bounds, setBounds] = useState<BoundingBox | null>(null);
   const [mappedEvents, setMappedEvents] = useState<MappedEventFeature[] | null | undefined>(undefined);
   const mapControl = useRef<UsageMapControl | null>(null);
-  const onViewChange = useCallback(
-    (bbox: BoundingBox) => {
-      setBounds(bbox);
-      void load(`/api/summary?${mapQuery({ ...filters, bbox })}`);
-    },
-    [filters, load],
-  );
+  const onViewChange = useCallback((bbox: BoundingBox) => setBounds(bbox), []);
+  // The in-view totals follow the view and the filters alike: a new filter asks again for the same
+  // view, and figures fetched for an earlier filter or view are never shown as the current ones.
+  const summaryUrl = bounds ? `/api/summary?${mapQuery({ ...filters, bbox: bounds })}` : null;
+  const requestedUrl = useRef<string | null>(null);
+  const [shownUrl, setShownUrl] = useState<string | null>(null);
+  useEffect(() => {
+    if (!summaryUrl) return;
+    requestedUrl.current = summaryUrl;
+    void load(summaryUrl);
+  }, [summaryUrl, load]);
+  useEffect(() => {
+    if (summaryFetcher.state === "idle" && summaryFetcher.data) setShownUrl(requestedUrl.current);
+  }, [summaryFetcher.state, summaryFetcher.data]);
+  // The events drawn for an earlier filter are not listed while the new ones load.
+  useEffect(() => setMappedEvents(undefined), [eventsQuery]);
   const listed = useMemo(
     () => (mappedEvents && bounds ? eventsInView(mappedEvents, bounds, EVENTS_LISTED) : null),
     [mappedEvents, bounds],
   );
-  const summary = summaryFetcher.data ?? loaderData.summary;
-  const inView = Boolean(summaryFetcher.data?.bbox);
+  const inView = Boolean(summaryFetcher.data?.bbox) && shownUrl !== null && shownUrl === summaryUrl;
+  const summary = inView && summaryFetcher.data ? summaryFetcher.data : loaderData.summary;
 
   return (
     <div className="space-y-4">
@@ -181,6 +190,7 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
           <MapKey />
           <EventsInViewTable
             view={listed}
+            matching={mappedEvents?.length ?? null}
             timeZone={loaderData.timeZone}
             loading={mappedEvents === undefined}
             onShow={(eventId) => {
@@ -195,7 +205,7 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
           <div aria-live="polite">
             <h2 id="in-view-title" className="text-lg font-semibold">
               {inView ? "In view" : "Whole district"}
-              {summaryFetcher.state === "loading" ? (
+              {summaryFetcher.state === "loading" || (summaryUrl !== null && !inView) ? (
                 <span className="ml-2 text-sm text-slate-ft">updating…</span>
               ) : null}
             </h2>

@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/products";
 import { requireCapability } from "~/lib/access.server";
-import { FOAM_CLASS_LABELS, FOAM_TYPE_LABELS, PFAS_CONTENT_UNIT_LABELS } from "~/lib/foam/vocabulary";
+import { foamClassAndTypeLabel, PFAS_CONTENT_UNIT_LABELS } from "~/lib/foam/vocabulary";
 import { can } from "~/lib/access";
 import { listProducts } from "~/models/product.server";
 
@@ -56,9 +56,7 @@ export default function Products({ loaderData }: Route.ComponentProps) {
                     </Link>
                     {product.maker ? <span className="block text-xs text-slate-ft">{product.maker}</span> : null}
                   </td>
-                  <td>
-                    {FOAM_CLASS_LABELS[product.foamClass]} · {FOAM_TYPE_LABELS[product.foamType] ?? product.foamType}
-                  </td>
+                  <td>{foamClassAndTypeLabel(product.foamClass, product.foamType)}</td>
                   <td>{product.nominalPercents.join(", ")}</td>
                   <td>
                     {product.pfasContaining ? (

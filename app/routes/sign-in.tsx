@@ -58,6 +58,11 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
     shouldValidate: "onBlur",
     onValidate: ({ formData }) => parseWithZod(formData, { schema: SignInFormSchema }),
   });
+  // The server's answer to the last attempt stays until the next one is answered: checking the
+  // fields as they lose focus must not take it away, or the button would move under the pointer
+  // between pressing and releasing it and the click would be lost.
+  const refusal = actionData?.result?.error?.[""] ?? null;
+  const formErrors = form.errors?.length ? form.errors : refusal;
   // After a refused attempt the email stays and the password is cleared, as people expect.
   useEffect(() => {
     const password = actionData ? document.getElementById(fields.password.id) : null;
@@ -71,7 +76,7 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
         </h1>
         <p className="mt-1 text-sm text-slate-ft">Foam-usage records for your department.</p>
         <Form method="post" className="mt-6 space-y-4" {...getFormProps(form)}>
-          <FormErrors id={form.errorId} errors={form.errors} />
+          <FormErrors id={form.errorId} errors={formErrors} />
           <input type="hidden" name="redirectTo" value={loaderData.redirectTo} />
           <TextField label="Email" field={fields.email} type="email" autoComplete="username" autoFocus />
           <TextField label="Password" field={fields.password} type="password" autoComplete="current-password" />

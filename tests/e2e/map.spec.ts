@@ -141,6 +141,47 @@ test.describe("the chief's usage map", () => {
     await expect(page.getByTestId("in-view-events")).toHaveText("1");
   });
 
+  test("a filter change updates the in-view totals at once, and an empty list names the filter", async ({ page }) => {
+    await signInAs(page, "chief");
+    await page.goto(`/map?${PERIOD}`);
+    const map = page.getByTestId("usage-map");
+    await expect(map).toHaveAttribute("data-state", "ready", { timeout: 30_000 });
+    const filters = page.getByRole("form", { name: "Map filters" });
+    const concentrate = page.getByTestId("in-view-concentrate");
+    const events = page.getByTestId("in-view-events");
+    const listCount = page.getByTestId("events-in-view-count");
+    await expect(page.getByRole("heading", { name: "In view", exact: true })).toBeVisible();
+    await expect(concentrate).toHaveText("55 gal");
+
+    // Class B only: the south-east event (9 gal), with the map where it was and no reload.
+    await filters.getByLabel("Foam class").selectOption("B");
+    await filters.getByRole("button", { name: "Show" }).click();
+    await expect(page).toHaveURL(/class=B/);
+    await expect(page.getByRole("heading", { name: "In view", exact: true })).toBeVisible();
+    await expect(concentrate).toHaveText("9 gal");
+    await expect(events).toHaveText("1");
+    await expect(listCount).toContainText("1 event within the map and filters");
+
+    // A filter that selects nothing says so, and does not blame the zoom.
+    await filters.getByLabel("Kind").selectOption("training");
+    await filters.getByRole("button", { name: "Show" }).click();
+    await expect(events).toHaveText("0");
+    await expect(concentrate).toHaveText("0 gal");
+    await expect(listCount).toHaveText(/No events match these filters/);
+    await expect(listCount).not.toContainText("Zoom");
+
+    // With a matching event out of view, the list says to move the map instead.
+    await filters.getByLabel("Kind").selectOption("");
+    await filters.getByRole("button", { name: "Show" }).click();
+    await expect(concentrate).toHaveText("9 gal");
+    await page.getByRole("button", { name: "Zoom in" }).click();
+    await page.getByRole("button", { name: "Zoom in" }).click();
+    await expect(events).toHaveText("0");
+    await expect(listCount).toHaveText(
+      "The 1 event that matches the filters is not in view. Zoom out or move the map.",
+    );
+  });
+
   test("lists the events in view in a table that follows the map and leads to each event", async ({ page }) => {
     await signInAs(page, "chief");
     await page.goto(`/map?${PERIOD}`);

@@ -48,12 +48,52 @@ test.describe("signing in", () => {
     await expect(page.getByLabel("Password")).toHaveValue("");
   });
 
+  test("after a wrong password, one click on Sign in with the right one signs in", async ({ page, consoleErrors }) => {
+    consoleErrors.allow(/status of 400/);
+    await page.goto("/sign-in");
+    await page.getByLabel("Email").fill(DEMO.records);
+    await page.getByLabel("Password").fill("not-the-password");
+    await page.getByRole("button", { name: "Sign in" }).click();
+    const refusal = page.getByRole("alert");
+    await expect(refusal).toHaveText("The email or password is incorrect.");
+    // The retry: type the right password and press the button once, the pointer's own way (the
+    // password field loses focus between pressing and releasing).
+    await page.getByLabel("Password").fill(DEMO_PASSWORD);
+    const button = page.getByRole("button", { name: "Sign in" });
+    const before = await button.boundingBox();
+    await page.getByLabel("Password").blur();
+    await expect(refusal).toHaveText("The email or password is incorrect.");
+    expect(await button.boundingBox()).toEqual(before);
+    await page.getByLabel("Password").focus();
+    await button.click();
+    await expect(page.getByRole("button", { name: "Sign out" })).toBeVisible();
+    await expect(page).not.toHaveURL(/sign-in/);
+  });
+
   test("an officer is refused the administrator page", async ({ page, consoleErrors }) => {
     consoleErrors.allow(/status of 403/);
     await signInAs(page, "officer");
     const response = await page.goto("/admin/users");
     expect(response?.status()).toBe(403);
     await expect(page.getByRole("heading", { name: "Not for your role" })).toBeVisible();
+  });
+
+  test("an officer following the workbook link gets the refusal page; a script keeps JSON", async ({
+    page,
+    consoleErrors,
+  }) => {
+    consoleErrors.allow(/status of 403/);
+    await signInAs(page, "officer");
+    const response = await page.goto("/reports/environmental.xlsx?year=2026&quarter=1");
+    expect(response?.status()).toBe(403);
+    expect(response?.headers()["content-type"]).toContain("text/html");
+    await expect(page.getByRole("heading", { name: "Not for your role" })).toBeVisible();
+    await expect(page.getByRole("link", { name: "Go to your home page" })).toBeVisible();
+    const script = await page.request.get("/reports/environmental.xlsx?year=2026&quarter=1", {
+      headers: { Accept: "application/json" },
+    });
+    expect(script.status()).toBe(403);
+    expect(await script.json()).toEqual({ message: expect.stringContaining("roles") });
   });
 
   test("signing out ends the session", async ({ page, consoleErrors }) => {

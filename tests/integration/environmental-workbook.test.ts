@@ -233,8 +233,8 @@ describe("the quarterly environmental workbook", () => {
         "Reportable quantity reached",
       ]),
     );
-    // The filter spans the header and the five discharge rows of Q2 (A to U: 21 columns).
-    expect(book.Sheets.Discharges["!autofilter"]?.ref).toBe("A1:U6");
+    // The filter spans the header and the five discharge rows of Q2 (A to V: 22 columns).
+    expect(book.Sheets.Discharges["!autofilter"]?.ref).toBe("A1:V6");
   });
 
   it("sums to the detail rows and to MariaDB's own aggregate, with formulas in place", async () => {

@@ -439,7 +439,7 @@ describe("uploading a layer on /geography", () => {
     expect(after.file_name).toBe("whole.geojson");
     expect((await db("events").where({ id: ids.atStation }).first()).drainage_basin).toBe("Whole district");
     const audit = await db("audit_events").where({ action: "geo_layer_replaced" }).orderBy("id", "desc").first();
-    expect(audit.summary).toMatch(/Drainage basins: 1 features from whole\.geojson/);
+    expect(audit.summary).toMatch(/Drainage basins: 1 feature from whole\.geojson/);
   });
 
   it("is refused to an officer", async () => {

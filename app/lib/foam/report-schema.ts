@@ -1,7 +1,17 @@
 import { z } from "zod";
 import { wallClockToInstant } from "../time-zone";
 import { FLOW_UNITS } from "./units";
-import { APPLICATION_METHODS, DISPOSITIONS, EVENT_KINDS, FLOW_BASES, PERCENT_OF } from "./vocabulary";
+import {
+  APPLICATION_METHODS,
+  DISPOSITIONS,
+  EVENT_KIND_LABELS,
+  EVENT_KINDS,
+  FLOW_BASES,
+  INCIDENT_TYPE_LABELS,
+  INCIDENT_TYPES,
+  INCIDENT_TYPES_BY_KIND,
+  PERCENT_OF,
+} from "./vocabulary";
 
 export const MAX_DISCHARGE_MINUTES = 24 * 60;
 export const MAX_LINES = 200;
@@ -91,6 +101,30 @@ export function minutesBetween(start?: string, end?: string, timeZone?: string):
   return (Date.parse(`${end}Z`) - Date.parse(`${start}Z`)) / 60_000;
 }
 
+/**
+ * A line comes from one of our apparatus or from another agency's unit, named by both its agency and
+ * its unit id; never both, since the other agency's foam system is not ours to check.
+ */
+export function mutualAidIssues(line: {
+  apparatusId?: number;
+  mutualAidAgency?: string;
+  mutualAidUnit?: string;
+}): Array<{ path: string[]; message: string }> {
+  const agency = Boolean(line.mutualAidAgency);
+  const unit = Boolean(line.mutualAidUnit);
+  if (!agency && !unit) return [];
+  const issues: Array<{ path: string[]; message: string }> = [];
+  if (line.apparatusId) {
+    issues.push({
+      path: ["apparatusId"],
+      message: "Choose one of our apparatus or name another agency's unit, not both.",
+    });
+  }
+  if (!agency) issues.push({ path: ["mutualAidAgency"], message: "Name the agency the mutual-aid unit came from." });
+  if (!unit) issues.push({ path: ["mutualAidUnit"], message: "Give the mutual-aid unit's id, e.g. E41." });
+  return issues;
+}
+
 export const DischargeLineSchema = z
   .object({
     apparatusId: id.optional(),
@@ -106,8 +140,12 @@ export const DischargeLineSchema = z
     minutes: positiveNumber("duration in minutes", MAX_DISCHARGE_MINUTES).optional(),
     method: z.enum(APPLICATION_METHODS, { error: "Choose an application method from the list." }).optional(),
     airFlowCfm: optionalNonNegative("air flow", 10_000),
+    /** Another agency's unit (mutual aid): its name and unit id as typed; no apparatus of ours. */
+    mutualAidAgency: text(120, "mutual-aid agency name"),
+    mutualAidUnit: text(24, "mutual-aid unit id"),
   })
   .superRefine((line, ctx) => {
+    mutualAidIssues(line).forEach((issue) => ctx.addIssue({ code: "custom", ...issue }));
     if (line.productId && line.percent == null) {
       ctx.addIssue({ code: "custom", path: ["percent"], message: "Enter the percent for a foam line." });
     }
@@ -205,6 +243,14 @@ export const FiledReportSchema = z
       .regex(/^[A-Za-z0-9][A-Za-z0-9._/-]*$/, "Use letters, digits, and . _ / - only.")
       .optional(),
     kind: z.enum(EVENT_KINDS, { error: "Choose what kind of event this was." }),
+    // Blank: a training, test or flush takes the kind's own type; an incident's stays not recorded.
+    incidentType: z.enum(INCIDENT_TYPES, { error: "Choose the incident type from the list." }).optional(),
+    dispatchNumber: z
+      .string()
+      .trim()
+      .max(32, "A dispatch number has at most 32 characters.")
+      .regex(/^[A-Za-z0-9][A-Za-z0-9 ._/:-]*$/, "Use letters, digits, spaces and . _ / : - only.")
+      .optional(),
     startedAt: z.string({ error: "Enter when the event started." }).pipe(localDateTime("start time").unwrap()),
     clearedAt: localDateTime("clear time"),
     address: z
@@ -234,6 +280,14 @@ export const FiledReportSchema = z
       .optional(),
   })
   .superRefine((report, ctx) => {
+    const allowed = INCIDENT_TYPES_BY_KIND[report.kind];
+    if (report.incidentType && !allowed.includes(report.incidentType)) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["incidentType"],
+        message: `${INCIDENT_TYPE_LABELS[report.incidentType]} is not a type of ${EVENT_KIND_LABELS[report.kind].toLowerCase()}; choose ${allowed.map((type) => INCIDENT_TYPE_LABELS[type]).join(" or ")}, or change the kind.`,
+      });
+    }
     const window = minutesBetween(report.startedAt, report.clearedAt);
     if (window != null && window < 0) {
       ctx.addIssue({ code: "custom", path: ["clearedAt"], message: "The clear time must be after the start." });

@@ -14,6 +14,74 @@ export const EVENT_KIND_LABELS: Record<EventKind, string> = {
   flush: "Flush or maintenance",
 };
 
+/**
+ * What the call or session was, in the fire service's own plain words: the fires and spills an
+ * incident may be, and the non-incident kinds as themselves. Beside the report number a report keeps
+ * the dispatch (CAD) incident number it was toned out under.
+ */
+export const INCIDENT_TYPES = [
+  "structure_fire",
+  "vehicle_fire",
+  "flammable_liquid_spill",
+  "wildland",
+  "hazmat",
+  "training",
+  "test",
+  "flush",
+  "other",
+] as const;
+export type IncidentType = (typeof INCIDENT_TYPES)[number];
+export const INCIDENT_TYPE_LABELS: Record<IncidentType, string> = {
+  structure_fire: "Structure fire",
+  vehicle_fire: "Vehicle fire",
+  flammable_liquid_spill: "Flammable-liquid spill",
+  wildland: "Wildland fire",
+  hazmat: "Hazmat",
+  training: EVENT_KIND_LABELS.training,
+  test: EVENT_KIND_LABELS.test,
+  flush: EVENT_KIND_LABELS.flush,
+  other: "Other",
+};
+/** The types each kind of event may carry; a non-incident kind is its own type (or "other"). */
+export const INCIDENT_TYPES_BY_KIND: Record<EventKind, readonly IncidentType[]> = {
+  incident: ["structure_fire", "vehicle_fire", "flammable_liquid_spill", "wildland", "hazmat", "other"],
+  training: ["training", "other"],
+  test: ["test", "other"],
+  flush: ["flush", "other"],
+};
+/** The type a non-incident report gets when none was chosen; an incident has none of its own. */
+export const DEFAULT_INCIDENT_TYPE: Record<EventKind, IncidentType | null> = {
+  incident: null,
+  training: "training",
+  test: "test",
+  flush: "flush",
+};
+/** What stands where a report was saved before it had a type. */
+export const INCIDENT_TYPE_NOT_RECORDED = "Not recorded";
+
+export function incidentTypeLabel(type: string | null | undefined): string {
+  return type && (INCIDENT_TYPES as readonly string[]).includes(type)
+    ? INCIDENT_TYPE_LABELS[type as IncidentType]
+    : INCIDENT_TYPE_NOT_RECORDED;
+}
+
+/** A discharge from another agency's unit: named as typed, its foam system unknown to us. */
+export const MUTUAL_AID_LABEL = "Mutual aid";
+
+/** How a mutual-aid unit is named wherever a line's unit is shown: "Mutual aid: Cedar Ford FD E41". */
+export function mutualAidUnitLabel(agency: string | null | undefined, unit: string | null | undefined): string {
+  return `${MUTUAL_AID_LABEL}: ${[agency, unit].filter(Boolean).join(" ")}`;
+}
+
+/** The unit a discharge came from: our apparatus's id, another agency's unit, or null. */
+export function dischargeUnitLabel(line: {
+  apparatus: string | null;
+  mutualAidAgency?: string | null;
+  mutualAidUnit?: string | null;
+}): string | null {
+  return line.mutualAidAgency ? mutualAidUnitLabel(line.mutualAidAgency, line.mutualAidUnit) : line.apparatus;
+}
+
 export const EVENT_STATUSES = ["draft", "filed", "returned", "accepted"] as const;
 export type EventStatus = (typeof EVENT_STATUSES)[number];
 export const EVENT_STATUS_LABELS: Record<EventStatus, string> = {
@@ -90,6 +158,13 @@ export const FOAM_TYPE_LABELS: Record<FoamType, string> = {
   fluoroprotein: "Fluoroprotein",
   other: "Other",
 };
+
+/** A product's class and type in one phrase, the type left out where it only repeats the class. */
+export function foamClassAndTypeLabel(foamClass: FoamClass, foamType: string): string {
+  const classLabel = FOAM_CLASS_LABELS[foamClass];
+  const typeLabel = (FOAM_TYPE_LABELS as Record<string, string>)[foamType] ?? foamType;
+  return !typeLabel || typeLabel === classLabel ? classLabel : `${classLabel} · ${typeLabel}`;
+}
 
 export const PFAS_CONTENT_UNITS = [
   "g_per_l",

@@ -26,6 +26,15 @@ export const MAP_COLOURS = {
   inlet: "#3d4a5c",
 };
 
+/** The credit of the low-zoom layers: land, states and counties from the us-atlas package. */
+export const CENSUS_CREDIT = "US Census Bureau cartographic boundaries (public domain)";
+/** The credit of the district's own layers (in the demo, invented). */
+export const DISTRICT_CREDIT = "Alder Bend district: demo data, invented";
+// The district layers start at the zooms their tiles carry them from (scripts/build-tiles.ts), so
+// the district is credited only once it is drawn.
+/** The Census layers are drawn below this zoom; above it the district's own layers stand alone. */
+export const CENSUS_MAX_ZOOM = 10;
+
 /** The basemap style of the app's own tiles (tiles/basemap, served from /tiles/{z}/{x}/{y}.pbf). */
 export function basemapStyle(origin: string): StyleSpecification {
   const c = MAP_COLOURS;
@@ -36,83 +45,114 @@ export function basemapStyle(origin: string): StyleSpecification {
   return {
     version: 8,
     name: "Foamtally basemap",
+    // One tile set, two sources: each source's credit shows only while one of its layers is drawn
+    // (MapLibre credits the sources in use at the current zoom), so the Census Bureau is credited
+    // for the country, states and counties, and never over the invented district alone.
     sources: {
-      basemap: {
+      census: {
         type: "vector",
         tiles: [`${origin}/tiles/{z}/{x}/{y}.pbf`],
         minzoom: 0,
         maxzoom: TILE_MAX_ZOOM,
-        attribution: "US Census Bureau (public domain) · Alder Bend district: demo data, invented",
+        attribution: CENSUS_CREDIT,
+      },
+      district: {
+        type: "vector",
+        tiles: [`${origin}/tiles/{z}/{x}/{y}.pbf`],
+        minzoom: 0,
+        maxzoom: TILE_MAX_ZOOM,
+        attribution: DISTRICT_CREDIT,
       },
     },
     layers: [
-      { id: "paper", type: "background", paint: { "background-color": "#dfe7e8" } },
-      { id: "land", type: "fill", source: "basemap", "source-layer": "land", paint: { "fill-color": c.land } },
+      {
+        id: "paper",
+        type: "background",
+        // Past the Census layers' zooms the ground is drawn as land.
+        paint: { "background-color": ["step", ["zoom"], "#dfe7e8", CENSUS_MAX_ZOOM, c.land] },
+      },
+      {
+        id: "land",
+        type: "fill",
+        source: "census",
+        "source-layer": "land",
+        maxzoom: CENSUS_MAX_ZOOM,
+        paint: { "fill-color": c.land },
+      },
       {
         id: "district-fill",
         type: "fill",
-        source: "basemap",
+        source: "district",
         "source-layer": "district",
+        minzoom: 6,
         paint: { "fill-color": c.district },
       },
       {
         id: "county-lines",
         type: "line",
-        source: "basemap",
+        source: "census",
+        maxzoom: CENSUS_MAX_ZOOM,
         "source-layer": "county_lines",
         paint: { "line-color": c.county, "line-width": 0.8, "line-dasharray": [3, 2] },
       },
       {
         id: "state-lines",
         type: "line",
-        source: "basemap",
+        source: "census",
+        maxzoom: CENSUS_MAX_ZOOM,
         "source-layer": "state_lines",
         paint: { "line-color": c.state, "line-width": ["interpolate", ["linear"], ["zoom"], 3, 0.8, 10, 2] },
       },
       {
         id: "water-fill",
         type: "fill",
-        source: "basemap",
+        source: "district",
         "source-layer": "water",
+        minzoom: 9,
         filter: ["==", ["geometry-type"], "Polygon"],
         paint: { "fill-color": c.waterFill, "fill-outline-color": c.water },
       },
       {
         id: "water-lines",
         type: "line",
-        source: "basemap",
+        source: "district",
         "source-layer": "water",
+        minzoom: 9,
         filter: ["==", ["geometry-type"], "LineString"],
         paint: { "line-color": c.water, "line-width": ["interpolate", ["linear"], ["zoom"], 9, 1, 16, 4] },
       },
       {
         id: "road-casing",
         type: "line",
-        source: "basemap",
+        source: "district",
         "source-layer": "roads",
+        minzoom: 11,
         layout: { "line-cap": "round", "line-join": "round" },
         paint: { "line-color": c.roadCasing, "line-width": ["interpolate", ["linear"], ["zoom"], 11, 1.5, 16, 10] },
       },
       {
         id: "roads",
         type: "line",
-        source: "basemap",
+        source: "district",
         "source-layer": "roads",
+        minzoom: 11,
         layout: { "line-cap": "round", "line-join": "round" },
         paint: { "line-color": c.road, "line-width": ["interpolate", ["linear"], ["zoom"], 11, 0.6, 16, 8] },
       },
       {
         id: "district-edge",
         type: "line",
-        source: "basemap",
+        source: "district",
         "source-layer": "district",
+        minzoom: 6,
         paint: { "line-color": c.districtEdge, "line-width": 2, "line-dasharray": [4, 2] },
       },
       {
         id: "stations",
         type: "circle",
-        source: "basemap",
+        source: "district",
         "source-layer": "stations",
+        minzoom: 10,
         paint: {
           "circle-radius": 5,
           "circle-color": c.station,
@@ -123,7 +163,7 @@ export function basemapStyle(origin: string): StyleSpecification {
       {
         id: "state-labels",
         type: "symbol",
-        source: "basemap",
+        source: "census",
         "source-layer": "state_labels",
         maxzoom: 8,
         layout: { ...label(13), "text-field": ["get", "name"], "text-transform": "uppercase" },
@@ -132,7 +172,7 @@ export function basemapStyle(origin: string): StyleSpecification {
       {
         id: "county-labels",
         type: "symbol",
-        source: "basemap",
+        source: "census",
         "source-layer": "county_labels",
         // Real county names give way to the district's own features at street zooms.
         maxzoom: 9.5,
@@ -142,7 +182,7 @@ export function basemapStyle(origin: string): StyleSpecification {
       {
         id: "road-labels",
         type: "symbol",
-        source: "basemap",
+        source: "district",
         "source-layer": "roads",
         minzoom: 14,
         layout: { ...label(12), "text-field": ["get", "name"], "symbol-placement": "line" },
@@ -151,7 +191,7 @@ export function basemapStyle(origin: string): StyleSpecification {
       {
         id: "water-labels",
         type: "symbol",
-        source: "basemap",
+        source: "district",
         "source-layer": "water",
         minzoom: 12,
         filter: ["==", ["geometry-type"], "LineString"],
@@ -161,7 +201,7 @@ export function basemapStyle(origin: string): StyleSpecification {
       {
         id: "pond-labels",
         type: "symbol",
-        source: "basemap",
+        source: "district",
         "source-layer": "water",
         minzoom: 13,
         filter: ["==", ["geometry-type"], "Polygon"],
@@ -171,7 +211,7 @@ export function basemapStyle(origin: string): StyleSpecification {
       {
         id: "station-labels",
         type: "symbol",
-        source: "basemap",
+        source: "district",
         "source-layer": "stations",
         minzoom: 11,
         layout: {
