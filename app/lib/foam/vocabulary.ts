@@ -291,3 +291,14 @@ export const HELD_BACK_LABEL = "Held back (contained and collected, sewer with n
 
 /** The line for foam solution that no runoff line accounts for (`unaccountedGallons`). */
 export const UNACCOUNTED_LABEL = "Unaccounted (no runoff line says where it went)";
+
+/** What a file attached to an event is. */
+export const ATTACHMENT_KINDS = ["photo", "disposal_manifest", "lab_result", "test_printout", "other"] as const;
+export type AttachmentKind = (typeof ATTACHMENT_KINDS)[number];
+export const ATTACHMENT_KIND_LABELS: Record<AttachmentKind, string> = {
+  photo: "Scene photo",
+  disposal_manifest: "Disposal manifest",
+  lab_result: "Lab result",
+  test_printout: "Test printout",
+  other: "Other document",
+};

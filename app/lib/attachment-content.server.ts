@@ -1,0 +1,78 @@
+import exifr from "exifr";
+import { fileTypeFromFile } from "file-type";
+import sharp from "sharp";
+import { ATTACHMENT_TYPES, isAttachmentType, type AttachmentType } from "./attachment-files";
+
+/**
+ * What an uploaded file is (by its bytes, with `file-type`), the copy of a photo that is stored
+ * (re-encoded by `sharp`, which writes no EXIF, GPS, camera or XMP data unless asked), its thumbnail,
+ * and, only when the officer asks for it, the position the photo recorded (read with `exifr` first).
+ */
+
+export type SniffedType = { type: AttachmentType } | { type: null; detected: string | null };
+
+export async function sniffFile(filePath: string): Promise<SniffedType> {
+  const found = await fileTypeFromFile(filePath);
+  // file-type names HEIC stills image/heic and HEIC sequences image/heic-sequence.
+  const mime = found?.mime === "image/heif" ? "image/heic" : found?.mime;
+  if (isAttachmentType(mime)) return { type: mime };
+  return { type: null, detected: found ? `${found.ext.toUpperCase()} (${found.mime})` : null };
+}
+
+/** Thumbnails fit in 320 × 320 px, as WebP (common practice, no source). */
+const THUMBNAIL_EDGE_PX = 320;
+/** Pixels a photo may have before it is refused: 100 megapixels (a guard against decompression bombs). */
+const MAX_INPUT_PIXELS = 100_000_000;
+
+export class UnreadableImageError extends Error {}
+
+export type PhotoPosition = { latitude: number; longitude: number };
+
+/** The GPS position a photo recorded, or null. */
+export async function readPhotoPosition(filePath: string): Promise<PhotoPosition | null> {
+  try {
+    const gps = await exifr.gps(filePath);
+    if (!gps || !Number.isFinite(gps.latitude) || !Number.isFinite(gps.longitude)) return null;
+    if (Math.abs(gps.latitude) > 90 || Math.abs(gps.longitude) > 180) return null;
+    return { latitude: Number(gps.latitude.toFixed(6)), longitude: Number(gps.longitude.toFixed(6)) };
+  } catch {
+    return null;
+  }
+}
+
+export type CleanedImage = { contentType: AttachmentType; extension: string };
+
+/**
+ * Writes the stored copy of a photo to `outputPath`: turned upright by its orientation tag, then
+ * written without any metadata. HEIC, which this build of sharp may not write, is stored as JPEG.
+ */
+export async function writeCleanImage(
+  inputPath: string,
+  type: AttachmentType,
+  outputPath: string,
+): Promise<CleanedImage> {
+  try {
+    const image = sharp(inputPath, { limitInputPixels: MAX_INPUT_PIXELS, failOn: "error" }).rotate();
+    if (type === "image/png") await image.png().toFile(outputPath);
+    else if (type === "image/webp") await image.webp({ quality: 90 }).toFile(outputPath);
+    else await image.jpeg({ quality: 90, mozjpeg: true }).toFile(outputPath);
+  } catch (error) {
+    throw new UnreadableImageError(
+      type === "image/heic"
+        ? "This HEIC photo cannot be read here. Save it as JPEG on the phone or camera and attach it again."
+        : "This image cannot be read; it may be damaged. Attach it again or save it anew.",
+      { cause: error },
+    );
+  }
+  const stored: AttachmentType = type === "image/heic" ? "image/jpeg" : type;
+  return { contentType: stored, extension: ATTACHMENT_TYPES[stored].extension };
+}
+
+/** A small WebP of the stored image for lists. */
+export async function thumbnailOf(imagePath: string): Promise<Uint8Array> {
+  const buffer = await sharp(imagePath, { limitInputPixels: MAX_INPUT_PIXELS })
+    .resize(THUMBNAIL_EDGE_PX, THUMBNAIL_EDGE_PX, { fit: "inside", withoutEnlargement: true })
+    .webp({ quality: 70 })
+    .toBuffer();
+  return new Uint8Array(buffer);
+}

@@ -1,0 +1,343 @@
+import { createHash, randomUUID } from "node:crypto";
+import { createReadStream } from "node:fs";
+import { rm, stat } from "node:fs/promises";
+import { pipeline } from "node:stream/promises";
+import type { ReportRecord } from "~/lib/access";
+import {
+  readPhotoPosition,
+  sniffFile,
+  thumbnailOf,
+  UnreadableImageError,
+  writeCleanImage,
+  type PhotoPosition,
+} from "~/lib/attachment-content.server";
+import {
+  ATTACHMENT_TYPES,
+  displayFileName,
+  megabytes,
+  refusedTypeMessage,
+  type AttachmentType,
+} from "~/lib/attachment-files";
+import { recordAudit } from "~/lib/audit.server";
+import type { SessionUser } from "~/lib/auth.server";
+import { decimalOrNull } from "~/lib/decimal";
+import { db } from "~/lib/db.server";
+import { ATTACHMENT_KINDS, type AttachmentKind } from "~/lib/foam/vocabulary";
+import { BodyRefused } from "~/lib/form-data.server";
+import { receiveUpload, refuseEarly, type UploadLimits } from "~/lib/multipart-upload.server";
+import { deleteObject, deleteObjectQuietly, putObject, putObjectFile } from "~/lib/storage.server";
+import { readAgencySettings, type AgencySettings } from "./agency-settings.server";
+import { reportAccessRecord } from "./event-read.server";
+
+/**
+ * Files attached to events: received as a stream, checked by content, photos stored without their
+ * metadata and with a thumbnail, the object written before the row that names it, removal audited
+ * and the object kept until the retention setting lets it go.
+ */
+
+export const ATTACHMENT_SUBJECT_EVENT = "event";
+
+export type AttachmentView = {
+  id: number;
+  kind: AttachmentKind;
+  name: string;
+  contentType: string;
+  size: number;
+  url: string;
+  thumbnailUrl: string | null;
+  uploadedAt: string;
+  uploadedBy: string | null;
+  /** The photo's own position, kept only when the officer chose to use it. */
+  position: PhotoPosition | null;
+};
+
+export type StoredAttachment = AttachmentView & {
+  eventId: number;
+  storageKey: string;
+  thumbnailKey: string | null;
+  sha256: string;
+  removedAt: string | null;
+};
+
+function storedOf(row: Record<string, unknown>): StoredAttachment {
+  const id = Number(row.id);
+  const latitude = decimalOrNull(row.photo_latitude);
+  const longitude = decimalOrNull(row.photo_longitude);
+  return {
+    id,
+    kind: row.kind as AttachmentKind,
+    name: row.file_name as string,
+    contentType: row.content_type as string,
+    size: Number(row.byte_size),
+    url: `/attachments/${id}`,
+    thumbnailUrl: row.thumbnail_key ? `/attachments/${id}/thumbnail` : null,
+    uploadedAt: new Date(row.uploaded_at as string).toISOString(),
+    uploadedBy: (row.uploader as string | null) ?? null,
+    position: latitude !== null && longitude !== null ? { latitude, longitude } : null,
+    eventId: Number(row.subject_id),
+    storageKey: row.storage_key as string,
+    thumbnailKey: (row.thumbnail_key as string | null) ?? null,
+    sha256: row.sha256 as string,
+    removedAt: row.removed_at ? new Date(row.removed_at as string).toISOString() : null,
+  };
+}
+
+export function viewOf(attachment: StoredAttachment): AttachmentView {
+  const { id, kind, name, contentType, size, url, thumbnailUrl, uploadedAt, uploadedBy, position } = attachment;
+  return { id, kind, name, contentType, size, url, thumbnailUrl, uploadedAt, uploadedBy, position };
+}
+
+function attachmentsQuery() {
+  return db("attachments")
+    .leftJoin("users", "users.id", "attachments.uploaded_by")
+    .select("attachments.*", "users.name as uploader");
+}
+
+/** The attachments an event shows, oldest first; removed ones are left out. */
+export async function listEventAttachments(eventId: number): Promise<AttachmentView[]> {
+  const rows = await attachmentsQuery()
+    .where({ "attachments.subject": ATTACHMENT_SUBJECT_EVENT, "attachments.subject_id": eventId })
+    .whereNull("attachments.removed_at")
+    .orderBy("attachments.id");
+  return rows.map((row) => viewOf(storedOf(row)));
+}
+
+/** One attachment that is not removed, with the access record of its event; null when there is none. */
+export async function findAttachment(
+  id: number,
+): Promise<{ attachment: StoredAttachment; report: ReportRecord } | null> {
+  const row = await attachmentsQuery().where("attachments.id", id).whereNull("attachments.removed_at").first();
+  if (!row) return null;
+  const attachment = storedOf(row);
+  const report = await reportAccessRecord(attachment.eventId);
+  return report ? { attachment, report } : null;
+}
+
+export type AttachmentLimits = {
+  maxFileBytes: number;
+  limitLabel: string;
+  perEvent: number;
+};
+
+export function attachmentLimits(settings: Pick<AgencySettings, "attachmentMaxMb" | "attachmentsPerEvent">) {
+  return {
+    maxFileBytes: megabytes(settings.attachmentMaxMb),
+    limitLabel: `${settings.attachmentMaxMb} MB`,
+    perEvent: settings.attachmentsPerEvent,
+  } satisfies AttachmentLimits;
+}
+
+async function activeCount(eventId: number): Promise<number> {
+  const [row] = await db("attachments")
+    .where({ subject: ATTACHMENT_SUBJECT_EVENT, subject_id: eventId })
+    .whereNull("removed_at")
+    .count({ n: "*" });
+  return Number(row.n);
+}
+
+async function sha256OfFile(filePath: string): Promise<string> {
+  const hash = createHash("sha256");
+  await pipeline(createReadStream(filePath), hash);
+  return hash.digest("hex");
+}
+
+function kindOf(value: string | undefined, type: AttachmentType): AttachmentKind {
+  if (value === undefined || value === "") return ATTACHMENT_TYPES[type].image ? "photo" : "other";
+  if ((ATTACHMENT_KINDS as readonly string[]).includes(value)) return value as AttachmentKind;
+  throw new BodyRefused(400, `The kind must be one of: ${ATTACHMENT_KINDS.join(", ")}.`);
+}
+
+export type AddAttachmentOptions = { clientAddress?: string | null };
+
+/**
+ * Receives one file (field `file`, optional `kind` and `usePosition`) for an event: refused early
+ * with the limit when it is too large or the event is full (413), refused by its content when it is
+ * none of the allowed types (400). The stored object (and thumbnail) is written first; the row and
+ * its audit entry follow in one transaction, and a failed save removes the objects again. Throws
+ * `BodyRefused` for a refused file and `StorageUnavailableError` when the object store is down.
+ */
+export async function addEventAttachment(
+  request: Request,
+  eventId: number,
+  actor: SessionUser,
+  options: AddAttachmentOptions = {},
+): Promise<AttachmentView> {
+  const limits = attachmentLimits(await readAgencySettings());
+  const uploadLimits: UploadLimits = {
+    fileField: "file",
+    maxFileBytes: limits.maxFileBytes,
+    limitLabel: limits.limitLabel,
+    fields: ["kind", "usePosition"],
+  };
+  refuseEarly(request, uploadLimits);
+  if ((await activeCount(eventId)) >= limits.perEvent) {
+    throw new BodyRefused(
+      413,
+      `This event already has ${limits.perEvent} files, the most the agency settings allow. Remove one first.`,
+    );
+  }
+  const upload = await receiveUpload(request, uploadLimits);
+  const cleanedPath = `${upload.file.path}-stored`;
+  const stored: string[] = [];
+  try {
+    const sniffed = await sniffFile(upload.file.path);
+    if (!sniffed.type) throw new BodyRefused(400, refusedTypeMessage(sniffed.detected));
+    const kind = kindOf(upload.fields.kind, sniffed.type);
+    const usePosition = upload.fields.usePosition === "true" || upload.fields.usePosition === "on";
+    const id = randomUUID();
+    const prefix = `attachments/event-${eventId}/${id}`;
+
+    let storedPath = upload.file.path;
+    let contentType: AttachmentType = sniffed.type;
+    let thumbnail: Uint8Array | null = null;
+    let position: PhotoPosition | null = null;
+    if (ATTACHMENT_TYPES[sniffed.type].image) {
+      // Read before the metadata is dropped, and only when asked.
+      if (usePosition) position = await readPhotoPosition(upload.file.path);
+      try {
+        contentType = (await writeCleanImage(upload.file.path, sniffed.type, cleanedPath)).contentType;
+      } catch (error) {
+        if (error instanceof UnreadableImageError) throw new BodyRefused(400, error.message);
+        throw error;
+      }
+      storedPath = cleanedPath;
+      thumbnail = await thumbnailOf(cleanedPath);
+    }
+    const byteSize = (await stat(storedPath)).size;
+    const sha256 = await sha256OfFile(storedPath);
+    const storageKey = `${prefix}.${ATTACHMENT_TYPES[contentType].extension}`;
+    const thumbnailKey = thumbnail ? `${prefix}-thumbnail.webp` : null;
+    const name = displayFileName(upload.file.name, `attachment.${ATTACHMENT_TYPES[contentType].extension}`);
+
+    await putObjectFile(storageKey, storedPath, byteSize, contentType);
+    stored.push(storageKey);
+    if (thumbnail && thumbnailKey) {
+      await putObject(thumbnailKey, thumbnail, "image/webp");
+      stored.push(thumbnailKey);
+    }
+    const rowId = await db.transaction(async (trx) => {
+      const [insertedId] = await trx("attachments").insert({
+        subject: ATTACHMENT_SUBJECT_EVENT,
+        subject_id: eventId,
+        kind,
+        file_name: name,
+        content_type: contentType,
+        byte_size: byteSize,
+        sha256,
+        storage_key: storageKey,
+        thumbnail_key: thumbnailKey,
+        photo_latitude: position?.latitude ?? null,
+        photo_longitude: position?.longitude ?? null,
+        uploaded_by: actor.id,
+      });
+      await recordAudit(
+        {
+          actorUserId: actor.id,
+          actorLabel: actor.email,
+          action: "attachment_added",
+          entityType: "event",
+          entityId: eventId,
+          summary: `Attached ${name}`,
+          after: { attachmentId: insertedId, kind, name, contentType, byteSize, sha256, storageKey, position },
+          clientAddress: options.clientAddress ?? null,
+        },
+        trx,
+      );
+      return insertedId as number;
+    });
+    stored.length = 0;
+    const row = await attachmentsQuery().where("attachments.id", rowId).first();
+    return viewOf(storedOf(row));
+  } finally {
+    await Promise.all(stored.map((key) => deleteObjectQuietly(key)));
+    await upload.discard();
+    await rm(cleanedPath, { force: true });
+  }
+}
+
+/**
+ * Removes an attachment from its event, audited: the row is marked removed and the object stays in
+ * the store until the retention setting allows `purgeRemovedAttachments` to delete it.
+ */
+export async function removeAttachment(
+  attachment: StoredAttachment,
+  actor: SessionUser,
+  clientAddress: string | null = null,
+): Promise<boolean> {
+  return db.transaction(async (trx) => {
+    const changed = await trx("attachments")
+      .where({ id: attachment.id })
+      .whereNull("removed_at")
+      .update({ removed_at: trx.fn.now(3), removed_by: actor.id });
+    if (changed === 0) return false;
+    await recordAudit(
+      {
+        actorUserId: actor.id,
+        actorLabel: actor.email,
+        action: "attachment_removed",
+        entityType: "event",
+        entityId: attachment.eventId,
+        summary: `Removed ${attachment.name}`,
+        before: {
+          attachmentId: attachment.id,
+          kind: attachment.kind,
+          name: attachment.name,
+          sha256: attachment.sha256,
+          storageKey: attachment.storageKey,
+        },
+        clientAddress,
+      },
+      trx,
+    );
+    return true;
+  });
+}
+
+/**
+ * Deletes the objects of attachments removed longer ago than the retention setting, and marks them
+ * purged. An object the store will not delete keeps its row unpurged for the next run.
+ */
+export async function purgeRemovedAttachments(now = new Date()): Promise<{ purged: number; failed: number }> {
+  const { attachmentRetentionDays } = await readAgencySettings();
+  const before = new Date(now.getTime() - attachmentRetentionDays * 86_400_000);
+  const rows = await db("attachments").whereNotNull("removed_at").whereNull("purged_at").where("removed_at", "<", before);
+  let purged = 0;
+  let failed = 0;
+  for (const row of rows) {
+    try {
+      await deleteObject(row.storage_key);
+      if (row.thumbnail_key) await deleteObject(row.thumbnail_key);
+    } catch {
+      failed += 1;
+      continue;
+    }
+    await db.transaction(async (trx) => {
+      await trx("attachments").where({ id: row.id }).update({ purged_at: trx.fn.now(3) });
+      await recordAudit(
+        {
+          action: "attachment_purged",
+          entityType: "event",
+          entityId: row.subject_id,
+          summary: `File of removed attachment ${row.file_name} deleted after ${attachmentRetentionDays} days`,
+          before: { attachmentId: row.id, storageKey: row.storage_key, sha256: row.sha256 },
+        },
+        trx,
+      );
+    });
+    purged += 1;
+  }
+  return { purged, failed };
+}
+
+/** Every object key a row names: attachments (and thumbnails), safety sheets, layers, submissions, packages. */
+export async function referencedObjectKeys(): Promise<Set<string>> {
+  const keys = new Set<string>();
+  const add = (values: unknown[]) => values.forEach((value) => typeof value === "string" && keys.add(value));
+  add(await db("attachments").whereNull("purged_at").pluck("storage_key"));
+  add(await db("attachments").whereNull("purged_at").whereNotNull("thumbnail_key").pluck("thumbnail_key"));
+  add(await db("file_versions").pluck("storage_key"));
+  add(await db("foam_products").whereNotNull("safety_sheet_key").pluck("safety_sheet_key"));
+  add(await db("quarterly_submissions").whereNotNull("storage_key").pluck("storage_key"));
+  add(await db("records_package_files").pluck("storage_key"));
+  return keys;
+}
