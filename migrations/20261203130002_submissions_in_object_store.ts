@@ -17,9 +17,12 @@ export function submissionKey(id: number, digest: string): string {
 }
 
 export async function up(knex: Knex): Promise<void> {
-  await knex.schema.alterTable("quarterly_submissions", (t) => {
-    t.string("storage_key", 255).nullable().unique();
-  });
+  // Schema changes commit at once in MariaDB: a run stopped by a mismatching file can be run again.
+  if (!(await knex.schema.hasColumn("quarterly_submissions", "storage_key"))) {
+    await knex.schema.alterTable("quarterly_submissions", (t) => {
+      t.string("storage_key", 255).nullable().unique();
+    });
+  }
   await knex.raw("ALTER TABLE quarterly_submissions MODIFY content LONGBLOB NULL");
   const ids = await knex("quarterly_submissions").whereNull("storage_key").orderBy("id").pluck("id");
   for (const id of ids) {
