@@ -1,5 +1,5 @@
 import exifr from "exifr";
-import { fileTypeFromFile } from "file-type";
+import { fileTypeFromBuffer, fileTypeFromFile, type FileTypeResult } from "file-type";
 import sharp from "sharp";
 import { ATTACHMENT_TYPES, isAttachmentType, type AttachmentType } from "./attachment-files";
 
@@ -11,8 +11,17 @@ import { ATTACHMENT_TYPES, isAttachmentType, type AttachmentType } from "./attac
 
 export type SniffedType = { type: AttachmentType } | { type: null; detected: string | null };
 
+/** What a file on disk is, by its first bytes. */
 export async function sniffFile(filePath: string): Promise<SniffedType> {
-  const found = await fileTypeFromFile(filePath);
+  return sniffed(await fileTypeFromFile(filePath));
+}
+
+/** What bytes in memory are (a safety sheet, read by the bounded form reader). */
+export async function sniffBytes(bytes: Uint8Array): Promise<SniffedType> {
+  return sniffed(await fileTypeFromBuffer(bytes));
+}
+
+function sniffed(found: FileTypeResult | undefined): SniffedType {
   // file-type names HEIC stills image/heic and HEIC sequences image/heic-sequence.
   const mime = found?.mime === "image/heif" ? "image/heic" : found?.mime;
   if (isAttachmentType(mime)) return { type: mime };

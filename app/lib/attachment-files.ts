@@ -25,8 +25,8 @@ export const ATTACHMENT_TYPES_SENTENCE = "JPEG, PNG, WebP or HEIC photos and PDF
 
 /** The refusal for a file whose content is none of the allowed types, whatever its name says. */
 export function refusedTypeMessage(detected: string | null): string {
-  const what = detected ? `a ${detected} file` : "not a file type Foamtally keeps";
-  return `This file is ${what}. Attach ${ATTACHMENT_TYPES_SENTENCE}.`;
+  const what = detected ? `${detected}, which Foamtally does not keep` : "of no type Foamtally keeps";
+  return `This file's content is ${what}, whatever its name says. Attach ${ATTACHMENT_TYPES_SENTENCE}.`;
 }
 
 /**
