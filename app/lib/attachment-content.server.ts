@@ -1,7 +1,11 @@
+import { createHash } from "node:crypto";
+import { createReadStream } from "node:fs";
+import { rm, stat } from "node:fs/promises";
+import { pipeline } from "node:stream/promises";
 import exifr from "exifr";
 import { fileTypeFromBuffer, fileTypeFromFile, type FileTypeResult } from "file-type";
 import sharp from "sharp";
-import { ATTACHMENT_TYPES, isAttachmentType, type AttachmentType } from "./attachment-files";
+import { ATTACHMENT_TYPES, isAttachmentType, refusedTypeMessage, type AttachmentType } from "./attachment-files";
 
 /**
  * What an uploaded file is (by its bytes, with `file-type`), the copy of a photo that is stored
@@ -84,4 +88,71 @@ export async function thumbnailOf(imagePath: string): Promise<Uint8Array> {
     .webp({ quality: 70 })
     .toBuffer();
   return new Uint8Array(buffer);
+}
+
+/** A file refused by its content, with the reason a person can act on. */
+export class RefusedFileError extends Error {}
+
+export type PreparedFile = {
+  /** The file to store: the received one, or the cleaned copy of a photo. */
+  path: string;
+  contentType: AttachmentType;
+  extension: string;
+  byteSize: number;
+  sha256: string;
+  image: boolean;
+  thumbnail: Uint8Array | null;
+  position: PhotoPosition | null;
+  /** Removes the cleaned copy (the received file is the caller's). */
+  discard: () => Promise<void>;
+};
+
+async function sha256OfFile(filePath: string): Promise<string> {
+  const hash = createHash("sha256");
+  await pipeline(createReadStream(filePath), hash);
+  return hash.digest("hex");
+}
+
+/**
+ * Makes a received file ready to store: its type told by content (else `RefusedFileError`), a photo
+ * re-encoded without metadata with its thumbnail, and, when `usePosition`, the photo's position read
+ * before the metadata goes. Answers the size and SHA-256 of what will be stored.
+ */
+export async function prepareFile(receivedPath: string, options: { usePosition: boolean }): Promise<PreparedFile> {
+  const sniffedType = await sniffFile(receivedPath);
+  if (!sniffedType.type) throw new RefusedFileError(refusedTypeMessage(sniffedType.detected));
+  const cleanedPath = `${receivedPath}-stored`;
+  const discard = () => rm(cleanedPath, { force: true });
+  try {
+    let path = receivedPath;
+    let contentType: AttachmentType = sniffedType.type;
+    let thumbnail: Uint8Array | null = null;
+    let position: PhotoPosition | null = null;
+    const image = ATTACHMENT_TYPES[sniffedType.type].image;
+    if (image) {
+      if (options.usePosition) position = await readPhotoPosition(receivedPath);
+      try {
+        contentType = (await writeCleanImage(receivedPath, sniffedType.type, cleanedPath)).contentType;
+      } catch (error) {
+        if (error instanceof UnreadableImageError) throw new RefusedFileError(error.message);
+        throw error;
+      }
+      path = cleanedPath;
+      thumbnail = await thumbnailOf(cleanedPath);
+    }
+    return {
+      path,
+      contentType,
+      extension: ATTACHMENT_TYPES[contentType].extension,
+      byteSize: (await stat(path)).size,
+      sha256: await sha256OfFile(path),
+      image,
+      thumbnail,
+      position,
+      discard,
+    };
+  } catch (error) {
+    await discard();
+    throw error;
+  }
 }

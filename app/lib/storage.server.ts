@@ -130,14 +130,16 @@ export async function objectExists(key: string): Promise<boolean> {
   }
 }
 
-/** Every key under a prefix, page by page. */
-export async function* listObjectKeys(prefix: string): AsyncGenerator<string> {
+/** Every object under a prefix with when it was stored, page by page. */
+export async function* listObjects(prefix: string): AsyncGenerator<{ key: string; storedAt: Date | null }> {
   let token: string | undefined;
   do {
     const page = await guarded(() =>
       client().send(new ListObjectsV2Command({ Bucket: bucket(), Prefix: prefix, ContinuationToken: token })),
     );
-    for (const item of page.Contents ?? []) if (item.Key) yield item.Key;
+    for (const item of page.Contents ?? []) {
+      if (item.Key) yield { key: item.Key, storedAt: item.LastModified ?? null };
+    }
     token = page.IsTruncated ? page.NextContinuationToken : undefined;
   } while (token);
 }

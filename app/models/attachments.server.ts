@@ -1,23 +1,12 @@
-import { createHash, randomUUID } from "node:crypto";
-import { createReadStream } from "node:fs";
-import { rm, stat } from "node:fs/promises";
-import { pipeline } from "node:stream/promises";
+import { randomUUID } from "node:crypto";
 import type { ReportRecord } from "~/lib/access";
 import {
-  readPhotoPosition,
-  sniffFile,
-  thumbnailOf,
-  UnreadableImageError,
-  writeCleanImage,
+  prepareFile,
+  RefusedFileError,
   type PhotoPosition,
+  type PreparedFile,
 } from "~/lib/attachment-content.server";
-import {
-  ATTACHMENT_TYPES,
-  displayFileName,
-  megabytes,
-  refusedTypeMessage,
-  type AttachmentType,
-} from "~/lib/attachment-files";
+import { displayFileName, megabytes } from "~/lib/attachment-files";
 import { recordAudit } from "~/lib/audit.server";
 import type { SessionUser } from "~/lib/auth.server";
 import { decimalOrNull } from "~/lib/decimal";
@@ -25,7 +14,7 @@ import { db } from "~/lib/db.server";
 import { ATTACHMENT_KINDS, type AttachmentKind } from "~/lib/foam/vocabulary";
 import { BodyRefused } from "~/lib/form-data.server";
 import { receiveUpload, refuseEarly, type UploadLimits } from "~/lib/multipart-upload.server";
-import { deleteObject, deleteObjectQuietly, putObject, putObjectFile } from "~/lib/storage.server";
+import { deleteObject, deleteObjectQuietly, listObjects, putObject, putObjectFile } from "~/lib/storage.server";
 import { readAgencySettings, type AgencySettings } from "./agency-settings.server";
 import { reportAccessRecord } from "./event-read.server";
 
@@ -135,14 +124,17 @@ async function activeCount(eventId: number): Promise<number> {
   return Number(row.n);
 }
 
-async function sha256OfFile(filePath: string): Promise<string> {
-  const hash = createHash("sha256");
-  await pipeline(createReadStream(filePath), hash);
-  return hash.digest("hex");
+/** The keys of a stored attachment and its thumbnail: made here, from the event and a random id. */
+export function attachmentKeys(eventId: number, file: Pick<PreparedFile, "extension" | "thumbnail">) {
+  const prefix = `attachments/event-${eventId}/${randomUUID()}`;
+  return {
+    storageKey: `${prefix}.${file.extension}`,
+    thumbnailKey: file.thumbnail ? `${prefix}-thumbnail.webp` : null,
+  };
 }
 
-function kindOf(value: string | undefined, type: AttachmentType): AttachmentKind {
-  if (value === undefined || value === "") return ATTACHMENT_TYPES[type].image ? "photo" : "other";
+function kindOf(value: string | undefined, image: boolean): AttachmentKind {
+  if (value === undefined || value === "") return image ? "photo" : "other";
   if ((ATTACHMENT_KINDS as readonly string[]).includes(value)) return value as AttachmentKind;
   throw new BodyRefused(400, `The kind must be one of: ${ATTACHMENT_KINDS.join(", ")}.`);
 }
@@ -177,39 +169,23 @@ export async function addEventAttachment(
     );
   }
   const upload = await receiveUpload(request, uploadLimits);
-  const cleanedPath = `${upload.file.path}-stored`;
   const stored: string[] = [];
+  let prepared: PreparedFile | null = null;
   try {
-    const sniffed = await sniffFile(upload.file.path);
-    if (!sniffed.type) throw new BodyRefused(400, refusedTypeMessage(sniffed.detected));
-    const kind = kindOf(upload.fields.kind, sniffed.type);
-    const usePosition = upload.fields.usePosition === "true" || upload.fields.usePosition === "on";
-    const id = randomUUID();
-    const prefix = `attachments/event-${eventId}/${id}`;
-
-    let storedPath = upload.file.path;
-    let contentType: AttachmentType = sniffed.type;
-    let thumbnail: Uint8Array | null = null;
-    let position: PhotoPosition | null = null;
-    if (ATTACHMENT_TYPES[sniffed.type].image) {
-      // Read before the metadata is dropped, and only when asked.
-      if (usePosition) position = await readPhotoPosition(upload.file.path);
-      try {
-        contentType = (await writeCleanImage(upload.file.path, sniffed.type, cleanedPath)).contentType;
-      } catch (error) {
-        if (error instanceof UnreadableImageError) throw new BodyRefused(400, error.message);
-        throw error;
-      }
-      storedPath = cleanedPath;
-      thumbnail = await thumbnailOf(cleanedPath);
+    try {
+      prepared = await prepareFile(upload.file.path, {
+        usePosition: upload.fields.usePosition === "true" || upload.fields.usePosition === "on",
+      });
+    } catch (error) {
+      if (error instanceof RefusedFileError) throw new BodyRefused(400, error.message);
+      throw error;
     }
-    const byteSize = (await stat(storedPath)).size;
-    const sha256 = await sha256OfFile(storedPath);
-    const storageKey = `${prefix}.${ATTACHMENT_TYPES[contentType].extension}`;
-    const thumbnailKey = thumbnail ? `${prefix}-thumbnail.webp` : null;
-    const name = displayFileName(upload.file.name, `attachment.${ATTACHMENT_TYPES[contentType].extension}`);
+    const { contentType, byteSize, sha256, thumbnail, position } = prepared;
+    const kind = kindOf(upload.fields.kind, prepared.image);
+    const { storageKey, thumbnailKey } = attachmentKeys(eventId, prepared);
+    const name = displayFileName(upload.file.name, `attachment.${prepared.extension}`);
 
-    await putObjectFile(storageKey, storedPath, byteSize, contentType);
+    await putObjectFile(storageKey, prepared.path, byteSize, contentType);
     stored.push(storageKey);
     if (thumbnail && thumbnailKey) {
       await putObject(thumbnailKey, thumbnail, "image/webp");
@@ -251,7 +227,7 @@ export async function addEventAttachment(
   } finally {
     await Promise.all(stored.map((key) => deleteObjectQuietly(key)));
     await upload.discard();
-    await rm(cleanedPath, { force: true });
+    await prepared?.discard();
   }
 }
 
@@ -340,4 +316,20 @@ export async function referencedObjectKeys(): Promise<Set<string>> {
   add(await db("quarterly_submissions").whereNotNull("storage_key").pluck("storage_key"));
   add(await db("records_package_files").pluck("storage_key"));
   return keys;
+}
+
+/**
+ * Objects in the store that no row names and that were stored before `storedBefore`: left by a save
+ * that failed after its object was written (objects are written before their rows, so a young object
+ * may belong to a save still running).
+ */
+export async function findOrphanObjects(storedBefore: Date): Promise<{ key: string; storedAt: Date | null }[]> {
+  const referenced = await referencedObjectKeys();
+  const orphans: { key: string; storedAt: Date | null }[] = [];
+  for await (const object of listObjects("")) {
+    if (referenced.has(object.key)) continue;
+    if (object.storedAt && object.storedAt >= storedBefore) continue;
+    orphans.push(object);
+  }
+  return orphans;
 }

@@ -4,8 +4,8 @@ import exifr from "exifr";
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
 import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
-import { getObject, objectExists } from "~/lib/storage.server";
-import { purgeRemovedAttachments } from "~/models/attachments.server";
+import { getObject, objectExists, putObject } from "~/lib/storage.server";
+import { findOrphanObjects, purgeRemovedAttachments } from "~/models/attachments.server";
 import { action as uploadAction, loader as listLoader } from "~/routes/api.events.$id.attachments";
 import { action as removeAction, loader as fileLoader } from "~/routes/attachments.$id";
 import { loader as thumbnailLoader } from "~/routes/attachments.$id.thumbnail";
@@ -280,5 +280,20 @@ describe("the object store down", () => {
     } finally {
       env().S3_ENDPOINT = endpoint;
     }
+  });
+});
+
+describe("the sweep of stored files", () => {
+  it("lists an object no row names, once it is old enough, and never one a row names", async () => {
+    const response = await upload(eventId, { bytes: await photoWithPosition(), name: "kept.jpg" }, officer.cookie);
+    const row = await db("attachments").where({ id: (await response.json()).id }).first();
+    await putObject(`attachments/event-${eventId}/left-by-a-failed-save.jpg`, new Uint8Array([1, 2, 3]), "image/jpeg");
+
+    const keys = (await findOrphanObjects(new Date(Date.now() + 60_000))).map((orphan) => orphan.key);
+    expect(keys).toContain(`attachments/event-${eventId}/left-by-a-failed-save.jpg`);
+    expect(keys).not.toContain(row.storage_key);
+    expect(keys).not.toContain(row.thumbnail_key);
+    // A young object may belong to a save still running.
+    expect(await findOrphanObjects(new Date(Date.now() - 60_000))).toEqual([]);
   });
 });
