@@ -33,7 +33,9 @@ try {
   if (remove && orphans.length) console.log(`Deleted ${orphans.length}.`);
   if (purge) {
     const result = await purgeRemovedAttachments();
-    console.log(`Removed attachments past the retention setting: ${result.purged} deleted, ${result.failed} left for the next run.`);
+    console.log(
+      `Removed attachments past the retention setting: ${result.purged} deleted, ${result.failed} left for the next run.`,
+    );
   }
 } finally {
   await db.destroy();

@@ -39,7 +39,10 @@ describe("the stored copy of a photo", () => {
     expect(await sniffFile(original)).toEqual({ type: "image/jpeg" });
     expect(await readPhotoPosition(original)).toEqual({ latitude: -33.5, longitude: 151.25 });
 
-    expect(await writeCleanImage(original, "image/jpeg", stored)).toEqual({ contentType: "image/jpeg", extension: "jpg" });
+    expect(await writeCleanImage(original, "image/jpeg", stored)).toEqual({
+      contentType: "image/jpeg",
+      extension: "jpg",
+    });
     const bytes = await readFile(stored);
     expect(await exifr.gps(bytes)).toBeUndefined();
     expect((await exifr.parse(bytes, { tiff: true }))?.Model).toBeUndefined();

@@ -1,5 +1,11 @@
 import { describe, expect, it } from "vitest";
-import { contentDisposition, displayFileName, formatBytes, isAttachmentType, refusedTypeMessage } from "./attachment-files";
+import {
+  contentDisposition,
+  displayFileName,
+  formatBytes,
+  isAttachmentType,
+  refusedTypeMessage,
+} from "./attachment-files";
 
 describe("a stored file's name in a download", () => {
   it("cannot add parameters, lines or paths", () => {
@@ -23,7 +29,9 @@ describe("a stored file's name in a download", () => {
 
 describe("allowed types", () => {
   it("are the photo formats and PDF, and a refusal says what the file was", () => {
-    expect(["image/jpeg", "image/png", "image/webp", "image/heic", "application/pdf"].every(isAttachmentType)).toBe(true);
+    expect(["image/jpeg", "image/png", "image/webp", "image/heic", "application/pdf"].every(isAttachmentType)).toBe(
+      true,
+    );
     expect(isAttachmentType("application/x-msdownload")).toBe(false);
     expect(isAttachmentType("constructor")).toBe(false);
     expect(refusedTypeMessage("EXE (application/x-msdownload)")).toBe(

@@ -19,7 +19,8 @@ export function isAttachmentType(value: string | undefined | null): value is Att
 }
 
 /** What the upload field's `accept` lists; the server decides by content all the same. */
-export const ATTACHMENT_ACCEPT = ".jpg,.jpeg,.png,.webp,.heic,.pdf,image/jpeg,image/png,image/webp,image/heic,application/pdf";
+export const ATTACHMENT_ACCEPT =
+  ".jpg,.jpeg,.png,.webp,.heic,.pdf,image/jpeg,image/png,image/webp,image/heic,application/pdf";
 
 export const ATTACHMENT_TYPES_SENTENCE = "JPEG, PNG, WebP or HEIC photos and PDF documents";
 
@@ -46,7 +47,10 @@ export function displayFileName(name: string, fallback: string): string {
  */
 export function contentDisposition(disposition: "inline" | "attachment", fileName: string): string {
   const ascii = fileName.replace(/[^A-Za-z0-9._-]+/g, "_").replace(/^\.+/, "_") || "file";
-  const encoded = encodeURIComponent(fileName).replace(/['()*]/g, (c) => `%${c.charCodeAt(0).toString(16).toUpperCase()}`);
+  const encoded = encodeURIComponent(fileName).replace(
+    /['()*]/g,
+    (c) => `%${c.charCodeAt(0).toString(16).toUpperCase()}`,
+  );
   return `${disposition}; filename="${ascii}"; filename*=UTF-8''${encoded}`;
 }
 

@@ -1,11 +1,6 @@
 import { randomUUID } from "node:crypto";
 import type { ReportRecord } from "~/lib/access";
-import {
-  prepareFile,
-  RefusedFileError,
-  type PhotoPosition,
-  type PreparedFile,
-} from "~/lib/attachment-content.server";
+import { prepareFile, RefusedFileError, type PhotoPosition, type PreparedFile } from "~/lib/attachment-content.server";
 import { displayFileName, megabytes } from "~/lib/attachment-files";
 import { recordAudit } from "~/lib/audit.server";
 import type { SessionUser } from "~/lib/auth.server";
@@ -276,7 +271,10 @@ export async function removeAttachment(
 export async function purgeRemovedAttachments(now = new Date()): Promise<{ purged: number; failed: number }> {
   const { attachmentRetentionDays } = await readAgencySettings();
   const before = new Date(now.getTime() - attachmentRetentionDays * 86_400_000);
-  const rows = await db("attachments").whereNotNull("removed_at").whereNull("purged_at").where("removed_at", "<", before);
+  const rows = await db("attachments")
+    .whereNotNull("removed_at")
+    .whereNull("purged_at")
+    .where("removed_at", "<", before);
   let purged = 0;
   let failed = 0;
   for (const row of rows) {
@@ -288,7 +286,9 @@ export async function purgeRemovedAttachments(now = new Date()): Promise<{ purge
       continue;
     }
     await db.transaction(async (trx) => {
-      await trx("attachments").where({ id: row.id }).update({ purged_at: trx.fn.now(3) });
+      await trx("attachments")
+        .where({ id: row.id })
+        .update({ purged_at: trx.fn.now(3) });
       await recordAudit(
         {
           action: "attachment_purged",

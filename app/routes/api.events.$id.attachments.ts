@@ -38,7 +38,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   } catch (error) {
     if (error instanceof BodyRefused) apiError(error.status, error.message);
     if (error instanceof StorageUnavailableError) {
-      apiError(503, "The file store is not answering, so this file was not attached. The report is saved; try the file again.");
+      apiError(
+        503,
+        "The file store is not answering, so this file was not attached. The report is saved; try the file again.",
+      );
     }
     throw error;
   }

@@ -19,12 +19,21 @@ async function officersFiledReport(): Promise<number> {
   }
 }
 
+async function setLargestFile(megabytes: number) {
+  const knex = testKnex();
+  try {
+    await knex("agency_settings").where({ id: 1 }).update({ attachment_max_mb: megabytes });
+  } finally {
+    await knex.destroy();
+  }
+}
+
 test.describe("attachments on a report", () => {
   test("the officer attaches a scene photo and a manifest at once and sees the photo's thumbnail", async ({
     page,
     consoleErrors,
   }) => {
-    consoleErrors.allow(/status of 400/);
+    consoleErrors.allow(/status of (400|413)/);
     const eventId = await officersFiledReport();
     const photo = await demoPhotoJpeg({ label: "Foam at the curb inlet", exif: { latitude: 38.71, longitude: -98.2 } });
     const name = `scene-${Date.now()}.jpg`;
@@ -63,6 +72,22 @@ test.describe("attachments on a report", () => {
     await expect(refused).toContainText("Not attached");
     await expect(refused.getByRole("alert")).toContainText("Attach JPEG, PNG, WebP or HEIC photos and PDF documents");
     await expect(refused.getByRole("button", { name: "Try again" })).toBeVisible();
+
+    // A file past the agency's limit is refused before it is read, and the limit is named.
+    await setLargestFile(1);
+    try {
+      await panel.getByLabel("Attach files").setInputFiles({
+        name: "long-video-still.jpg",
+        mimeType: "image/jpeg",
+        buffer: Buffer.concat([photo, Buffer.alloc(3 * 1024 * 1024)]),
+      });
+      const tooLarge = uploads.filter({ hasText: "long-video-still.jpg" });
+      await expect(tooLarge.getByRole("alert")).toHaveText(
+        "The file is larger than 1 MB, the most the agency settings allow.",
+      );
+    } finally {
+      await setLargestFile(25);
+    }
 
     await panel.getByRole("button", { name: "Remove hauler-manifest.pdf" }).click();
     await expect(panel.getByTestId("attachment").filter({ hasText: "hauler-manifest.pdf" })).toHaveCount(0);

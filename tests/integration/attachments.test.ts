@@ -69,8 +69,7 @@ beforeAll(async () => {
   stranger = await person(["officer"], (await makeStation()).id);
   adminCookie = (await person(["admin"], null)).cookie;
   eventId = (await makeEvent({ createdBy: officer.id, status: "filed", stationId: station, startedAt: new Date() })).id;
-  draftId = (await makeEvent({ createdBy: officer.id, status: "draft", stationId: station, startedAt: new Date() }))
-    .id;
+  draftId = (await makeEvent({ createdBy: officer.id, status: "draft", stationId: station, startedAt: new Date() })).id;
 });
 
 beforeEach(async () => {
@@ -120,7 +119,9 @@ describe("an attached photo", () => {
     )) as Response;
     expect(file.headers.get("Content-Type")).toBe("image/jpeg");
     expect(new Uint8Array(await file.arrayBuffer())).toEqual(stored);
-    const audit = await db("audit_events").where({ action: "attachment_downloaded", actor_user_id: officer.id }).first();
+    const audit = await db("audit_events")
+      .where({ action: "attachment_downloaded", actor_user_id: officer.id })
+      .first();
     expect(JSON.parse(audit.after_json)).toMatchObject({ attachmentId: created.id, sha256: row.sha256 });
 
     const thumbnail = (await thumbnailLoader(
@@ -146,12 +147,9 @@ describe("an attached photo", () => {
   it("gives a file name back in a Content-Disposition it cannot break", async () => {
     const pdf = demoDocumentPdf("Hauler manifest", ["Manifest 0001 (invented)"]);
     const name = 'manifest"; filename=evil.html\r\nX-Injected: 1.pdf';
-    const response = await upload(
-      eventId,
-      { bytes: pdf, name, type: "application/pdf" },
-      officer.cookie,
-      { kind: "disposal_manifest" },
-    );
+    const response = await upload(eventId, { bytes: pdf, name, type: "application/pdf" }, officer.cookie, {
+      kind: "disposal_manifest",
+    });
     expect(response.status).toBe(201);
     const created = await response.json();
     expect(created).toMatchObject({ kind: "disposal_manifest", contentType: "application/pdf", thumbnailUrl: null });
@@ -181,16 +179,26 @@ describe("a refused file", () => {
 
   it("is refused with the limit stated, from its declared length, before it is read", async () => {
     await ensureAgency(db, { attachment_max_mb: 1 });
-    const response = await upload(eventId, { bytes: new Uint8Array(10), name: "big.jpg" }, officer.cookie, {}, {
-      "Content-Length": String(5 * 1024 * 1024),
-    });
+    const response = await upload(
+      eventId,
+      { bytes: new Uint8Array(10), name: "big.jpg" },
+      officer.cookie,
+      {},
+      {
+        "Content-Length": String(5 * 1024 * 1024),
+      },
+    );
     expect(response.status).toBe(413);
     expect((await response.json()).error).toBe("The file is larger than 1 MB, the most the agency settings allow.");
   });
 
   it("is refused with the limit stated while it streams, when no length was declared", async () => {
     await ensureAgency(db, { attachment_max_mb: 1 });
-    const response = await upload(eventId, { bytes: new Uint8Array(1024 * 1024 + 10), name: "big.jpg" }, officer.cookie);
+    const response = await upload(
+      eventId,
+      { bytes: new Uint8Array(1024 * 1024 + 10), name: "big.jpg" },
+      officer.cookie,
+    );
     expect(response.status).toBe(413);
     expect((await response.json()).error).toMatch(/larger than 1 MB/);
   });
@@ -221,7 +229,9 @@ describe("who may attach and see attachments", () => {
     expect((await upload(draftId, photo, stranger.cookie)).status).toBe(404);
 
     const listed = await settle(() =>
-      listLoader(routeArgs(getRequest(`/api/events/${eventId}/attachments`, { Cookie: adminCookie }), { id: String(eventId) })),
+      listLoader(
+        routeArgs(getRequest(`/api/events/${eventId}/attachments`, { Cookie: adminCookie }), { id: String(eventId) }),
+      ),
     );
     expect((listed.value as Response).status).toBe(403);
     const anonymous = await settle(() =>
@@ -250,10 +260,14 @@ describe("a removed attachment", () => {
     const row = await db("attachments").where({ id }).first();
 
     await removeAction(
-      routeArgs(formRequest(`/attachments/${id}`, { intent: "remove" }, { Cookie: officer.cookie }), { id: String(id) }),
+      routeArgs(formRequest(`/attachments/${id}`, { intent: "remove" }, { Cookie: officer.cookie }), {
+        id: String(id),
+      }),
     );
     expect((await listOf(eventId, officer.cookie)).attachments.map((item) => item.id)).not.toContain(id);
-    const audit = await db("audit_events").where({ action: "attachment_removed", entity_id: String(eventId) }).first();
+    const audit = await db("audit_events")
+      .where({ action: "attachment_removed", entity_id: String(eventId) })
+      .first();
     expect(JSON.parse(audit.before_json)).toMatchObject({ attachmentId: id, sha256: row.sha256 });
 
     await purgeRemovedAttachments();
@@ -286,7 +300,9 @@ describe("the object store down", () => {
 describe("the sweep of stored files", () => {
   it("lists an object no row names, once it is old enough, and never one a row names", async () => {
     const response = await upload(eventId, { bytes: await photoWithPosition(), name: "kept.jpg" }, officer.cookie);
-    const row = await db("attachments").where({ id: (await response.json()).id }).first();
+    const row = await db("attachments")
+      .where({ id: (await response.json()).id })
+      .first();
     await putObject(`attachments/event-${eventId}/left-by-a-failed-save.jpg`, new Uint8Array([1, 2, 3]), "image/jpeg");
 
     const keys = (await findOrphanObjects(new Date(Date.now() + 60_000))).map((orphan) => orphan.key);

@@ -9,7 +9,10 @@ import { testDatabaseName } from "../support/test-database";
 
 // The demo's sample attachments, seeded into a database of their own with the object-store fake up.
 const name = `${testDatabaseName()}_demo_files`;
-const server = knexFactory({ ...knexConfig, connection: { ...(knexConfig.connection as object), database: undefined } });
+const server = knexFactory({
+  ...knexConfig,
+  connection: { ...(knexConfig.connection as object), database: undefined },
+});
 const knex: Knex = knexFactory({
   ...knexConfig,
   connection: { ...(knexConfig.connection as object), database: name },

@@ -11,7 +11,10 @@ import { testDatabaseName } from "../support/test-database";
 
 const MOVE = "20261203130002_submissions_in_object_store.ts";
 const name = `${testDatabaseName()}_submission_move`;
-const server = knexFactory({ ...knexConfig, connection: { ...(knexConfig.connection as object), database: undefined } });
+const server = knexFactory({
+  ...knexConfig,
+  connection: { ...(knexConfig.connection as object), database: undefined },
+});
 const knex: Knex = knexFactory({
   ...knexConfig,
   connection: { ...(knexConfig.connection as object), database: name },
