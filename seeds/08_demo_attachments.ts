@@ -69,7 +69,7 @@ export async function seed(knex: Knex): Promise<void> {
         const received = path.join(directory, file.name);
         await writeFile(received, await file.bytes());
         const prepared = await prepareFile(received, { usePosition: false });
-        const { storageKey, thumbnailKey } = attachmentKeys(event.id, prepared);
+        const { storageKey, thumbnailKey } = attachmentKeys({ subject: "event", id: event.id }, prepared);
         try {
           await putObjectFile(storageKey, prepared.path, prepared.byteSize, prepared.contentType);
           if (thumbnailKey && prepared.thumbnail) await putObject(thumbnailKey, prepared.thumbnail, "image/webp");

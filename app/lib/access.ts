@@ -301,8 +301,11 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   records: { GET: "records.manage" },
   "records/:id": { GET: "records.manage", POST: "records.manage" },
   "records/:id/files/:fileId": { GET: "records.manage" },
+  "records/:id/attachments/:attachmentId": { GET: "records.manage", POST: "records.manage" },
+  "records/:id/attachments/:attachmentId/thumbnail": { GET: "records.manage" },
   "api/records-requests": { GET: "records.manage" },
   "api/records-requests/:id": { GET: "records.manage" },
+  "api/records-requests/:id/attachments": { GET: "records.manage", POST: "records.manage" },
   "api/*": { GET: "public", POST: "public" },
   "*": { GET: "public", POST: "public" },
 };

@@ -1,9 +1,50 @@
 import { ATTACHMENT_TYPES, contentDisposition, isAttachmentType } from "~/lib/attachment-files";
 import type { SessionUser } from "~/lib/auth.server";
-import { httpError } from "~/lib/http.server";
+import { BodyRefused } from "~/lib/form-data.server";
+import { apiError, clientAddress, httpError } from "~/lib/http.server";
 import { getObjectStream, StorageUnavailableError } from "~/lib/storage.server";
-import type { StoredAttachment } from "./attachments.server";
+import { readAgencySettings } from "./agency-settings.server";
+import {
+  addAttachment,
+  attachmentLimits,
+  listAttachments,
+  type AttachmentOwner,
+  type StoredAttachment,
+} from "./attachments.server";
 import { recordDownload } from "./download-audit.server";
+
+/** The attachments API's list: the files, whether the caller may attach, and the agency's limits. */
+export async function attachmentListResponse(owner: AttachmentOwner, canAttach: boolean): Promise<Response> {
+  const limits = attachmentLimits(await readAgencySettings());
+  return Response.json({
+    attachments: await listAttachments(owner),
+    canAttach,
+    maxFileBytes: limits.maxFileBytes,
+    maxFiles: limits.perEvent,
+  });
+}
+
+/** The attachments API's upload, for a caller the route has checked: 201, or the refusal as JSON. */
+export async function attachmentUploadResponse(
+  request: Request,
+  owner: AttachmentOwner,
+  user: SessionUser,
+): Promise<Response> {
+  if (request.method !== "POST") apiError(405, "Use POST with the file as multipart/form-data.");
+  try {
+    const attachment = await addAttachment(request, owner, user, { clientAddress: clientAddress(request) });
+    return Response.json(attachment, { status: 201 });
+  } catch (error) {
+    if (error instanceof BodyRefused) apiError(error.status, error.message);
+    if (error instanceof StorageUnavailableError) {
+      apiError(
+        503,
+        `The file store is not answering, so this file was not attached. The ${owner.subject === "event" ? "report" : "request"} is saved as it was; try the file again.`,
+      );
+    }
+    throw error;
+  }
+}
 
 /**
  * The bytes of an attachment (or its thumbnail) streamed from the object store, for a person the
@@ -31,8 +72,8 @@ export async function attachmentResponse(
   if (part === "file") {
     await recordDownload(request, user, {
       action: "attachment_downloaded",
-      entityType: "event",
-      entityId: attachment.eventId,
+      entityType: attachment.owner.subject,
+      entityId: attachment.owner.id,
       summary: `Attachment ${attachment.name} downloaded`,
       details: { attachmentId: attachment.id, key, fileName: attachment.name, sha256: attachment.sha256 },
     });

@@ -14,12 +14,27 @@ import { readAgencySettings, type AgencySettings } from "./agency-settings.serve
 import { reportAccessRecord } from "./event-read.server";
 
 /**
- * Files attached to events: received as a stream, checked by content, photos stored without their
+ * Files attached to events and to public-records requests: received as a stream, checked by content, photos stored without their
  * metadata and with a thumbnail, the object written before the row that names it, removal audited
  * and the object kept until the retention setting lets it go.
  */
 
-export const ATTACHMENT_SUBJECT_EVENT = "event";
+/** What a file is attached to: a usage report (event) or a public-records request. */
+export type AttachmentSubject = "event" | "records_request";
+export type AttachmentOwner = { subject: AttachmentSubject; id: number };
+
+/** Per subject: the start of its objects' keys, the audit entity, and where a file is served. */
+const SUBJECTS: Record<
+  AttachmentSubject,
+  { keyPrefix: string; entityType: string; url: (ownerId: number, attachmentId: number) => string }
+> = {
+  event: { keyPrefix: "event", entityType: "event", url: (_owner, id) => `/attachments/${id}` },
+  records_request: {
+    keyPrefix: "records-request",
+    entityType: "records_request",
+    url: (owner, id) => `/records/${owner}/attachments/${id}`,
+  },
+};
 
 export type AttachmentView = {
   id: number;
@@ -29,6 +44,8 @@ export type AttachmentView = {
   size: number;
   url: string;
   thumbnailUrl: string | null;
+  /** Where `intent=remove` is posted (the file's own address). */
+  removeUrl: string;
   uploadedAt: string;
   uploadedBy: string | null;
   /** The photo's own position, kept only when the officer chose to use it. */
@@ -36,7 +53,7 @@ export type AttachmentView = {
 };
 
 export type StoredAttachment = AttachmentView & {
-  eventId: number;
+  owner: AttachmentOwner;
   storageKey: string;
   thumbnailKey: string | null;
   sha256: string;
@@ -45,6 +62,8 @@ export type StoredAttachment = AttachmentView & {
 
 function storedOf(row: Record<string, unknown>): StoredAttachment {
   const id = Number(row.id);
+  const owner = { subject: row.subject as AttachmentSubject, id: Number(row.subject_id) };
+  const url = SUBJECTS[owner.subject].url(owner.id, id);
   const latitude = decimalOrNull(row.photo_latitude);
   const longitude = decimalOrNull(row.photo_longitude);
   return {
@@ -53,12 +72,13 @@ function storedOf(row: Record<string, unknown>): StoredAttachment {
     name: row.file_name as string,
     contentType: row.content_type as string,
     size: Number(row.byte_size),
-    url: `/attachments/${id}`,
-    thumbnailUrl: row.thumbnail_key ? `/attachments/${id}/thumbnail` : null,
+    url,
+    thumbnailUrl: row.thumbnail_key ? `${url}/thumbnail` : null,
+    removeUrl: url,
     uploadedAt: new Date(row.uploaded_at as string).toISOString(),
     uploadedBy: (row.uploader as string | null) ?? null,
     position: latitude !== null && longitude !== null ? { latitude, longitude } : null,
-    eventId: Number(row.subject_id),
+    owner,
     storageKey: row.storage_key as string,
     thumbnailKey: (row.thumbnail_key as string | null) ?? null,
     sha256: row.sha256 as string,
@@ -67,8 +87,9 @@ function storedOf(row: Record<string, unknown>): StoredAttachment {
 }
 
 export function viewOf(attachment: StoredAttachment): AttachmentView {
-  const { id, kind, name, contentType, size, url, thumbnailUrl, uploadedAt, uploadedBy, position } = attachment;
-  return { id, kind, name, contentType, size, url, thumbnailUrl, uploadedAt, uploadedBy, position };
+  const { id, kind, name, contentType, size, url, thumbnailUrl, removeUrl, uploadedAt, uploadedBy, position } =
+    attachment;
+  return { id, kind, name, contentType, size, url, thumbnailUrl, removeUrl, uploadedAt, uploadedBy, position };
 }
 
 function attachmentsQuery() {
@@ -77,24 +98,38 @@ function attachmentsQuery() {
     .select("attachments.*", "users.name as uploader");
 }
 
-/** The attachments an event shows, oldest first; removed ones are left out. */
-export async function listEventAttachments(eventId: number): Promise<AttachmentView[]> {
+/** The attachments an event or request shows, oldest first; removed ones are left out. */
+export async function listAttachments(owner: AttachmentOwner): Promise<AttachmentView[]> {
   const rows = await attachmentsQuery()
-    .where({ "attachments.subject": ATTACHMENT_SUBJECT_EVENT, "attachments.subject_id": eventId })
+    .where({ "attachments.subject": owner.subject, "attachments.subject_id": owner.id })
     .whereNull("attachments.removed_at")
     .orderBy("attachments.id");
   return rows.map((row) => viewOf(storedOf(row)));
 }
 
-/** One attachment that is not removed, with the access record of its event; null when there is none. */
-export async function findAttachment(
+async function findOf(owner: Partial<AttachmentOwner> & { subject: AttachmentSubject }, id: number) {
+  const row = await attachmentsQuery()
+    .where({ "attachments.id": id, "attachments.subject": owner.subject })
+    .modify((query) => {
+      if (owner.id !== undefined) query.where("attachments.subject_id", owner.id);
+    })
+    .whereNull("attachments.removed_at")
+    .first();
+  return row ? storedOf(row) : null;
+}
+
+/** One event's attachment that is not removed, with its event's access record; null when there is none. */
+export async function findEventAttachment(
   id: number,
 ): Promise<{ attachment: StoredAttachment; report: ReportRecord } | null> {
-  const row = await attachmentsQuery().where("attachments.id", id).whereNull("attachments.removed_at").first();
-  if (!row) return null;
-  const attachment = storedOf(row);
-  const report = await reportAccessRecord(attachment.eventId);
-  return report ? { attachment, report } : null;
+  const attachment = await findOf({ subject: "event" }, id);
+  const report = attachment ? await reportAccessRecord(attachment.owner.id) : null;
+  return attachment && report ? { attachment, report } : null;
+}
+
+/** One attachment of the given records request that is not removed, or null. */
+export function findRequestAttachment(requestId: number, id: number): Promise<StoredAttachment | null> {
+  return findOf({ subject: "records_request", id: requestId }, id);
 }
 
 export type AttachmentLimits = {
@@ -111,17 +146,17 @@ export function attachmentLimits(settings: Pick<AgencySettings, "attachmentMaxMb
   } satisfies AttachmentLimits;
 }
 
-async function activeCount(eventId: number): Promise<number> {
+async function activeCount(owner: AttachmentOwner): Promise<number> {
   const [row] = await db("attachments")
-    .where({ subject: ATTACHMENT_SUBJECT_EVENT, subject_id: eventId })
+    .where({ subject: owner.subject, subject_id: owner.id })
     .whereNull("removed_at")
     .count({ n: "*" });
   return Number(row.n);
 }
 
-/** The keys of a stored attachment and its thumbnail: made here, from the event and a random id. */
-export function attachmentKeys(eventId: number, file: Pick<PreparedFile, "extension" | "thumbnail">) {
-  const prefix = `attachments/event-${eventId}/${randomUUID()}`;
+/** The keys of a stored attachment and its thumbnail: made here, from its owner and a random id. */
+export function attachmentKeys(owner: AttachmentOwner, file: Pick<PreparedFile, "extension" | "thumbnail">) {
+  const prefix = `attachments/${SUBJECTS[owner.subject].keyPrefix}-${owner.id}/${randomUUID()}`;
   return {
     storageKey: `${prefix}.${file.extension}`,
     thumbnailKey: file.thumbnail ? `${prefix}-thumbnail.webp` : null,
@@ -143,9 +178,9 @@ export type AddAttachmentOptions = { clientAddress?: string | null };
  * its audit entry follow in one transaction, and a failed save removes the objects again. Throws
  * `BodyRefused` for a refused file and `StorageUnavailableError` when the object store is down.
  */
-export async function addEventAttachment(
+export async function addAttachment(
   request: Request,
-  eventId: number,
+  owner: AttachmentOwner,
   actor: SessionUser,
   options: AddAttachmentOptions = {},
 ): Promise<AttachmentView> {
@@ -157,10 +192,11 @@ export async function addEventAttachment(
     fields: ["kind", "usePosition"],
   };
   refuseEarly(request, uploadLimits);
-  if ((await activeCount(eventId)) >= limits.perEvent) {
+  if ((await activeCount(owner)) >= limits.perEvent) {
+    const what = owner.subject === "event" ? "report" : "request";
     throw new BodyRefused(
       413,
-      `This event already has ${limits.perEvent} files, the most the agency settings allow. Remove one first.`,
+      `This ${what} already has ${limits.perEvent} files, the most the agency settings allow. Remove one first.`,
     );
   }
   const upload = await receiveUpload(request, uploadLimits);
@@ -177,7 +213,7 @@ export async function addEventAttachment(
     }
     const { contentType, byteSize, sha256, thumbnail, position } = prepared;
     const kind = kindOf(upload.fields.kind, prepared.image);
-    const { storageKey, thumbnailKey } = attachmentKeys(eventId, prepared);
+    const { storageKey, thumbnailKey } = attachmentKeys(owner, prepared);
     const name = displayFileName(upload.file.name, `attachment.${prepared.extension}`);
 
     await putObjectFile(storageKey, prepared.path, byteSize, contentType);
@@ -188,8 +224,8 @@ export async function addEventAttachment(
     }
     const rowId = await db.transaction(async (trx) => {
       const [insertedId] = await trx("attachments").insert({
-        subject: ATTACHMENT_SUBJECT_EVENT,
-        subject_id: eventId,
+        subject: owner.subject,
+        subject_id: owner.id,
         kind,
         file_name: name,
         content_type: contentType,
@@ -206,8 +242,8 @@ export async function addEventAttachment(
           actorUserId: actor.id,
           actorLabel: actor.email,
           action: "attachment_added",
-          entityType: "event",
-          entityId: eventId,
+          entityType: SUBJECTS[owner.subject].entityType,
+          entityId: owner.id,
           summary: `Attached ${name}`,
           after: { attachmentId: insertedId, kind, name, contentType, byteSize, sha256, storageKey, position },
           clientAddress: options.clientAddress ?? null,
@@ -246,8 +282,8 @@ export async function removeAttachment(
         actorUserId: actor.id,
         actorLabel: actor.email,
         action: "attachment_removed",
-        entityType: "event",
-        entityId: attachment.eventId,
+        entityType: SUBJECTS[attachment.owner.subject].entityType,
+        entityId: attachment.owner.id,
         summary: `Removed ${attachment.name}`,
         before: {
           attachmentId: attachment.id,
@@ -292,7 +328,7 @@ export async function purgeRemovedAttachments(now = new Date()): Promise<{ purge
       await recordAudit(
         {
           action: "attachment_purged",
-          entityType: "event",
+          entityType: SUBJECTS[row.subject as AttachmentSubject].entityType,
           entityId: row.subject_id,
           summary: `File of removed attachment ${row.file_name} deleted after ${attachmentRetentionDays} days`,
           before: { attachmentId: row.id, storageKey: row.storage_key, sha256: row.sha256 },

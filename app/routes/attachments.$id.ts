@@ -5,12 +5,12 @@ import { authorize, requireCapability } from "~/lib/access.server";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError, invariantResponse, requireRecordId } from "~/lib/http.server";
 import { attachmentResponse } from "~/models/attachment-download.server";
-import { findAttachment, removeAttachment } from "~/models/attachments.server";
+import { findEventAttachment, removeAttachment } from "~/models/attachments.server";
 
 /** The stored file, after the role check on its event. */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireCapability(request, "report.read");
-  const found = await findAttachment(requireRecordId(request, params.id, "No such attachment."));
+  const found = await findEventAttachment(requireRecordId(request, params.id, "No such attachment."));
   invariantResponse(found, "No such attachment.");
   authorize(request, user, "report.read", found.report);
   return attachmentResponse(request, user, found.attachment, "file");
@@ -21,7 +21,7 @@ const RemoveSchema = z.object({ intent: z.literal("remove") });
 /** Removes the attachment from its event (audited; the file is kept until the retention setting). */
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireCapability(request, "report.attach");
-  const found = await findAttachment(requireRecordId(request, params.id, "No such attachment."));
+  const found = await findEventAttachment(requireRecordId(request, params.id, "No such attachment."));
   invariantResponse(found, "No such attachment.");
   authorize(request, user, "report.attach", found.report);
   const form = await readFormData(request, RemoveSchema);

@@ -3,7 +3,7 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, redirect } from "react-router";
 import type { z } from "zod";
 import type { Route } from "./+types/events.$id";
-import { EventAttachments } from "~/components/event-attachments";
+import { EventAttachments } from "~/components/attachments-panel";
 import { ErrorList, FormErrors } from "~/components/form-fields";
 import { ReleaseNotifications } from "~/components/release-notifications";
 import { ReportSummary } from "~/components/report-summary";

@@ -6,6 +6,15 @@ import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
 import { getObject, objectExists, putObject } from "~/lib/storage.server";
 import { findOrphanObjects, purgeRemovedAttachments } from "~/models/attachments.server";
+import { createRecordsRequest } from "~/models/records-request.server";
+import {
+  action as requestUploadAction,
+  loader as requestListLoader,
+} from "~/routes/api.records-requests.$id.attachments";
+import {
+  action as requestRemoveAction,
+  loader as requestFileLoader,
+} from "~/routes/records.$id.attachments.$attachmentId";
 import { action as uploadAction, loader as listLoader } from "~/routes/api.events.$id.attachments";
 import { action as removeAction, loader as fileLoader } from "~/routes/attachments.$id";
 import { loader as thumbnailLoader } from "~/routes/attachments.$id.thumbnail";
@@ -30,7 +39,7 @@ async function person(roles: Parameters<typeof makeUser>[0], stationId: number |
 }
 
 function uploadRequest(
-  id: number,
+  id: number | string,
   file: { bytes: Uint8Array; name: string; type?: string },
   cookie: string,
   fields: Record<string, string> = {},
@@ -39,7 +48,8 @@ function uploadRequest(
   const form = new FormData();
   for (const [key, value] of Object.entries(fields)) form.append(key, value);
   form.append("file", new Blob([new Uint8Array(file.bytes)], { type: file.type ?? "image/jpeg" }), file.name);
-  return new Request(`${ORIGIN}/api/events/${id}/attachments`, {
+  const path = typeof id === "number" ? `/api/events/${id}/attachments` : id;
+  return new Request(`${ORIGIN}${path}`, {
     method: "POST",
     body: form,
     headers: { Origin: ORIGIN, Cookie: cookie, ...headers },
@@ -311,5 +321,63 @@ describe("the sweep of stored files", () => {
     expect(keys).not.toContain(row.thumbnail_key);
     // A young object may belong to a save still running.
     expect(await findOrphanObjects(new Date(Date.now() - 60_000))).toEqual([]);
+  });
+});
+
+describe("documents on a public-records request", () => {
+  it("are attached, listed, served and removed by the records clerk, and refused to other roles", async () => {
+    const clerk = await person(["records"], null);
+    const { id: requestId } = await createRecordsRequest({
+      name: "Attachment Requester (test)",
+      email: "attachment-requester@test.example",
+      description: "Photos of the creek release (test)",
+    });
+    const path = `/api/records-requests/${requestId}/attachments`;
+    const pdf = {
+      bytes: demoDocumentPdf("Signed release letter", []),
+      name: "release-letter.pdf",
+      type: "application/pdf",
+    };
+    const send = (cookie: string) =>
+      settle(() => requestUploadAction(routeArgs(uploadRequest(path, pdf, cookie), { id: String(requestId) })));
+
+    expect(((await send(officer.cookie)).value as Response).status).toBe(403);
+    const created = (await send(clerk.cookie)).value as Response;
+    expect(created.status).toBe(201);
+    const attachment = await created.json();
+    expect(attachment).toMatchObject({
+      kind: "other",
+      name: "release-letter.pdf",
+      url: `/records/${requestId}/attachments/${attachment.id}`,
+    });
+    const row = await db("attachments").where({ id: attachment.id }).first();
+    expect(row.storage_key).toMatch(new RegExp(`^attachments/records-request-${requestId}/`));
+
+    const list = (await requestListLoader(
+      routeArgs(getRequest(path, { Cookie: clerk.cookie }), { id: String(requestId) }),
+    )) as Response;
+    expect((await list.json()).attachments.map((item: { id: number }) => item.id)).toEqual([attachment.id]);
+    const params = { id: String(requestId), attachmentId: String(attachment.id) };
+    const file = (await requestFileLoader(
+      routeArgs(getRequest(attachment.url, { Cookie: clerk.cookie }), params),
+    )) as Response;
+    expect(new Uint8Array(await file.arrayBuffer())).toEqual(pdf.bytes);
+    // An event's address does not serve a request's file, nor the other way round.
+    const viaEvents = await settle(() =>
+      fileLoader(
+        routeArgs(getRequest(`/attachments/${attachment.id}`, { Cookie: officer.cookie }), {
+          id: String(attachment.id),
+        }),
+      ),
+    );
+    expect((viaEvents.value as { init: { status: number } }).init.status).toBe(404);
+
+    await requestRemoveAction(
+      routeArgs(formRequest(attachment.url, { intent: "remove" }, { Cookie: clerk.cookie }), params),
+    );
+    const audit = await db("audit_events")
+      .where({ action: "attachment_removed", entity_type: "records_request", entity_id: String(requestId) })
+      .first();
+    expect(audit).toBeTruthy();
   });
 });

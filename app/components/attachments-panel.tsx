@@ -11,6 +11,7 @@ type Attachment = {
   size: number;
   url: string;
   thumbnailUrl: string | null;
+  removeUrl: string;
   uploadedAt: string;
   uploadedBy: string | null;
   position: { latitude: number; longitude: number } | null;
@@ -30,7 +31,7 @@ type Upload = {
 
 /** Sends one file with XMLHttpRequest, whose upload events give the progress that fetch cannot. */
 function sendFile(
-  eventId: number,
+  uploadUrl: string,
   upload: Upload,
   onProgress: (sent: number) => void,
 ): Promise<{ ok: true } | { ok: false; message: string }> {
@@ -40,7 +41,7 @@ function sendFile(
     if (upload.usePosition) body.append("usePosition", "true");
     body.append("file", upload.file, upload.file.name);
     const request = new XMLHttpRequest();
-    request.open("POST", `/api/events/${eventId}/attachments`);
+    request.open("POST", uploadUrl);
     request.responseType = "json";
     request.upload.onprogress = (event) => onProgress(event.loaded);
     request.onload = () => {
@@ -53,15 +54,25 @@ function sendFile(
   });
 }
 
-/**
- * The files attached to an event: thumbnails of photos, links to documents, and (for those who may
- * attach) a picker for several files at once, each sent on its own with its progress shown and a
- * retry when it fails. Loads and sends through the event's attachments API.
- */
+/** The files attached to a usage report, through the event's attachments API. */
 export function EventAttachments({ eventId }: { eventId: number }) {
+  return <AttachmentsPanel apiUrl={`/api/events/${eventId}/attachments`} owner="report" />;
+}
+
+/** The documents attached to a public-records request, through the request's attachments API. */
+export function RequestAttachments({ requestId }: { requestId: number }) {
+  return <AttachmentsPanel apiUrl={`/api/records-requests/${requestId}/attachments`} owner="request" />;
+}
+
+/**
+ * Attached files: thumbnails of photos, links to documents, and (for those who may attach) a picker
+ * for several files at once, each sent on its own with its progress shown and a retry when it fails.
+ * `apiUrl` lists the files (GET) and takes one (POST).
+ */
+function AttachmentsPanel({ apiUrl, owner }: { apiUrl: string; owner: "report" | "request" }) {
   const list = useFetcher<AttachmentList>();
   const remove = useFetcher();
-  const listUrl = `/api/events/${eventId}/attachments`;
+  const listUrl = apiUrl;
   const [uploads, setUploads] = useState<Upload[]>([]);
   const [kind, setKind] = useState<AttachmentKind | "">("");
   const [usePosition, setUsePosition] = useState(false);
@@ -87,7 +98,7 @@ export function EventAttachments({ eventId }: { eventId: number }) {
   async function sendEach(entries: Upload[]) {
     for (const entry of entries) {
       update(entry.key, { state: "sending", sent: 0, message: undefined });
-      const result = await sendFile(eventId, entry, (sent) => update(entry.key, { sent }));
+      const result = await sendFile(apiUrl, entry, (sent) => update(entry.key, { sent }));
       if (result.ok) update(entry.key, { state: "done", sent: entry.file.size });
       else update(entry.key, { state: "failed", message: result.message });
       if (result.ok) void load(listUrl);
@@ -118,7 +129,7 @@ export function EventAttachments({ eventId }: { eventId: number }) {
       </h2>
       {data ? (
         attachments.length === 0 ? (
-          <p className="mt-2 text-sm text-slate-ft">No files are attached to this report.</p>
+          <p className="mt-2 text-sm text-slate-ft">No files are attached to this {owner}.</p>
         ) : (
           <ul className="mt-3 grid gap-3 sm:grid-cols-2 lg:grid-cols-3" aria-label="Attached files">
             {attachments.map((attachment) => (
@@ -148,7 +159,7 @@ export function EventAttachments({ eventId }: { eventId: number }) {
                   </p>
                 ) : null}
                 {data.canAttach ? (
-                  <remove.Form method="post" action={`/attachments/${attachment.id}`} className="mt-1">
+                  <remove.Form method="post" action={attachment.removeUrl} className="mt-1">
                     <input type="hidden" name="intent" value="remove" />
                     <button type="submit" className="text-sm underline" aria-label={`Remove ${attachment.name}`}>
                       Remove
@@ -203,9 +214,11 @@ export function EventAttachments({ eventId }: { eventId: number }) {
               onChange={(event) => choose(event.target.files)}
             />
             <p id="attachment-files-hint" className="mt-1 text-sm text-slate-ft">
-              {ATTACHMENT_TYPES_SENTENCE}, at most {formatBytes(data.maxFileBytes)} each and {data.maxFiles} on a
-              report. Photos are stored without their location and camera data unless you keep the position; they show
-              where the runoff went and may show people: attach what the record needs.
+              {ATTACHMENT_TYPES_SENTENCE}, at most {formatBytes(data.maxFileBytes)} each and {data.maxFiles} on a{" "}
+              {owner}. Photos are stored without their location and camera data unless you keep the position.
+              {owner === "report"
+                ? " They show where the runoff went and may show people: attach what the record needs."
+                : ""}
             </p>
           </div>
           {uploads.length > 0 ? (
