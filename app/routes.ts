@@ -52,10 +52,7 @@ export default [
   route("records/:id", "routes/records.$id.tsx"),
   route("records/:id/files/:fileId", "routes/records.$id.files.$fileId.ts"),
   route("records/:id/attachments/:attachmentId", "routes/records.$id.attachments.$attachmentId.ts"),
-  route(
-    "records/:id/attachments/:attachmentId/thumbnail",
-    "routes/records.$id.attachments.$attachmentId.thumbnail.ts",
-  ),
+  route("records/:id/attachments/:attachmentId/thumbnail", "routes/records.$id.attachments.$attachmentId.thumbnail.ts"),
   route("api/records-requests", "routes/api.records-requests.ts"),
   route("api/records-requests/:id", "routes/api.records-requests.$id.ts"),
   route("api/records-requests/:id/attachments", "routes/api.records-requests.$id.attachments.ts"),
