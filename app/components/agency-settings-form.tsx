@@ -113,6 +113,10 @@ function CurrentValues({ settings }: { settings: AgencySettingsView }) {
     ["Closure days", settings.recordsClosureDays.join(", ") || "none"],
     ["Withholding rule", settings.recordsWithholdingRule],
     ["Release alerts to the chief", settings.releaseAlertsToChief ? "Yes" : "No"],
+    [
+      "Attachments",
+      `at most ${settings.attachmentMaxMb} MB a file and ${settings.attachmentsPerEvent} files a report; removed files kept ${settings.attachmentRetentionDays} days`,
+    ],
   ];
   return (
     <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
@@ -166,6 +170,9 @@ export function AgencySettingsForm({
       recordsOfficeCloses: settings.recordsOfficeCloses,
       recordsClosureDays: settings.recordsClosureDays.join("\n"),
       recordsWithholdingRule: settings.recordsWithholdingRule,
+      attachmentMaxMb: String(settings.attachmentMaxMb),
+      attachmentsPerEvent: String(settings.attachmentsPerEvent),
+      attachmentRetentionDays: String(settings.attachmentRetentionDays),
     },
     onValidate: ({ formData }) => parseWithZod(formData, { schema: AgencySettingsSchema }),
   });
@@ -422,6 +429,30 @@ export function AgencySettingsForm({
             A new rule, closing time or closure days apply to requests received after the save. Requests already
             received keep their due dates; the clerk moves one with an extension and its reason.
           </p>
+        </section>
+
+        <section className="card max-w-3xl space-y-4" aria-labelledby="attachments-settings-title">
+          <h2 id="attachments-settings-title" className="text-lg font-semibold">
+            Attached files
+          </h2>
+          <NumberField
+            label="Largest attached file"
+            field={fields.attachmentMaxMb}
+            unit="MB"
+            hint="Default 25 MB: room for a phone photo or a scanned manifest (common practice, no source). At most 100 MB; a larger file is refused before it is read, with this limit named."
+          />
+          <NumberField
+            label="Most files on one report"
+            field={fields.attachmentsPerEvent}
+            unit="files"
+            hint="Default 40 (common practice, no source)."
+          />
+          <NumberField
+            label="Days a removed file is kept"
+            field={fields.attachmentRetentionDays}
+            unit="days"
+            hint="A removed attachment leaves the report at once; its file stays in the object store this long, then the clean-up deletes it. Default 1,095 days (3 years, common practice, no source): set it to your records-retention schedule."
+          />
         </section>
       </fieldset>
       {readOnly ? (

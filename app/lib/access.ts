@@ -61,6 +61,11 @@ export const REPORT_RULES = {
     says: "filed, returned or accepted reports of their own station",
     holds: (principal, report) => report.status !== "draft" && sameStation(principal, report),
   },
+  ownOrOwnStationFiled: {
+    says: "their own reports, and filed, returned or accepted ones of their own station",
+    holds: (principal, report) =>
+      report.createdBy === principal.id || (report.status !== "draft" && sameStation(principal, report)),
+  },
   acceptedOfOwnStation: {
     says: "accepted reports of their own station",
     holds: (principal, report) => report.status === "accepted" && sameStation(principal, report),
@@ -124,6 +129,14 @@ export const CAPABILITIES = {
     does: "record who was notified of a release, when, and the case number",
     grants: [
       { roles: ["officer"], rule: REPORT_RULES.filedOfOwnStation },
+      { roles: ["environmental", "chief"], rule: REPORT_RULES.notADraftOfOthers },
+    ],
+    hiddenUnless: "report.read",
+  }),
+  "report.attach": report({
+    does: "attach photos, disposal manifests, lab results and test printouts to a report, and remove them",
+    grants: [
+      { roles: ["officer"], rule: REPORT_RULES.ownOrOwnStationFiled },
       { roles: ["environmental", "chief"], rule: REPORT_RULES.notADraftOfOthers },
     ],
     hiddenUnless: "report.read",
@@ -279,10 +292,13 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "events/:id/revisions/:revision": { GET: "report.read" },
   "events/:id/notifications": { GET: "report.notify", POST: "report.notify" },
   "events/:id/report.pdf": { GET: "report.read" },
+  "attachments/:id": { GET: "report.read", POST: "report.attach" },
+  "attachments/:id/thumbnail": { GET: "report.read" },
   "api/totals": { GET: "signed-in", POST: "signed-in" },
   "api/events": { GET: "report.read", POST: "report.create" },
   // PUT: the record's status decides between report.edit and report.revise (`changeCapabilityFor`).
   "api/events/:id": { GET: "report.read", POST: "report.edit" },
+  "api/events/:id/attachments": { GET: "report.read", POST: "report.attach" },
   map: { GET: "usage.map" },
   geography: { GET: "geography.edit", POST: "geography.edit" },
   "geography/layers/:kind/versions/:versionId": { GET: "geography.read" },
@@ -315,8 +331,11 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   records: { GET: "records.manage" },
   "records/:id": { GET: "records.manage", POST: "records.manage" },
   "records/:id/files/:fileId": { GET: "records.manage" },
+  "records/:id/attachments/:attachmentId": { GET: "records.manage", POST: "records.manage" },
+  "records/:id/attachments/:attachmentId/thumbnail": { GET: "records.manage" },
   "api/records-requests": { GET: "records.manage" },
   "api/records-requests/:id": { GET: "records.manage" },
+  "api/records-requests/:id/attachments": { GET: "records.manage", POST: "records.manage" },
   "api/*": { GET: "public", POST: "public" },
   "*": { GET: "public", POST: "public" },
 };

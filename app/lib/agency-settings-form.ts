@@ -17,6 +17,18 @@ export const DEFAULT_PFAS_REPORTABLE_LB = 1;
 /** 30 %: from memory, low confidence — no published figure for Class A apparatus systems was found. */
 export const DEFAULT_CLASS_A_ACCURACY_SHARE = 0.3;
 
+/** 25 MB per attached file: room for a phone photo or a scanned manifest (common practice, no source). */
+export const DEFAULT_ATTACHMENT_MAX_MB = 25;
+/** The largest per-file limit the settings accept; the server's body ceiling for uploads follows it. */
+export const ATTACHMENT_MAX_MB_CEILING = 100;
+/** 40 files on one event (common practice, no source). */
+export const DEFAULT_ATTACHMENTS_PER_EVENT = 40;
+/**
+ * 1,095 days (3 years) before a removed attachment's file may be deleted from the store: a common
+ * records-retention floor (common practice, no source); set it to the agency's retention schedule.
+ */
+export const DEFAULT_ATTACHMENT_RETENTION_DAYS = 1095;
+
 export const DISPLAY_UNITS = ["us", "metric"] as const;
 export const DISPLAY_UNIT_LABELS: Record<(typeof DISPLAY_UNITS)[number], string> = {
   us: "US customary (gallons, feet) first",
@@ -138,6 +150,25 @@ export const AgencySettingsSchema = z.object({
     .gt(0, "The band must be more than 0 %.")
     .max(100, "At most 100 %.")
     .refine((value) => decimals(value, 2), "At most two decimals."),
+  // Optional, like the prefix: a form without the attachment fields keeps the stored limits.
+  attachmentMaxMb: z
+    .number({ error: "Give the largest file in MB, as a whole number." })
+    .int("A whole number of MB.")
+    .min(1, "At least 1 MB.")
+    .max(ATTACHMENT_MAX_MB_CEILING, `At most ${ATTACHMENT_MAX_MB_CEILING} MB.`)
+    .optional(),
+  attachmentsPerEvent: z
+    .number({ error: "Give the most files on one event, as a whole number." })
+    .int("A whole number.")
+    .min(1, "At least 1.")
+    .max(500, "At most 500.")
+    .optional(),
+  attachmentRetentionDays: z
+    .number({ error: "Give the days a removed file is kept, as a whole number." })
+    .int("A whole number of days.")
+    .min(0, "At least 0 days.")
+    .max(36_500, "At most 36,500 days (100 years).")
+    .optional(),
   reportRecipients: recipientList("report recipients"),
   releaseAlertRecipients: recipientList("release alert recipients"),
   recordsDueRule: z
@@ -198,6 +229,10 @@ export type AgencySettings = {
   recordsClosureDays: string[];
   /** The rule the cover letter of a release package names for what is withheld. */
   recordsWithholdingRule: string;
+  /** Attachments: the largest file, the most files on one event, and days a removed file is kept. */
+  attachmentMaxMb: number;
+  attachmentsPerEvent: number;
+  attachmentRetentionDays: number;
   updatedAt: string | null;
   /** A fingerprint of the stored row: a save names the version it started from. */
   version: string;

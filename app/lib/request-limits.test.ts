@@ -1,5 +1,12 @@
 import { describe, expect, it } from "vitest";
-import { FORM_BODY_MAX_BYTES, JSON_BODY_MAX_BYTES, requestBodyLimit, UPLOAD_BODY_MAX_BYTES } from "./request-limits";
+import { ATTACHMENT_MAX_MB_CEILING } from "./agency-settings-form";
+import {
+  ATTACHMENT_BODY_CEILING_BYTES,
+  FORM_BODY_MAX_BYTES,
+  JSON_BODY_MAX_BYTES,
+  requestBodyLimit,
+  UPLOAD_BODY_MAX_BYTES,
+} from "./request-limits";
 import { SAFETY_SHEET_MAX_BYTES } from "./catalogue/product-form";
 import { MAX_LAYER_BYTES } from "./geo/layers";
 
@@ -11,6 +18,14 @@ describe("the body limit of each route", () => {
     expect(requestBodyLimit("/geography.data")).toBe(UPLOAD_BODY_MAX_BYTES);
     expect(requestBodyLimit("/products/12.data")).toBe(UPLOAD_BODY_MAX_BYTES);
     expect(UPLOAD_BODY_MAX_BYTES).toBeGreaterThan(Math.max(SAFETY_SHEET_MAX_BYTES, MAX_LAYER_BYTES));
+  });
+
+  it("lets an attachment upload reach the route, which holds it to the agency's own setting", () => {
+    expect(requestBodyLimit("/api/events/12/attachments")).toBe(ATTACHMENT_BODY_CEILING_BYTES);
+    expect(ATTACHMENT_BODY_CEILING_BYTES).toBeGreaterThan(ATTACHMENT_MAX_MB_CEILING * 1024 * 1024);
+    expect(requestBodyLimit("/api/events/12/attachments/3")).toBe(JSON_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/api/events/12")).toBe(JSON_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/attachments/3")).toBe(FORM_BODY_MAX_BYTES);
   });
 
   it("holds every other form and the JSON API to 1 MB", () => {

@@ -4,6 +4,8 @@
  * (`form-data.server.ts`) count what they read against the same numbers.
  */
 
+import { ATTACHMENT_MAX_MB_CEILING } from "./agency-settings-form";
+
 const MEGABYTE = 1024 * 1024;
 
 /** A form without files: the largest valid usage report (200 discharges) is about 60 kB. */
@@ -19,6 +21,14 @@ export const UPLOAD_FILE_MAX_BYTES = 10 * MEGABYTE;
 export const UPLOAD_BODY_MAX_BYTES = UPLOAD_FILE_MAX_BYTES + 256 * 1024;
 
 /**
+ * An attachment upload (`POST /api/events/:id/attachments`, `/api/records-requests/:id/attachments`): the largest file the agency settings
+ * can allow plus framing. The route itself refuses a body past the agency's own setting before it
+ * reads it, and counts the file's bytes against that setting while it streams.
+ */
+export const ATTACHMENT_BODY_CEILING_BYTES = ATTACHMENT_MAX_MB_CEILING * MEGABYTE + 256 * 1024;
+const ATTACHMENT_PATH = /^\/api\/(events|records-requests)\/[^/]+\/attachments\/?$/;
+
+/**
  * The pages whose forms carry a file, as the browser posts them (`/geography`, or `/geography.data`
  * when React Router submits in the page); every other route takes at most `FORM_BODY_MAX_BYTES`.
  */
@@ -26,6 +36,7 @@ const UPLOAD_PATHS = [/^\/products\/[^/.]+(\.data)?\/?$/, /^\/geography(\.data)?
 
 /** The largest body the server accepts for a path. */
 export function requestBodyLimit(pathname: string): number {
+  if (ATTACHMENT_PATH.test(pathname)) return ATTACHMENT_BODY_CEILING_BYTES;
   if (UPLOAD_PATHS.some((pattern) => pattern.test(pathname))) return UPLOAD_BODY_MAX_BYTES;
   if (pathname.startsWith("/api/")) return JSON_BODY_MAX_BYTES;
   return FORM_BODY_MAX_BYTES;

@@ -1,5 +1,8 @@
 import { createHash } from "node:crypto";
 import {
+  DEFAULT_ATTACHMENT_MAX_MB,
+  DEFAULT_ATTACHMENT_RETENTION_DAYS,
+  DEFAULT_ATTACHMENTS_PER_EVENT,
   DEFAULT_CLASS_A_ACCURACY_SHARE,
   DEFAULT_DRAWDOWN_TOLERANCE_SHARE,
   DEFAULT_PFAS_REPORTABLE_LB,
@@ -60,6 +63,9 @@ function settingsFrom(row: SettingsRow): AgencySettings {
       typeof row?.records_withholding_rule === "string" && row.records_withholding_rule
         ? row.records_withholding_rule
         : "the exemptions of the state's public-records law (set the rule's name in the agency settings)",
+    attachmentMaxMb: number(row?.attachment_max_mb, DEFAULT_ATTACHMENT_MAX_MB),
+    attachmentsPerEvent: number(row?.attachments_per_event, DEFAULT_ATTACHMENTS_PER_EVENT),
+    attachmentRetentionDays: number(row?.attachment_retention_days, DEFAULT_ATTACHMENT_RETENTION_DAYS),
     updatedAt: row?.updated_at instanceof Date ? row.updated_at.toISOString() : null,
     version: versionOf(row),
   };

@@ -28,6 +28,9 @@ function auditedValues(settings: AuditedSettings): AuditedSettings {
     recordsClosureDays: settings.recordsClosureDays,
     recordsWithholdingRule: settings.recordsWithholdingRule,
     releaseAlertsToChief: settings.releaseAlertsToChief,
+    attachmentMaxMb: settings.attachmentMaxMb,
+    attachmentsPerEvent: settings.attachmentsPerEvent,
+    attachmentRetentionDays: settings.attachmentRetentionDays,
   };
 }
 
@@ -70,9 +73,15 @@ export async function saveAgencySettings(
       records_closure_days: input.recordsClosureDays.join("\n"),
       records_withholding_rule: input.recordsWithholdingRule,
       release_alerts_to_chief: input.releaseAlertsToChief,
+      attachment_max_mb: input.attachmentMaxMb ?? before.attachmentMaxMb,
+      attachments_per_event: input.attachmentsPerEvent ?? before.attachmentsPerEvent,
+      attachment_retention_days: input.attachmentRetentionDays ?? before.attachmentRetentionDays,
     };
     const afterValues = auditedValues({
       ...input,
+      attachmentMaxMb: values.attachment_max_mb,
+      attachmentsPerEvent: values.attachments_per_event,
+      attachmentRetentionDays: values.attachment_retention_days,
       eventNumberPrefix: values.event_number_prefix,
       drawdownToleranceShare: values.drawdown_tolerance_share,
       classAAccuracyShare: values.class_a_accuracy_share,

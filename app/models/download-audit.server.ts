@@ -9,6 +9,7 @@ export type DownloadAction =
   | "quarterly_csv_downloaded"
   | "submission_downloaded"
   | "safety_sheet_downloaded"
+  | "attachment_downloaded"
   | "layer_file_downloaded"
   | "events_csv_downloaded"
   | "outbox_mail_retried"

@@ -1,6 +1,7 @@
-import { readFile } from "node:fs/promises";
+import { randomUUID } from "node:crypto";
 import { recordAudit } from "~/lib/audit.server";
 import { db, type Db } from "~/lib/db.server";
+import { deleteObjectQuietly, getObject, putObjectFile } from "~/lib/storage.server";
 import type { ReportPeriod } from "~/lib/reporting/period";
 import { instantToWallClock, localDateTime } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
@@ -100,13 +101,19 @@ export async function listSubmissions(limit = 50): Promise<SubmissionSummary[]> 
   return rows.map(toSummary);
 }
 
+/**
+ * The submitted file, read from the object store (throws `StorageUnavailableError` when it is down).
+ * A row the move to the object store has not reached still answers from its own column.
+ */
 export async function submissionFile(
   id: number,
 ): Promise<{ fileName: string; contentType: string; content: Buffer; sha256: string } | null> {
-  const row = await db("quarterly_submissions").where({ id }).first("file_name", "content_type", "content", "sha256");
-  return row
-    ? { fileName: row.file_name, contentType: row.content_type, content: row.content, sha256: row.sha256 }
-    : null;
+  const row = await db("quarterly_submissions")
+    .where({ id })
+    .first("file_name", "content_type", "storage_key", "content", "sha256");
+  if (!row) return null;
+  const content = row.storage_key ? Buffer.from((await getObject(row.storage_key)).body) : (row.content as Buffer);
+  return { fileName: row.file_name, contentType: row.content_type, content, sha256: row.sha256 };
 }
 
 export type NewSubmission = {
@@ -122,9 +129,22 @@ export type NewSubmission = {
   clientAddress?: string | null;
 };
 
-/** Stores the exact file that was submitted with its digest, and audits it, in one transaction. */
+/**
+ * Stores the exact file that was submitted in the object store first, then its row with the digest
+ * and its audit row in one transaction; a failed save removes the stored file again.
+ */
 export async function recordSubmission(submission: NewSubmission): Promise<number> {
-  const content = await readFile(submission.filePath);
+  const key = `quarterly-submissions/${randomUUID()}`;
+  await putObjectFile(key, submission.filePath, submission.byteSize, submission.contentType);
+  try {
+    return await saveSubmissionRow(submission, key);
+  } catch (error) {
+    await deleteObjectQuietly(key);
+    throw error;
+  }
+}
+
+function saveSubmissionRow(submission: NewSubmission, key: string): Promise<number> {
   return db.transaction(async (trx) => {
     const [id] = await trx("quarterly_submissions").insert({
       period_from: submission.period.from,
@@ -132,7 +152,7 @@ export async function recordSubmission(submission: NewSubmission): Promise<numbe
       label: submission.period.label,
       file_name: submission.fileName,
       content_type: submission.contentType,
-      content,
+      storage_key: key,
       sha256: submission.sha256,
       byte_size: submission.byteSize,
       accepted_reports: submission.acceptedReports,

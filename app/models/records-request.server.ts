@@ -347,3 +347,8 @@ export async function listRecordsAssignees(): Promise<Array<{ id: number; name: 
     .distinct("u.id", "u.name")
     .orderBy("u.name");
 }
+
+/** Whether a records request exists (for routes that hang files on it). */
+export async function recordsRequestExists(id: number): Promise<boolean> {
+  return Boolean(await db("records_requests").where({ id }).first("id"));
+}

@@ -1,6 +1,7 @@
 import type { Route } from "./+types/environmental.submissions.$id";
 import { requireCapability } from "~/lib/access.server";
-import { invariantResponse, requireRecordId } from "~/lib/http.server";
+import { httpError, invariantResponse, requireRecordId } from "~/lib/http.server";
+import { StorageUnavailableError } from "~/lib/storage.server";
 import { recordDownload } from "~/models/download-audit.server";
 import { submissionFile } from "~/models/quarterly-submission.server";
 
@@ -8,7 +9,12 @@ import { submissionFile } from "~/models/quarterly-submission.server";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireCapability(request, "exports.quarterly");
   const id = requireRecordId(request, params.id, "No such submission.");
-  const file = await submissionFile(id);
+  const file = await submissionFile(id).catch((error: unknown) => {
+    if (error instanceof StorageUnavailableError) {
+      httpError(503, "The file store is not answering right now; please try again in a minute.");
+    }
+    throw error;
+  });
   invariantResponse(file, "No such submission.", 404);
   await recordDownload(request, user, {
     action: "submission_downloaded",

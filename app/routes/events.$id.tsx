@@ -3,6 +3,7 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, redirect } from "react-router";
 import type { z } from "zod";
 import type { Route } from "./+types/events.$id";
+import { EventAttachments } from "~/components/attachments-panel";
 import { ErrorList, FormErrors } from "~/components/form-fields";
 import { ReleaseNotifications } from "~/components/release-notifications";
 import { ReportSummary } from "~/components/report-summary";
@@ -161,6 +162,7 @@ export default function EventReport({ loaderData, actionData }: Route.ComponentP
           timeZone={timeZone}
         />
       ) : null}
+      <EventAttachments eventId={report.id} />
       <section className="card" aria-labelledby="history-title">
         <h2 id="history-title" className="text-lg font-semibold">
           History

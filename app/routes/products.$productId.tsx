@@ -5,7 +5,8 @@ import type { Route } from "./+types/products.$productId";
 import { EarlierFiles } from "~/components/earlier-files";
 import { CheckboxField, ErrorList, FormErrors, SelectField, TextAreaField, TextField } from "~/components/form-fields";
 import { requireCapability } from "~/lib/access.server";
-import { looksLikePdf, ProductFormSchema, SAFETY_SHEET_MAX_BYTES } from "~/lib/catalogue/product-form";
+import { sniffBytes } from "~/lib/attachment-content.server";
+import { ProductFormSchema, SAFETY_SHEET_MAX_BYTES } from "~/lib/catalogue/product-form";
 import { formVersion, StaleRecordError, staleRecordMessage, submittedVersion } from "~/lib/catalogue/record-version";
 import { FOAM_TYPE_LABELS, FOAM_TYPES, PFAS_CONTENT_UNIT_LABELS, PFAS_CONTENT_UNITS } from "~/lib/foam/vocabulary";
 import { recordIdOf } from "~/lib/record-id";
@@ -71,7 +72,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   const file = submission.value.safetySheet;
   if (file) {
     const body = new Uint8Array(await file.arrayBuffer());
-    if (!looksLikePdf(body)) {
+    // By content, as every attachment is: a renamed file is not a PDF.
+    if ((await sniffBytes(body)).type !== "application/pdf") {
       return data(
         { result: submission.reply({ fieldErrors: { safetySheet: ["This file is not a PDF document."] } }) },
         { status: 400 },

@@ -1,6 +1,7 @@
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, useActionData, useLoaderData } from "react-router";
 import type { Route } from "./+types/records.$id";
+import { RequestAttachments } from "~/components/attachments-panel";
 import { requireCapability } from "~/lib/access.server";
 import {
   EVENT_KIND_LABELS,
@@ -241,6 +242,7 @@ export default function RecordsRequestPage({ loaderData }: Route.ComponentProps)
         </Form>
       </div>
       <ReleaseSection />
+      <RequestAttachments requestId={request.id} />
       <div className="card">
         <h2 className="text-lg font-semibold">Log</h2>
         <ol className="mt-2 space-y-1 text-sm" data-testid="request-log">

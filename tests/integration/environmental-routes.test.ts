@@ -1,12 +1,14 @@
 import { createHash } from "node:crypto";
-import { beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import * as XLSX from "xlsx";
 import { db } from "~/lib/db.server";
+import { getObject } from "~/lib/storage.server";
 import { action as pageAction, loader as pageLoader } from "~/routes/environmental";
 import { loader as submissionLoader } from "~/routes/environmental.submissions.$id";
 import { loader as csvLoader } from "~/routes/reports.environmental-csv";
 import { loader as xlsxLoader } from "~/routes/reports.environmental-xlsx";
 import { makeUser, TEST_PASSWORD } from "../support/factories";
+import { startFileStore } from "../support/file-store";
 import { formRequest, getRequest, routeArgs, settle } from "../support/requests";
 import { signIn } from "../support/session";
 import { ensureAgency, makeEvent, makeProduct } from "../support/usage-fixtures";
@@ -15,7 +17,14 @@ let enviroCookie: string;
 let chiefCookie: string;
 let officerCookie: string;
 
+let closeFileStore: () => Promise<void>;
+
+afterAll(async () => {
+  await closeFileStore();
+});
+
 beforeAll(async () => {
+  closeFileStore = await startFileStore("environmental-routes");
   await ensureAgency(db, { report_recipients: "quarterly-desk@test.example" });
   const enviro = await makeUser(["environmental"], "Route Reviewer");
   const chief = await makeUser(["chief"]);
@@ -114,7 +123,11 @@ describe("environmental downloads and submission", () => {
     );
     expect(statusOf(outcome.value)).toBe(302);
     const stored = await db("quarterly_submissions").where({ label: "2034 Q3" }).first();
-    expect(createHash("sha256").update(stored.content).digest("hex")).toBe(stored.sha256);
+    // The file lives in the object store, under a key the server made; the row keeps no copy.
+    expect(stored.content).toBeNull();
+    expect(stored.storage_key).toMatch(/^quarterly-submissions\/[0-9a-f-]{36}$/);
+    const kept = (await getObject(stored.storage_key)).body;
+    expect(createHash("sha256").update(kept).digest("hex")).toBe(stored.sha256);
     expect(stored).toMatchObject({ accepted_reports: 1, note: "Sent to the county desk" });
     const audit = await db("audit_events")
       .where({ action: "quarter_submitted", entity_id: String(stored.id) })

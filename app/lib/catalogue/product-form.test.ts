@@ -1,7 +1,7 @@
 import { parseWithZod } from "@conform-to/zod/v4";
 import { describe, expect, it } from "vitest";
 import { ApparatusFormSchema } from "./apparatus-form";
-import { looksLikePdf, parseNominalPercents, ProductFormSchema } from "./product-form";
+import { parseNominalPercents, ProductFormSchema } from "./product-form";
 
 function form(fields: Record<string, string>) {
   const data = new FormData();
@@ -66,12 +66,6 @@ describe("the product form", () => {
       { schema: ProductFormSchema },
     );
     expect(submission.reply().error?.pfasContent?.[0]).toMatch(/at most 100/);
-  });
-
-  it("tells a PDF from other bytes by its signature", () => {
-    expect(looksLikePdf(new TextEncoder().encode("%PDF-1.7\n"))).toBe(true);
-    expect(looksLikePdf(new TextEncoder().encode("PK\u0003\u0004"))).toBe(false);
-    expect(looksLikePdf(new Uint8Array())).toBe(false);
   });
 });
 

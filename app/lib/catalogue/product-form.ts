@@ -115,8 +115,3 @@ export const ProductFormSchema = z
   });
 
 export type ProductFormValue = z.infer<typeof ProductFormSchema>;
-
-/** Whether the bytes start like a PDF document ("%PDF-"), whatever the browser said the type was. */
-export function looksLikePdf(bytes: Uint8Array): boolean {
-  return bytes.length >= 5 && String.fromCharCode(...bytes.slice(0, 5)) === "%PDF-";
-}

@@ -473,3 +473,14 @@ export const ACCURACY_TEST_METHOD_LABELS: Record<AccuracyTestMethod, string> = {
   conductivity: "Conductivity (calibration curve)",
   flow: "Flow measurement (timed concentrate draw against metered water)",
 };
+
+/** What a file attached to an event is. */
+export const ATTACHMENT_KINDS = ["photo", "disposal_manifest", "lab_result", "test_printout", "other"] as const;
+export type AttachmentKind = (typeof ATTACHMENT_KINDS)[number];
+export const ATTACHMENT_KIND_LABELS: Record<AttachmentKind, string> = {
+  photo: "Scene photo",
+  disposal_manifest: "Disposal manifest",
+  lab_result: "Lab result",
+  test_printout: "Test printout",
+  other: "Other document",
+};

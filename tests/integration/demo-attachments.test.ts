@@ -1,0 +1,62 @@
+import exifr from "exifr";
+import knexFactory, { type Knex } from "knex";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { env } from "~/lib/env.server";
+import { getObject } from "~/lib/storage.server";
+import knexConfig from "../../knexfile";
+import { startFileStore } from "../support/file-store";
+import { testDatabaseName } from "../support/test-database";
+
+// The demo's sample attachments, seeded into a database of their own with the object-store fake up.
+const name = `${testDatabaseName()}_demo_files`;
+const server = knexFactory({
+  ...knexConfig,
+  connection: { ...(knexConfig.connection as object), database: undefined },
+});
+const knex: Knex = knexFactory({
+  ...knexConfig,
+  connection: { ...(knexConfig.connection as object), database: name },
+});
+const SEEDS = ["01_agency_and_accounts.ts", "02_catalogue.ts", "03_events.ts", "08_demo_attachments.ts"];
+const endpointBefore = process.env.S3_ENDPOINT;
+let closeFileStore: () => Promise<void>;
+
+beforeAll(async () => {
+  closeFileStore = await startFileStore("demo-attachments");
+  // Knex loads the seed itself, with a storage module of its own that reads process.env.
+  process.env.S3_ENDPOINT = env().S3_ENDPOINT;
+  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
+  await server.raw(`CREATE DATABASE \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
+  await knex.migrate.latest();
+  for (const file of SEEDS) await knex.seed.run({ specific: file });
+}, 120_000);
+
+afterAll(async () => {
+  await knex.destroy();
+  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
+  await server.destroy();
+  await closeFileStore();
+  if (endpointBefore === undefined) delete process.env.S3_ENDPOINT;
+  else process.env.S3_ENDPOINT = endpointBefore;
+});
+
+describe("the demo's attachments", () => {
+  it("are invented, plainly demo files of every kind, stored without location data and with thumbnails", async () => {
+    const rows = await knex("attachments").orderBy("id");
+    expect(new Set(rows.map((row) => row.kind))).toEqual(
+      new Set(["photo", "disposal_manifest", "lab_result", "test_printout"]),
+    );
+    for (const row of rows) {
+      expect(row.file_name).toMatch(/-demo\.(jpg|pdf)$/);
+      const body = Buffer.from((await getObject(row.storage_key)).body);
+      expect(body.length).toBe(Number(row.byte_size));
+      if (row.kind === "photo") {
+        expect(await exifr.gps(body)).toBeUndefined();
+        expect(row.thumbnail_key).toMatch(/-thumbnail\.webp$/);
+        expect((await getObject(row.thumbnail_key)).body.byteLength).toBeGreaterThan(0);
+      } else {
+        expect(body.toString("latin1")).toContain("DEMO DATA");
+      }
+    }
+  });
+});
