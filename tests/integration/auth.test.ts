@@ -21,7 +21,9 @@ function replyOf(value: unknown) {
   return result;
 }
 
-describe("sign-in", () => {
+// Each attempt checks a password at the production bcrypt cost; on a loaded machine a run of them
+// takes longer than the default limit.
+describe("sign-in", { timeout: 120_000 }, () => {
   it("signs in with the right password and answers /api/me with the person's roles", async () => {
     const user = await makeUser(["officer", "chief"], "Two Hats");
     const cookie = await signIn(user.email, TEST_PASSWORD);

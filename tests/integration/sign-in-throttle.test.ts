@@ -29,7 +29,9 @@ async function letWaitsRunOut() {
     .update({ expire: Date.now() - 1 });
 }
 
-describe("sign-in throttling", () => {
+// Each attempt checks a password at the production bcrypt cost; on a loaded machine a run of them
+// takes longer than the default limit.
+describe("sign-in throttling", { timeout: 120_000 }, () => {
   it("grows the wait with each failure past the free ones, up to a ceiling", () => {
     const waits = [4, 5, 6, 7, 8, 9, 10, 30].map((n) => delayAfterFailures(n, 5));
     expect(waits).toEqual([0, 30, 60, 120, 240, 480, 900, 900]);
