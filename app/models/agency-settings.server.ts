@@ -1,6 +1,9 @@
 import { createHash } from "node:crypto";
 import {
   DEFAULT_CLASS_A_ACCURACY_SHARE,
+  DEFAULT_CLASS_B_ATTACK_PERCENT,
+  DEFAULT_CLASS_B_ATTACK_SOLUTION_GPM,
+  DEFAULT_QUALITY_SAMPLE_INTERVAL_MONTHS,
   DEFAULT_DRAWDOWN_TOLERANCE_SHARE,
   DEFAULT_PFAS_REPORTABLE_LB,
   DEFAULT_WATERWAY_BUFFER_M,
@@ -57,6 +60,9 @@ function settingsFrom(row: SettingsRow): AgencySettings {
       typeof row?.records_withholding_rule === "string" && row.records_withholding_rule
         ? row.records_withholding_rule
         : "the exemptions of the state's public-records law (set the rule's name in the agency settings)",
+    qualitySampleIntervalMonths: number(row?.quality_sample_interval_months, DEFAULT_QUALITY_SAMPLE_INTERVAL_MONTHS),
+    classBAttackSolutionGpm: number(row?.class_b_attack_solution_gpm, DEFAULT_CLASS_B_ATTACK_SOLUTION_GPM),
+    classBAttackPercent: number(row?.class_b_attack_percent, DEFAULT_CLASS_B_ATTACK_PERCENT),
     updatedAt: row?.updated_at instanceof Date ? row.updated_at.toISOString() : null,
     version: versionOf(row),
   };

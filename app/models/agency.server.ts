@@ -25,6 +25,9 @@ function auditedValues(settings: AuditedSettings): AuditedSettings {
     recordsClosureDays: settings.recordsClosureDays,
     recordsWithholdingRule: settings.recordsWithholdingRule,
     releaseAlertsToChief: settings.releaseAlertsToChief,
+    qualitySampleIntervalMonths: settings.qualitySampleIntervalMonths,
+    classBAttackSolutionGpm: settings.classBAttackSolutionGpm,
+    classBAttackPercent: settings.classBAttackPercent,
   };
 }
 
@@ -65,12 +68,18 @@ export async function saveAgencySettings(
       records_closure_days: input.recordsClosureDays.join("\n"),
       records_withholding_rule: input.recordsWithholdingRule,
       release_alerts_to_chief: input.releaseAlertsToChief,
+      quality_sample_interval_months: input.qualitySampleIntervalMonths ?? before.qualitySampleIntervalMonths,
+      class_b_attack_solution_gpm: input.classBAttackSolutionGpm ?? before.classBAttackSolutionGpm,
+      class_b_attack_percent: input.classBAttackPercent ?? before.classBAttackPercent,
     };
     const afterValues = auditedValues({
       ...input,
       eventNumberPrefix: values.event_number_prefix,
       drawdownToleranceShare: values.drawdown_tolerance_share,
       classAAccuracyShare: values.class_a_accuracy_share,
+      qualitySampleIntervalMonths: values.quality_sample_interval_months,
+      classBAttackSolutionGpm: values.class_b_attack_solution_gpm,
+      classBAttackPercent: values.class_b_attack_percent,
     });
     const beforeValues = auditedValues(before);
     const changed = (Object.keys(afterValues) as (keyof typeof afterValues)[]).filter(

@@ -24,6 +24,7 @@ import { reportRecordOf } from "./event-read.server";
 import { recomputeEventGeography } from "./geography.server";
 import { deliverPendingMailSoon } from "./mail-outbox.server";
 import { queueFiledReportAlerts, queueReturnedReportNotice } from "./report-notifications.server";
+import { postReportStock } from "./stock.server";
 import {
   dischargeInputs,
   tankReadingInputs,
@@ -52,6 +53,7 @@ function storedDischarges(lines: DischargeLine[], timeZone: string): ReportDisch
     endedAt: wallClockToInstant(line.endedAt, timeZone),
     method: line.method ?? null,
     airFlowCfm: line.airFlowCfm ?? null,
+    heldUseReason: line.heldUseReason ?? null,
   }));
 }
 
@@ -528,6 +530,7 @@ export async function saveReport(saveRequest: SaveRequest): Promise<SaveOutcome>
       await auditReport(trx, request, eventId, change, before, loaded.lines);
       await recomputeEventGeography(eventId, trx);
       if (filing) await queueFiledReportAlerts(eventId, trx);
+      if (filing) await postReportStock(trx, eventId, request.user);
       return { kind: "saved", eventId, status: change.status, usage: loaded.usage };
     });
     if (outcome.kind === "saved" && outcome.status === "filed") deliverPendingMailSoon();

@@ -3,7 +3,12 @@ import { db, type Db } from "~/lib/db.server";
 import { sendMail } from "~/lib/mail.server";
 
 export type MailKind =
-  "release_alert" | "returned_report" | "quarterly_workbook" | "records_acknowledgement" | "records_release";
+  | "release_alert"
+  | "returned_report"
+  | "quarterly_workbook"
+  | "records_acknowledgement"
+  | "records_release"
+  | "stock_alert";
 
 export type QueuedMail = {
   kind: MailKind;

@@ -29,6 +29,8 @@ export type ReportDischarge = {
   endedAt?: Date | null;
   method?: ApplicationMethod | null;
   airFlowCfm?: number | null;
+  /** Why a product held for disposal was used all the same. */
+  heldUseReason?: string | null;
 };
 
 export type ReportRunoff = {
@@ -136,6 +138,7 @@ export function dischargeRows(eventId: number, discharges: readonly ReportDischa
       minutes: line.minutes,
       method: line.method ?? null,
       air_flow_cfm: line.airFlowCfm ?? null,
+      held_use_reason: line.heldUseReason || null,
       water_gal: result.water.gal,
       concentrate_gal: result.concentrate.gal,
       solution_gal: result.solution.gal,

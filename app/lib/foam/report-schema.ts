@@ -104,6 +104,8 @@ export const DischargeLineSchema = z
     minutes: positiveNumber("duration in minutes", MAX_DISCHARGE_MINUTES).optional(),
     method: z.enum(APPLICATION_METHODS, { error: "Choose an application method from the list." }).optional(),
     airFlowCfm: optionalNonNegative("air flow", 10_000),
+    // Why a product held for disposal was used all the same (required then; checked when filed).
+    heldUseReason: text(500, "reason for using foam held for disposal"),
   })
   .superRefine((line, ctx) => {
     if (line.productId && line.percent == null) {
