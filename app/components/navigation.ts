@@ -15,6 +15,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: "/map", label: "Usage map", capability: "usage.map" },
   { to: "/geography", label: "Drainage layers", capability: "geography.edit" },
   { to: "/environmental", label: "Quarterly summaries", capability: "exports.quarterly" },
+  { to: "/stock", label: "Concentrate stock", capability: "stock.read" },
 ];
 
 export function navFor(roles: readonly Role[]): NavItem[] {

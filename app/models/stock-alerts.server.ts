@@ -71,7 +71,9 @@ export async function currentStockConditions(
       "p.shelf_life_months",
       "p.held_for_disposal",
       connection.raw("(SELECT COALESCE(SUM(m.gal), 0) FROM stock_movements m WHERE m.lot_id = t.id) AS on_hand"),
-      connection.raw("(SELECT MAX(m.at) FROM stock_movements m WHERE m.lot_id = t.id AND m.kind = 'sampled') AS sampled_at"),
+      connection.raw(
+        "(SELECT MAX(m.at) FROM stock_movements m WHERE m.lot_id = t.id AND m.kind = 'sampled') AS sampled_at",
+      ),
     );
   for (const lot of lots) {
     const onHand = decimalOrZero(lot.on_hand);

@@ -26,13 +26,12 @@ export async function stockReadiness(connection: Db = db): Promise<ReadinessRepo
   const settings = await readAgencySettings(connection);
   const solutionGpm = settings.classBAttackSolutionGpm;
   const percent = settings.classBAttackPercent;
-  const rows: { station_id: number | null; foam_class: string; held_for_disposal: unknown; gal: unknown }[] = await connection(
-    "stock_movements as m",
-  )
-    .join("stock_locations as l", "l.id", "m.location_id")
-    .join("foam_products as p", "p.id", "m.product_id")
-    .groupBy("l.station_id", "p.foam_class", "p.held_for_disposal")
-    .select("l.station_id", "p.foam_class", "p.held_for_disposal", connection.raw("SUM(m.gal) AS gal"));
+  const rows: { station_id: number | null; foam_class: string; held_for_disposal: unknown; gal: unknown }[] =
+    await connection("stock_movements as m")
+      .join("stock_locations as l", "l.id", "m.location_id")
+      .join("foam_products as p", "p.id", "m.product_id")
+      .groupBy("l.station_id", "p.foam_class", "p.held_for_disposal")
+      .select("l.station_id", "p.foam_class", "p.held_for_disposal", connection.raw("SUM(m.gal) AS gal"));
   const stations = await connection("stations").where({ active: true }).orderBy("code").select("id", "code", "name");
   const blank = (stationId: number | null, name: string): Readiness => ({
     stationId,
@@ -48,7 +47,10 @@ export async function stockReadiness(connection: Db = db): Promise<ReadinessRepo
   const district = blank(null, "District");
   for (const row of rows) {
     const amount = decimalOrZero(row.gal);
-    const targets = [district, ...(row.station_id && byStation.has(row.station_id) ? [byStation.get(row.station_id)!] : [])];
+    const targets = [
+      district,
+      ...(row.station_id && byStation.has(row.station_id) ? [byStation.get(row.station_id)!] : []),
+    ];
     for (const target of targets) {
       if (Number(row.held_for_disposal)) target.heldForDisposalGal = roundGal(target.heldForDisposalGal + amount);
       else if (row.foam_class === "A") target.classAGal = roundGal(target.classAGal + amount);

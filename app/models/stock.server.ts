@@ -15,7 +15,14 @@ import {
   type StockMovementKind,
 } from "~/lib/foam/vocabulary";
 import { conflict, RefusalError, refused, type Refusal } from "~/lib/refusal";
-import { planMovement, roundGal, usedByEvent, type BookEntry, type StockFacts, type StockRequest } from "~/lib/stock/ledger";
+import {
+  planMovement,
+  roundGal,
+  usedByEvent,
+  type BookEntry,
+  type StockFacts,
+  type StockRequest,
+} from "~/lib/stock/ledger";
 import { deliverPendingMailSoon } from "./mail-outbox.server";
 import { queueStockAlerts } from "./stock-alerts.server";
 
@@ -111,7 +118,10 @@ async function factsFor(connection: Db, productIds: number[]): Promise<StockFact
     : [];
   const lotProduct = new Map<number, number>(lots.map((row) => [row.id, row.product_id]));
   const lotOrder = new Map<number, number>(
-    lots.map((row) => [row.id, row.manufactured_on ? new Date(row.manufactured_on).getTime() : Number.MAX_SAFE_INTEGER]),
+    lots.map((row) => [
+      row.id,
+      row.manufactured_on ? new Date(row.manufactured_on).getTime() : Number.MAX_SAFE_INTEGER,
+    ]),
   );
   return {
     heldForDisposal: (productId) => held.has(productId),
@@ -233,7 +243,13 @@ export async function receiveStock(
         })
       )[0];
     const facts = await factsFor(trx, [input.productId]);
-    const request: StockRequest = { kind: "received", locationId: input.locationId, productId: input.productId, lotId, gal };
+    const request: StockRequest = {
+      kind: "received",
+      locationId: input.locationId,
+      productId: input.productId,
+      lotId,
+      gal,
+    };
     const plan = planMovement([], request, facts);
     if (!plan.ok) return refuseAt(plan.field === "gal" ? "containerCount" : plan.field, plan.message);
     const movementIds = await writeEntries(trx, plan.entries, {
@@ -279,7 +295,8 @@ export async function moveStock(
   clientAddress?: string,
 ): Promise<{ kind: "done"; movementIds: number[] } | Refusal> {
   return runStockChange(async (trx) => {
-    const ids = input.kind === "transferred" && input.toLocationId ? [input.locationId, input.toLocationId] : [input.locationId];
+    const ids =
+      input.kind === "transferred" && input.toLocationId ? [input.locationId, input.toLocationId] : [input.locationId];
     const locations = await lockLocations(trx, ids);
     checkVersion(locations.get(input.locationId), "locationId", input.version);
     if (input.kind === "transferred") {
@@ -300,7 +317,13 @@ export async function moveStock(
             lotId: input.lotId ?? null,
             gal: input.gal,
           }
-        : { kind: input.kind, locationId: input.locationId, productId: input.productId, lotId: input.lotId ?? null, gal: input.gal };
+        : {
+            kind: input.kind,
+            locationId: input.locationId,
+            productId: input.productId,
+            lotId: input.lotId ?? null,
+            gal: input.gal,
+          };
     const plan = planMovement(book, request, facts);
     if (!plan.ok) return refuseAt(plan.field, plan.message);
     const movementIds = await writeEntries(trx, plan.entries, {
@@ -335,7 +358,13 @@ export type CountInput = {
   lines: { productId: number; lotId: number | null; countedGal: number }[];
 };
 
-export type CountLineResult = { productId: number; lotId: number | null; bookGal: number; countedGal: number; varianceGal: number };
+export type CountLineResult = {
+  productId: number;
+  lotId: number | null;
+  bookGal: number;
+  countedGal: number;
+  varianceGal: number;
+};
 
 /**
  * A count of one location: what was found beside the book, line by line, and each variance posted
@@ -355,10 +384,17 @@ export async function recordStockCount(
     const entries: BookEntry[] = [];
     const results: CountLineResult[] = [];
     for (const [index, line] of input.lines.entries()) {
-      if (!(await productExists(trx, line.productId))) refuseAt(`lines[${index}].productId`, "Choose a product from the catalogue.");
+      if (!(await productExists(trx, line.productId)))
+        refuseAt(`lines[${index}].productId`, "Choose a product from the catalogue.");
       const plan = planMovement(
         [...book, ...entries],
-        { kind: "adjusted", locationId: input.locationId, productId: line.productId, lotId: line.lotId, countedGal: line.countedGal },
+        {
+          kind: "adjusted",
+          locationId: input.locationId,
+          productId: line.productId,
+          lotId: line.lotId,
+          countedGal: line.countedGal,
+        },
         facts,
       );
       if (!plan.ok) return refuseAt(`lines[${index}].${plan.field}`, plan.message);
@@ -456,11 +492,11 @@ export async function postReportStock(trx: Knex.Transaction, eventId: number, ac
   const event = await trx("events").where({ id: eventId }).first("number", "station_id", "started_at", "cleared_at");
   const discharges: { apparatus_id: number | null; product_id: number; station_id: number | null; gal: unknown }[] =
     await trx("discharges as d")
-    .leftJoin("apparatus as a", "a.id", "d.apparatus_id")
-    .where("d.event_id", eventId)
-    .whereNotNull("d.product_id")
-    .groupBy("d.apparatus_id", "d.product_id", "a.station_id")
-    .select("d.apparatus_id", "d.product_id", "a.station_id", trx.raw("SUM(d.concentrate_gal) AS gal"));
+      .leftJoin("apparatus as a", "a.id", "d.apparatus_id")
+      .where("d.event_id", eventId)
+      .whereNotNull("d.product_id")
+      .groupBy("d.apparatus_id", "d.product_id", "a.station_id")
+      .select("d.apparatus_id", "d.product_id", "a.station_id", trx.raw("SUM(d.concentrate_gal) AS gal"));
   const refills = await trx("tank_readings as t")
     .join("apparatus as a", "a.id", "t.apparatus_id")
     .where({ "t.event_id": eventId, "t.kind": "refill" })
@@ -481,9 +517,7 @@ export async function postReportStock(trx: Knex.Transaction, eventId: number, ac
   const refillWanted = new Map<string, number>();
   for (const reading of refills) {
     const productId =
-      reading.product_id ??
-      discharges.find((line) => line.apparatus_id === reading.apparatus_id)?.product_id ??
-      null;
+      reading.product_id ?? discharges.find((line) => line.apparatus_id === reading.apparatus_id)?.product_id ?? null;
     const storeStation = reading.station_id ?? event.station_id;
     if (!productId || !storeStation) continue;
     const from = await stationStoreLocation(trx, storeStation);
@@ -737,7 +771,10 @@ export async function listStockLots(connection: Db = db): Promise<StockLot[]> {
 }
 
 /** The location kinds with their labels, for the pages' lists. */
-export const LOCATION_KIND_OPTIONS = Object.entries(STOCK_LOCATION_KIND_LABELS).map(([value, label]) => ({ value, label }));
+export const LOCATION_KIND_OPTIONS = Object.entries(STOCK_LOCATION_KIND_LABELS).map(([value, label]) => ({
+  value,
+  label,
+}));
 
 /** A location's row by id (with its version), or null. */
 export async function getStockLocation(id: number, connection: Db = db): Promise<StockLocation | null> {
@@ -745,7 +782,12 @@ export async function getStockLocation(id: number, connection: Db = db): Promise
   return row ? locationOf(row) : null;
 }
 
-export type NewLocationInput = { kind: StockLocationKind; name: string; stationId: number | null; apparatusId: number | null };
+export type NewLocationInput = {
+  kind: StockLocationKind;
+  name: string;
+  stationId: number | null;
+  apparatusId: number | null;
+};
 
 /** Adds a location (a store, a tender, a cache, or an apparatus's tank). */
 export async function addStockLocation(
@@ -828,4 +870,103 @@ export async function setReorderPoint(
     await queueStockAlerts(trx);
     return { kind: "done" as const };
   });
+}
+
+export type StockProductOption = { id: number; name: string; foamClass: FoamClass; heldForDisposal: boolean };
+
+/** The choices the stock forms offer: products (held ones marked), stations, apparatus, locations and lots. */
+export async function stockFormOptions(connection: Db = db) {
+  const [products, stations, apparatus, locations, lots] = await Promise.all([
+    connection("foam_products")
+      .where({ active: true })
+      .orderBy("name")
+      .select("id", "name", "foam_class", "held_for_disposal"),
+    connection("stations").where({ active: true }).orderBy("code").select("id", "code", "name"),
+    connection("apparatus").where({ active: true }).orderBy("unit_id").select("id", "unit_id"),
+    listStockLocations(connection),
+    listStockLots(connection),
+  ]);
+  return {
+    products: products.map((row): StockProductOption => ({
+      id: row.id,
+      name: row.name,
+      foamClass: row.foam_class,
+      heldForDisposal: Boolean(Number(row.held_for_disposal)),
+    })),
+    stations: stations.map((row) => ({ id: row.id as number, label: `${row.name} (${row.code})` })),
+    apparatus: apparatus.map((row) => ({ id: row.id as number, label: row.unit_id as string })),
+    locations,
+    lots,
+  };
+}
+
+/** The reorder points, with what is on hand beside each. */
+export async function listReorderPoints(connection: Db = db) {
+  const rows = await connection("stock_reorder_points as r")
+    .join("stock_locations as l", "l.id", "r.location_id")
+    .join("foam_products as p", "p.id", "r.product_id")
+    .orderBy(["l.name", "p.name"])
+    .select(
+      "r.location_id",
+      "r.product_id",
+      "r.reorder_gal",
+      "l.name as location_name",
+      "p.name as product_name",
+      connection.raw(
+        "(SELECT COALESCE(SUM(m.gal), 0) FROM stock_movements m WHERE m.location_id = r.location_id AND m.product_id = r.product_id) AS on_hand",
+      ),
+    );
+  return rows.map((row) => ({
+    locationId: row.location_id as number,
+    productId: row.product_id as number,
+    locationName: row.location_name as string,
+    productName: row.product_name as string,
+    reorderGal: decimalOrZero(row.reorder_gal),
+    onHandGal: roundGal(decimalOrZero(row.on_hand)),
+  }));
+}
+
+export type RecentCount = {
+  id: number;
+  countedAt: string;
+  reason: string;
+  countedBy: string;
+  lines: (CountLineResult & { productName: string; lotNumber: string | null })[];
+};
+
+/** The latest counts of a location with their lines, newest first. */
+export async function listRecentCounts(locationId: number, limit = 5, connection: Db = db): Promise<RecentCount[]> {
+  const counts = await connection("stock_counts as c")
+    .join("users as u", "u.id", "c.counted_by")
+    .where("c.location_id", locationId)
+    .orderBy("c.id", "desc")
+    .limit(limit)
+    .select("c.id", "c.counted_at", "c.reason", "u.name as counted_by");
+  if (!counts.length) return [];
+  const lines = await connection("stock_count_lines as l")
+    .join("foam_products as p", "p.id", "l.product_id")
+    .leftJoin("stock_lots as t", "t.id", "l.lot_id")
+    .whereIn(
+      "l.count_id",
+      counts.map((count) => count.id),
+    )
+    .orderBy("l.id")
+    .select("l.*", "p.name as product_name", "t.lot_number");
+  return counts.map((count) => ({
+    id: count.id,
+    countedAt: new Date(count.counted_at).toISOString(),
+    reason: count.reason,
+    countedBy: count.counted_by,
+    lines: lines
+      .filter((line) => line.count_id === count.id)
+      .map((line) => ({
+        productId: line.product_id,
+        lotId: line.lot_id,
+        productName: line.product_name,
+        lotNumber: line.lot_number ?? null,
+        bookGal: decimalOrZero(line.book_gal),
+        countedGal: decimalOrZero(line.counted_gal),
+        varianceGal: decimalOrZero(line.variance_gal),
+      })),
+  }));
 }

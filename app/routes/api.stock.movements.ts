@@ -12,7 +12,10 @@ export async function loader({ request }: Route.LoaderArgs) {
   await requireCapability(request, "stock.read");
   const query = MovementQuerySchema.safeParse(queryParams(new URL(request.url), KEYS));
   if (!query.success) {
-    return Response.json({ error: "Some parameters cannot be used.", errors: fieldErrors(query.error) }, { status: 400 });
+    return Response.json(
+      { error: "Some parameters cannot be used.", errors: fieldErrors(query.error) },
+      { status: 400 },
+    );
   }
   const { from, to } = query.data;
   if (from && to && from > to) {

@@ -31,7 +31,14 @@ let storeId: number;
 
 async function person(roles: Role[], name: string, station: number | null) {
   const user = await makeUser(roles, name, { stationId: station });
-  const session = { id: user.id, roles, stationId: station, email: user.email, name: user.name, epoch: 0 } as SessionUser;
+  const session = {
+    id: user.id,
+    roles,
+    stationId: station,
+    email: user.email,
+    name: user.name,
+    epoch: 0,
+  } as SessionUser;
   const { token } = await createApiToken(session, "stock test");
   return { session, auth: { Authorization: `Bearer ${token}` } };
 }
@@ -42,7 +49,8 @@ async function answer(run: () => Promise<unknown>) {
   return { status: response.status, body: (await response.json()) as Record<string, unknown> };
 }
 
-const fileNew = (body: unknown) => answer(() => createAction(routeArgs(jsonRequest("/api/events", body, officer.auth))));
+const fileNew = (body: unknown) =>
+  answer(() => createAction(routeArgs(jsonRequest("/api/events", body, officer.auth))));
 const fileAgain = (id: number, body: unknown, auth = officer.auth) =>
   answer(() =>
     updateAction(
@@ -57,7 +65,8 @@ const fileAgain = (id: number, body: unknown, auth = officer.auth) =>
     ),
   );
 
-const versionOf = async (table: string, id: number) => (await db(table).where({ id }).first("version")).version as number;
+const versionOf = async (table: string, id: number) =>
+  (await db(table).where({ id }).first("version")).version as number;
 
 function report(minutes: number, extra: Record<string, unknown> = {}) {
   return {
@@ -91,7 +100,8 @@ function report(minutes: number, extra: Record<string, unknown> = {}) {
 
 async function eventUse(eventId: number) {
   const rows = await db("stock_movements").where({ event_id: eventId }).select("kind", "gal");
-  const sum = (kind: string) => rows.filter((row) => row.kind === kind).reduce((total, row) => total + Number(row.gal), 0);
+  const sum = (kind: string) =>
+    rows.filter((row) => row.kind === kind).reduce((total, row) => total + Number(row.gal), 0);
   return { rows: rows.length, used: Number(sum("used").toFixed(4)) };
 }
 
@@ -112,7 +122,11 @@ beforeAll(async () => {
   const stockKeeper = await person(["environmental"], "Stock Keeper", null);
   keeper = stockKeeper.session;
   keeperAuth = stockKeeper.auth;
-  const [store] = await db("stock_locations").insert({ kind: "station_store", name: `Store ${randomUUID().slice(0, 6)}`, station_id: stationId });
+  const [store] = await db("stock_locations").insert({
+    kind: "station_store",
+    name: `Store ${randomUUID().slice(0, 6)}`,
+    station_id: stationId,
+  });
   storeId = store;
   const [tank] = await db("stock_locations").insert({
     kind: "apparatus_tank",
@@ -211,9 +225,16 @@ describe("a report's stock", () => {
     expect(await db("events").count({ n: "*" }).first()).toEqual(before);
 
     const reason = "Only foam on the rig at a fuel spill; replacement on order";
-    const filed = await fileNew({ ...base, number: `STK-${randomUUID().slice(0, 8)}`, discharges: [{ ...line, heldUseReason: reason }], tankReadings: [] });
+    const filed = await fileNew({
+      ...base,
+      number: `STK-${randomUUID().slice(0, 8)}`,
+      discharges: [{ ...line, heldUseReason: reason }],
+      tankReadings: [],
+    });
     expect(filed.status).toBe(201);
-    const stored = await db("discharges").where({ event_id: filed.body.id as number }).first("held_use_reason");
+    const stored = await db("discharges")
+      .where({ event_id: filed.body.id as number })
+      .first("held_use_reason");
     expect(stored.held_use_reason).toBe(reason);
     // In stock, held foam goes only to disposal.
     const moved = await moveStock(keeper, {
@@ -244,9 +265,19 @@ describe("moving and counting stock", () => {
       reason: "",
       reference: "",
     };
-    const tooMuch = await moveStock(keeper, { ...base, version: await versionOf("stock_locations", storeId), gal: 5000 });
-    expect(tooMuch).toMatchObject({ kind: "refused", status: 400, fieldErrors: { gal: [expect.stringContaining("holds")] } });
-    const emptyTank = (await db("stock_locations").insert({ kind: "cache", name: `Cache ${randomUUID().slice(0, 6)}` }))[0];
+    const tooMuch = await moveStock(keeper, {
+      ...base,
+      version: await versionOf("stock_locations", storeId),
+      gal: 5000,
+    });
+    expect(tooMuch).toMatchObject({
+      kind: "refused",
+      status: 400,
+      fieldErrors: { gal: [expect.stringContaining("holds")] },
+    });
+    const emptyTank = (
+      await db("stock_locations").insert({ kind: "cache", name: `Cache ${randomUUID().slice(0, 6)}` })
+    )[0];
     const wrongLot = await moveStock(keeper, {
       ...base,
       kind: "sampled",
@@ -256,7 +287,11 @@ describe("moving and counting stock", () => {
       gal: 1,
     });
     expect(wrongLot).toMatchObject({ fieldErrors: { lotId: ["This location does not hold this lot."] } });
-    const stale = await moveStock(keeper, { ...base, version: (await versionOf("stock_locations", storeId)) - 1, gal: 1 });
+    const stale = await moveStock(keeper, {
+      ...base,
+      version: (await versionOf("stock_locations", storeId)) - 1,
+      gal: 1,
+    });
     expect(stale).toMatchObject({ kind: "conflict" });
     expect(await count()).toBe(before);
   });
@@ -279,7 +314,10 @@ describe("moving and counting stock", () => {
       version: await versionOf("stock_locations", storeId),
       reason: "Drum seam weeping",
     });
-    expect(counted).toMatchObject({ kind: "done", lines: [{ bookGal: book, countedGal: book - 2.5, varianceGal: -2.5 }] });
+    expect(counted).toMatchObject({
+      kind: "done",
+      lines: [{ bookGal: book, countedGal: book - 2.5, varianceGal: -2.5 }],
+    });
     const adjustment = await db("stock_movements").where({ kind: "adjusted", location_id: storeId }).first();
     expect(Number(adjustment.gal)).toBe(-2.5);
     expect(adjustment.reason).toBe("Drum seam weeping");
@@ -292,7 +330,8 @@ describe("readiness and alerts", () => {
     const readiness = await stockReadiness();
     const station = readiness.stations.find((row) => row.stationId === stationId)!;
     const held = (await stockItems()).filter(
-      (item) => item.location.stationId === stationId && item.product.foamClass === "B" && !item.product.heldForDisposal,
+      (item) =>
+        item.location.stationId === stationId && item.product.foamClass === "B" && !item.product.heldForDisposal,
     );
     const classBGal = held.reduce((sum, item) => sum + item.onHandGal, 0);
     expect(station.classBGal).toBeCloseTo(classBGal, 4);
@@ -310,7 +349,9 @@ describe("readiness and alerts", () => {
     expect(mails.length).toBe(before + 1);
     expect(mails[0].text_body).toContain("below the reorder point of 500 gal");
     await db.transaction((trx) => queueStockAlerts(trx));
-    expect(Number((await db("mail_outbox").where({ kind: "stock_alert" }).count({ n: "*" }).first())!.n)).toBe(before + 1);
+    expect(Number((await db("mail_outbox").where({ kind: "stock_alert" }).count({ n: "*" }).first())!.n)).toBe(
+      before + 1,
+    );
   });
 });
 
@@ -330,7 +371,9 @@ describe("GET /api/stock and /api/stock/movements", () => {
   });
 
   it("answers 400 at the parameter for bad input, and 403 outside the roles", async () => {
-    const bad = await answer(() => movementsLoader(routeArgs(getRequest("/api/stock/movements?kind=spilled&location=abc", officer.auth))));
+    const bad = await answer(() =>
+      movementsLoader(routeArgs(getRequest("/api/stock/movements?kind=spilled&location=abc", officer.auth))),
+    );
     expect(bad.status).toBe(400);
     expect(Object.keys(bad.body.errors as object).sort()).toEqual(["kind", "location"]);
     const clerk = await person(["records"], "Stock Clerk", null);

@@ -47,12 +47,12 @@ describe("planMovement", () => {
 
   it("refuses a lot that the location does not hold, and a lot of another product, at the lot", () => {
     const book: BookEntry[] = [{ kind: "received", locationId: 1, productId: 1, lotId: 11, gal: 10 }];
-    expect(planMovement(book, { kind: "sampled", locationId: 2, productId: 1, lotId: 11, gal: 1 }, facts)).toMatchObject(
-      { ok: false, field: "lotId", message: "This location does not hold this lot." },
-    );
-    expect(planMovement(book, { kind: "received", locationId: 1, productId: 1, lotId: 21, gal: 1 }, facts)).toMatchObject(
-      { ok: false, field: "lotId" },
-    );
+    expect(
+      planMovement(book, { kind: "sampled", locationId: 2, productId: 1, lotId: 11, gal: 1 }, facts),
+    ).toMatchObject({ ok: false, field: "lotId", message: "This location does not hold this lot." });
+    expect(
+      planMovement(book, { kind: "received", locationId: 1, productId: 1, lotId: 21, gal: 1 }, facts),
+    ).toMatchObject({ ok: false, field: "lotId" });
   });
 
   it("refuses negative, zero and non-numeric quantities at the quantity", () => {
@@ -62,9 +62,9 @@ describe("planMovement", () => {
         field: "gal",
       });
     }
-    expect(planMovement([], { kind: "adjusted", locationId: 1, productId: 1, lotId: null, countedGal: -1 }, facts)).toMatchObject(
-      { ok: false, field: "countedGal" },
-    );
+    expect(
+      planMovement([], { kind: "adjusted", locationId: 1, productId: 1, lotId: null, countedGal: -1 }, facts),
+    ).toMatchObject({ ok: false, field: "countedGal" });
   });
 
   it("lets a product held for disposal go only to disposal", () => {
@@ -204,8 +204,7 @@ describe("the stock book over random movement sequences", () => {
             expect(usedByEvent(book, next.eventId).get(key) ?? 0).toBeCloseTo(target, 3);
             continue;
           }
-          const lotBefore =
-            next.kind === "adjusted" ? onHand(book, next.locationId, next.productId, next.lotId) : 0;
+          const lotBefore = next.kind === "adjusted" ? onHand(book, next.locationId, next.productId, next.lotId) : 0;
           const plan = apply(book, next);
           if (!plan.ok) {
             expect(book.length).toBe(before);
@@ -244,10 +243,14 @@ describe("the stock book over random movement sequences", () => {
         }
         // District-wide: transfers cancel; the rest is received − used − sampled − disposed ± adjusted.
         for (const productId of [1, 2]) {
-          const of = (kind: BookEntry["kind"]) => sumBy(book, (entry) => entry.productId === productId && entry.kind === kind);
+          const of = (kind: BookEntry["kind"]) =>
+            sumBy(book, (entry) => entry.productId === productId && entry.kind === kind);
           const district = sumBy(book, (entry) => entry.productId === productId);
           expect(of("transferred")).toBeCloseTo(0, 3);
-          expect(district).toBeCloseTo(of("received") + of("used") + of("sampled") + of("disposed") + of("adjusted"), 3);
+          expect(district).toBeCloseTo(
+            of("received") + of("used") + of("sampled") + of("disposed") + of("adjusted"),
+            3,
+          );
         }
         // Each report has used, per location, exactly what it was last filed with.
         for (const [key, target] of filed) {

@@ -69,7 +69,11 @@ export const HELD_ONLY_TO_DISPOSAL =
   "This product is held for disposal: it can only be sent for disposal (or counted), not moved or sampled.";
 
 /** What one location holds of one product, lot by lot (`null`: concentrate whose lot is not known). */
-export function holdings(book: readonly BookEntry[], locationId: number, productId: number): Map<number | null, number> {
+export function holdings(
+  book: readonly BookEntry[],
+  locationId: number,
+  productId: number,
+): Map<number | null, number> {
   const held = new Map<number | null, number>();
   for (const entry of book) {
     if (entry.locationId !== locationId || entry.productId !== productId) continue;
@@ -79,7 +83,12 @@ export function holdings(book: readonly BookEntry[], locationId: number, product
 }
 
 /** On hand of one product at one location, every lot together. */
-export function onHand(book: readonly BookEntry[], locationId: number, productId: number, lotId?: number | null): number {
+export function onHand(
+  book: readonly BookEntry[],
+  locationId: number,
+  productId: number,
+  lotId?: number | null,
+): number {
   const held = holdings(book, locationId, productId);
   if (lotId !== undefined) return held.get(lotId) ?? 0;
   let total = 0;
@@ -271,7 +280,9 @@ export function planMovement(book: readonly BookEntry[], request: StockRequest, 
       if (request.lotId != null && facts.lotProduct(request.lotId) !== request.productId) {
         return refuse("lotId", "This lot is not of the product chosen.");
       }
-      const variance = roundGal(request.countedGal - onHand(book, request.locationId, request.productId, request.lotId));
+      const variance = roundGal(
+        request.countedGal - onHand(book, request.locationId, request.productId, request.lotId),
+      );
       if (Math.abs(variance) <= EPSILON) return { ok: true, entries: [] };
       return { ok: true, entries: [{ kind: "adjusted", ...pick(request), lotId: request.lotId, gal: variance }] };
     }

@@ -39,7 +39,8 @@ const version = z.number({ error: "Reload the page and try again." }).int().posi
 export const ReceiveFormSchema = z.object({
   intent: z.literal("receive"),
   locationId: id("the location"),
-  version,
+  // Receiving adds to what is there, so it is never stale; a version sent is checked all the same.
+  version: version.optional(),
   productId: id("a product"),
   lotNumber: z
     .string({ error: "Enter the lot number from the container." })
