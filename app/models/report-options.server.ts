@@ -20,12 +20,13 @@ export async function reportFormOptions() {
       compressedAirCfm,
       outlets,
     })),
-    products: products.map(({ id, name, foamClass, nominalPercents, pfasContaining }) => ({
+    products: products.map(({ id, name, foamClass, nominalPercents, pfasContaining, heldForDisposal }) => ({
       id,
       name,
       foamClass,
       nominalPercents,
       pfasContaining,
+      heldForDisposal,
     })),
   };
 }
@@ -58,6 +59,7 @@ export function formValuesOf(report: NonNullable<ReportDetail>): Record<string, 
       minutes: line.startedAt && line.endedAt ? undefined : text(line.minutes),
       method: line.method ?? undefined,
       airFlowCfm: text(line.airFlowCfm),
+      heldUseReason: line.heldUseReason ?? undefined,
     })),
     dispositions: report.dispositions.map((line) => ({
       disposition: line.disposition,

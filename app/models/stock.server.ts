@@ -7,6 +7,7 @@ import { recordAudit } from "~/lib/audit.server";
 import type { SessionUser } from "~/lib/auth.server";
 import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
+import { concentrateCostSql } from "~/lib/stock/concentrate-cost";
 import {
   STOCK_LOCATION_KIND_LABELS,
   type FoamClass,
@@ -969,4 +970,12 @@ export async function listRecentCounts(locationId: number, limit = 5, connection
         varianceGal: decimalOrZero(line.variance_gal),
       })),
   }));
+}
+
+/** An event's concentrate cost (US $) at the catalogue's unit costs; null when no product used has one. */
+export async function eventConcentrateCost(eventId: number, connection: Db = db): Promise<number | null> {
+  const row = await connection("events as e")
+    .where("e.id", eventId)
+    .first(connection.raw(`${concentrateCostSql("e")} AS cost`));
+  return decimalOrNull(row?.cost);
 }
