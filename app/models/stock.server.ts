@@ -180,10 +180,14 @@ function checkVersion(location: LocationRow | undefined, field: string, version:
   }
 }
 
-async function runStockChange<T>(work: (trx: Knex.Transaction) => Promise<T>): Promise<T | Refusal> {
+async function runStockChange<T>(
+  work: (trx: Knex.Transaction) => Promise<T>,
+  connection: Knex = db,
+): Promise<T | Refusal> {
   try {
-    const outcome = await db.transaction(work);
-    deliverPendingMailSoon();
+    const outcome = await connection.transaction(work);
+    // The demo seed writes through its own connection and sends nothing.
+    if (connection === db) deliverPendingMailSoon();
     return outcome;
   } catch (error) {
     if (error instanceof RefusalError) return error.refusal;
@@ -217,6 +221,7 @@ export async function receiveStock(
   user: Actor,
   input: ReceiveInput,
   clientAddress?: string,
+  connection: Knex = db,
 ): Promise<{ kind: "done"; lotId: number; movementIds: number[] } | Refusal> {
   return runStockChange(async (trx) => {
     const locations = await lockLocations(trx, [input.locationId]);
@@ -273,7 +278,7 @@ export async function receiveStock(
     );
     await queueStockAlerts(trx);
     return { kind: "done" as const, lotId, movementIds };
-  });
+  }, connection);
 }
 
 export type MoveInput = {
@@ -294,6 +299,7 @@ export async function moveStock(
   user: Actor,
   input: MoveInput,
   clientAddress?: string,
+  connection: Knex = db,
 ): Promise<{ kind: "done"; movementIds: number[] } | Refusal> {
   return runStockChange(async (trx) => {
     const ids =
@@ -348,7 +354,7 @@ export async function moveStock(
     );
     await queueStockAlerts(trx);
     return { kind: "done" as const, movementIds };
-  });
+  }, connection);
 }
 
 export type CountInput = {
@@ -375,6 +381,7 @@ export async function recordStockCount(
   user: Actor,
   input: CountInput,
   clientAddress?: string,
+  connection: Knex = db,
 ): Promise<{ kind: "done"; countId: number; lines: CountLineResult[] } | Refusal> {
   return runStockChange(async (trx) => {
     const locations = await lockLocations(trx, [input.locationId]);
@@ -453,7 +460,7 @@ export async function recordStockCount(
     );
     await queueStockAlerts(trx);
     return { kind: "done" as const, countId, lines: results };
-  });
+  }, connection);
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -598,7 +605,7 @@ export async function postReportStock(trx: Knex.Transaction, eventId: number, ac
       actorUserId: actor.id,
       actorLabel: actor.email,
       action: "stock_used_by_report",
-      entityType: "event",
+      entityType: "stock_report_use",
       entityId: eventId,
       summary: `Stock book brought in line with report ${event.number}: ${entries.length} movement${entries.length === 1 ? "" : "s"}`,
       after: { movementIds },
@@ -795,6 +802,7 @@ export async function addStockLocation(
   user: Actor,
   input: NewLocationInput,
   clientAddress?: string,
+  connection: Knex = db,
 ): Promise<{ kind: "done"; id: number } | Refusal> {
   return runStockChange(async (trx) => {
     if (await trx("stock_locations").where({ name: input.name }).first("id")) {
@@ -831,7 +839,7 @@ export async function addStockLocation(
       trx,
     );
     return { kind: "done" as const, id };
-  });
+  }, connection);
 }
 
 /** Sets (or, with null, removes) the reorder point of a product at a location. */
@@ -839,6 +847,7 @@ export async function setReorderPoint(
   user: Actor,
   input: { locationId: number; productId: number; reorderGal: number | null },
   clientAddress?: string,
+  connection: Knex = db,
 ): Promise<{ kind: "done" } | Refusal> {
   return runStockChange(async (trx) => {
     if (!(await trx("stock_locations").where({ id: input.locationId }).first("id"))) {
@@ -870,7 +879,7 @@ export async function setReorderPoint(
     );
     await queueStockAlerts(trx);
     return { kind: "done" as const };
-  });
+  }, connection);
 }
 
 export type StockProductOption = { id: number; name: string; foamClass: FoamClass; heldForDisposal: boolean };
