@@ -92,7 +92,8 @@ export default function StockCountPage({ loaderData, actionData }: Route.Compone
       lines: book.map((item) => ({
         productId: String(item.product.id),
         lotId: item.lot ? String(item.lot.id) : undefined,
-        countedGal: String(item.onHandGal),
+        // A book below zero (use booked past the known lots) is counted from zero up.
+        countedGal: String(Math.max(0, item.onHandGal)),
       })),
     },
   });
