@@ -214,7 +214,7 @@ export default function StockMovementsPage({ loaderData, actionData }: Route.Com
                       {movement.eventNumber}
                     </Link>
                   ) : null}
-                  {[movement.reason, movement.reference].filter(Boolean).join(" · ")}
+                  {movement.eventId ? "" : [movement.reason, movement.reference].filter(Boolean).join(" · ")}
                 </td>
               </tr>
             ))}

@@ -29,7 +29,14 @@ test.describe("the concentrate stock book", () => {
     await move.getByLabel("To (for a transfer)").selectOption({ label: "E2 tank" });
     await move.getByLabel("Product").selectOption({ label: "Bendwater Class A (demo)" });
     await move.getByLabel("Lot").selectOption({ label: `${lot} — Bendwater Class A (demo), 20 gal` });
+    // A negative quantity is refused at the field, nothing booked.
+    await move.getByLabel("Quantity (gal)").fill("-4");
+    await move.getByRole("button", { name: "Book the movement" }).click();
+    await expect(move.getByText("Enter a quantity of more than 0 gallons.")).toBeVisible();
+    // Leaving the field clears its message first, so the button does not move under the pointer.
     await move.getByLabel("Quantity (gal)").fill("10");
+    await move.getByLabel("Quantity (gal)").press("Tab");
+    await expect(move.getByText("Enter a quantity of more than 0 gallons.")).toHaveCount(0);
     await move.getByRole("button", { name: "Book the movement" }).click();
     await expect(keeper.getByRole("status")).toHaveText("Transferred: 10 gal booked.");
 

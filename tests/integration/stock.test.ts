@@ -15,8 +15,10 @@ import { action as updateAction } from "~/routes/api.events.$id";
 import { action as createAction } from "~/routes/api.events";
 import { loader as stockLoader } from "~/routes/api.stock";
 import { loader as movementsLoader } from "~/routes/api.stock.movements";
-import { makeUser } from "../support/factories";
-import { getRequest, jsonRequest, routeArgs, settle } from "../support/requests";
+import { action as moveAction } from "~/routes/stock.movements";
+import { signIn } from "../support/session";
+import { makeUser, TEST_PASSWORD } from "../support/factories";
+import { formRequest, getRequest, jsonRequest, routeArgs, settle } from "../support/requests";
 import { ensureAgency, makeApparatus, makeProduct, makeStation } from "../support/usage-fixtures";
 
 const ORIGIN = new URL(jsonRequest("/", {}).url).origin;
@@ -293,6 +295,37 @@ describe("moving and counting stock", () => {
       gal: 1,
     });
     expect(stale).toMatchObject({ kind: "conflict" });
+    expect(await count()).toBe(before);
+  });
+
+  it("answers the move form's negative or non-numeric quantity with 400 at the field", async () => {
+    const cookie = await signIn(keeper.email, TEST_PASSWORD, "10.15.0.1");
+    const count = async () => Number((await db("stock_movements").count({ n: "*" }).first())!.n);
+    const before = await count();
+    for (const gal of ["-4", "ten"]) {
+      const { value } = await settle(() =>
+        moveAction(
+          routeArgs(
+            formRequest(
+              "/stock/movements",
+              {
+                kind: "transferred",
+                locationId: String(storeId),
+                version: String(1),
+                toLocationId: String(tankId),
+                productId: String(classB),
+                gal,
+                at: "2026-07-01T10:00",
+              },
+              { Cookie: cookie },
+            ),
+          ),
+        ),
+      );
+      const answer = value as { init: { status: number }; data: { result: { error: Record<string, string[]> } } };
+      expect(answer.init.status).toBe(400);
+      expect(answer.data.result.error.gal?.[0]).toMatch(/gallons/);
+    }
     expect(await count()).toBe(before);
   });
 
