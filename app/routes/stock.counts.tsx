@@ -79,11 +79,18 @@ export async function action({ request }: Route.ActionArgs) {
 const gal = (value: number, sign = false) =>
   value.toLocaleString("en-US", { maximumFractionDigits: 2, signDisplay: sign ? "exceptZero" : "auto" });
 
-export default function StockCountPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { location, locations, book, counts, now, canManage } = loaderData;
+type CountFormProps = {
+  location: NonNullable<Route.ComponentProps["loaderData"]["location"]>;
+  book: Route.ComponentProps["loaderData"]["book"];
+  now: string;
+  lastResult: NonNullable<Route.ComponentProps["actionData"]>["result"] | undefined;
+};
+
+/** The count of one location; keyed by the location and its version, so it opens on the current book. */
+function CountForm({ location, book, now, lastResult }: CountFormProps) {
   const [form, fields] = useForm({
     id: "count",
-    lastResult: actionData?.result,
+    lastResult,
     constraint: getZodConstraint(CountFormSchema),
     shouldValidate: "onBlur",
     onValidate: ({ formData }) => parseWithZod(formData, { schema: CountFormSchema }),
@@ -98,6 +105,72 @@ export default function StockCountPage({ loaderData, actionData }: Route.Compone
     },
   });
   const lines = fields.lines.getFieldList();
+  return (
+    <Form method="post" className="card space-y-4" {...getFormProps(form)} aria-labelledby="count-title">
+      <h2 id="count-title" className="text-lg font-semibold">
+        What was found
+      </h2>
+      <p className="text-sm text-slate-ft">
+        Enter what is really there, lot by lot. Where it differs from the book, the difference is posted as an
+        adjustment with the reason below.
+      </p>
+      <FormErrors id={form.errorId} errors={form.errors} />
+      <input type="hidden" name="locationId" value={location.id} />
+      <input type="hidden" name="version" value={location.version} />
+      <table className="data-table">
+        <thead>
+          <tr>
+            <th scope="col">Product</th>
+            <th scope="col">Lot</th>
+            <th scope="col">Book (gal)</th>
+            <th scope="col">Counted (gal)</th>
+          </tr>
+        </thead>
+        <tbody>
+          {lines.map((line, index) => {
+            const item = book[index];
+            const parts = line.getFieldset();
+            const counted = getInputProps(parts.countedGal, { type: "text" });
+            return (
+              <tr key={line.key}>
+                <td>
+                  {item?.product.name}
+                  {item?.product.heldForDisposal ? ` — ${HELD_FOR_DISPOSAL_LABEL}` : ""}
+                  <input type="hidden" name={parts.productId.name} value={parts.productId.initialValue ?? ""} />
+                  {parts.lotId.initialValue ? (
+                    <input type="hidden" name={parts.lotId.name} value={parts.lotId.initialValue} />
+                  ) : null}
+                </td>
+                <td>{item?.lot?.number ?? UNKNOWN_LOT_LABEL}</td>
+                <td>{item ? gal(item.onHandGal) : ""}</td>
+                <td>
+                  <label className="sr-only" htmlFor={parts.countedGal.id}>
+                    Counted gallons of {item?.product.name} lot {item?.lot?.number ?? UNKNOWN_LOT_LABEL}
+                  </label>
+                  <input {...counted} key={counted.key} inputMode="decimal" className="field-input w-32" />
+                  <ErrorList id={parts.countedGal.errorId} errors={parts.countedGal.errors} />
+                </td>
+              </tr>
+            );
+          })}
+        </tbody>
+      </table>
+      <TextField label="Counted at" field={fields.countedAt} type="datetime-local" />
+      <TextField
+        label="Reason for any difference"
+        field={fields.reason}
+        autoComplete="off"
+        hint="Required when the count differs from the book, e.g. a leaking drum or an unrecorded top-up."
+      />
+      <button type="submit" className="btn-primary">
+        Record the count
+      </button>
+    </Form>
+  );
+}
+
+export default function StockCountPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { location, locations, book, counts, now, canManage } = loaderData;
   return (
     <div className="space-y-8">
       <p>
@@ -125,66 +198,13 @@ export default function StockCountPage({ loaderData, actionData }: Route.Compone
 
       {location && canManage ? (
         book.length ? (
-          <Form method="post" className="card space-y-4" {...getFormProps(form)} aria-labelledby="count-title">
-            <h2 id="count-title" className="text-lg font-semibold">
-              What was found
-            </h2>
-            <p className="text-sm text-slate-ft">
-              Enter what is really there, lot by lot. Where it differs from the book, the difference is posted as an
-              adjustment with the reason below.
-            </p>
-            <FormErrors id={form.errorId} errors={form.errors} />
-            <input type="hidden" name="locationId" value={location.id} />
-            <input type="hidden" name="version" value={location.version} />
-            <table className="data-table">
-              <thead>
-                <tr>
-                  <th scope="col">Product</th>
-                  <th scope="col">Lot</th>
-                  <th scope="col">Book (gal)</th>
-                  <th scope="col">Counted (gal)</th>
-                </tr>
-              </thead>
-              <tbody>
-                {lines.map((line, index) => {
-                  const item = book[index];
-                  const parts = line.getFieldset();
-                  const counted = getInputProps(parts.countedGal, { type: "text" });
-                  return (
-                    <tr key={line.key}>
-                      <td>
-                        {item?.product.name}
-                        {item?.product.heldForDisposal ? ` — ${HELD_FOR_DISPOSAL_LABEL}` : ""}
-                        <input type="hidden" name={parts.productId.name} value={parts.productId.initialValue ?? ""} />
-                        {parts.lotId.initialValue ? (
-                          <input type="hidden" name={parts.lotId.name} value={parts.lotId.initialValue} />
-                        ) : null}
-                      </td>
-                      <td>{item?.lot?.number ?? UNKNOWN_LOT_LABEL}</td>
-                      <td>{item ? gal(item.onHandGal) : ""}</td>
-                      <td>
-                        <label className="sr-only" htmlFor={parts.countedGal.id}>
-                          Counted gallons of {item?.product.name} lot {item?.lot?.number ?? UNKNOWN_LOT_LABEL}
-                        </label>
-                        <input {...counted} key={counted.key} inputMode="decimal" className="field-input w-32" />
-                        <ErrorList id={parts.countedGal.errorId} errors={parts.countedGal.errors} />
-                      </td>
-                    </tr>
-                  );
-                })}
-              </tbody>
-            </table>
-            <TextField label="Counted at" field={fields.countedAt} type="datetime-local" />
-            <TextField
-              label="Reason for any difference"
-              field={fields.reason}
-              autoComplete="off"
-              hint="Required when the count differs from the book, e.g. a leaking drum or an unrecorded top-up."
-            />
-            <button type="submit" className="btn-primary">
-              Record the count
-            </button>
-          </Form>
+          <CountForm
+            key={`${location.id}:${location.version}`}
+            location={location}
+            book={book}
+            now={now}
+            lastResult={actionData?.result}
+          />
         ) : (
           <p>The book holds nothing at this location; receive or move concentrate here first.</p>
         )
