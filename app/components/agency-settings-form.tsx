@@ -117,6 +117,11 @@ function CurrentValues({ settings }: { settings: AgencySettingsView }) {
       "Attachments",
       `at most ${settings.attachmentMaxMb} MB a file and ${settings.attachmentsPerEvent} files a report; removed files kept ${settings.attachmentRetentionDays} days`,
     ],
+    ["Quality sample interval", `${settings.qualitySampleIntervalMonths} months (NFPA 11 §13.2.6)`],
+    [
+      "Typical Class B attack",
+      `${formatNumber(settings.classBAttackSolutionGpm)} gpm of foam solution at ${formatNumber(settings.classBAttackPercent)} %`,
+    ],
   ];
   return (
     <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
@@ -173,6 +178,9 @@ export function AgencySettingsForm({
       attachmentMaxMb: String(settings.attachmentMaxMb),
       attachmentsPerEvent: String(settings.attachmentsPerEvent),
       attachmentRetentionDays: String(settings.attachmentRetentionDays),
+      qualitySampleIntervalMonths: String(settings.qualitySampleIntervalMonths),
+      classBAttackSolutionGpm: String(settings.classBAttackSolutionGpm),
+      classBAttackPercent: String(settings.classBAttackPercent),
     },
     onValidate: ({ formData }) => parseWithZod(formData, { schema: AgencySettingsSchema }),
   });
@@ -332,6 +340,24 @@ export function AgencySettingsForm({
             field={fields.flushIntervalDays}
             unit="days"
             hint="Default 90 days: common practice, no source. A flush after use or before a product change counts too."
+          />
+          <NumberField
+            label="Quality sample interval for stored concentrate"
+            field={fields.qualitySampleIntervalMonths}
+            unit="months"
+            hint="NFPA 11 (2021) §13.2.6 calls for periodic samples of concentrate for quality tests. Default 12 months: common practice, no source for the interval. A lot in stock whose last sample is older is flagged and alerted."
+          />
+          <NumberField
+            label="Typical Class B attack: foam-solution flow"
+            field={fields.classBAttackSolutionGpm}
+            unit="gpm"
+            hint="Stock readiness says how many minutes of this attack the Class B concentrate on hand supports. Default 95 gpm: common practice, no source."
+          />
+          <NumberField
+            label="Typical Class B attack: percentage"
+            field={fields.classBAttackPercent}
+            unit="%"
+            hint="Of foam solution (NFPA 11 §12.6.5 convention). Default 3 %: 95 gpm at 3 % draws 2.85 gpm of concentrate."
           />
         </section>
 

@@ -18,6 +18,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: "/geography", label: "Drainage layers", capability: "geography.edit" },
   { to: "/environmental", label: "Quarterly summaries", capability: "exports.quarterly" },
   { to: "/admin/outbox", label: "Mail outbox", capability: "outbox.view", demoOnly: true },
+  { to: "/stock", label: "Concentrate stock", capability: "stock.read" },
 ];
 
 export function navFor(roles: readonly Role[], demoMode = false): NavItem[] {

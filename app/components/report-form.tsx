@@ -61,6 +61,7 @@ export type ProductOption = {
   foamClass: FoamClass;
   nominalPercents: number[];
   pfasContaining: boolean;
+  heldForDisposal?: boolean;
 };
 export type OutletOption = {
   name: string;
@@ -671,7 +672,7 @@ function DischargeLine({ name, index, listName, full, result, ...props }: Discha
           options={choices(
             props.products.map((option) => [
               String(option.id),
-              `${option.name} (${FOAM_CLASS_LABELS[option.foamClass]}${option.pfasContaining ? ", contains PFAS" : ""})`,
+              `${option.name} (${FOAM_CLASS_LABELS[option.foamClass]}${option.pfasContaining ? ", contains PFAS" : ""}${option.heldForDisposal ? ", held for disposal" : ""})`,
             ]),
           )}
           onChange={(event) => {
@@ -713,6 +714,16 @@ function DischargeLine({ name, index, listName, full, result, ...props }: Discha
         <TextField label="End" field={row.endedAt} type="datetime-local" />
         {values.method === "compressed_air" ? (
           <TextField label="Air flow (cfm)" field={row.airFlowCfm} inputMode="decimal" />
+        ) : null}
+        {product?.heldForDisposal || values.heldUseReason ? (
+          <div className="sm:col-span-2 lg:col-span-4">
+            <TextField
+              label="Why foam held for disposal was used"
+              field={row.heldUseReason}
+              autoComplete="off"
+              hint="This product is held for disposal (legacy PFAS foam). Choose another, or say why it was used; the reason is kept with the report."
+            />
+          </div>
         ) : null}
       </div>
       <LineResult result={result} />

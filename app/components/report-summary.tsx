@@ -8,6 +8,7 @@ import {
   FLOW_BASIS_LABELS,
   FLOW_UNIT_LABELS,
   foamClassLabel,
+  HELD_FOR_DISPOSAL_LABEL,
   VOLUME_LABELS,
   VOLUMES,
   WATER_ONLY_LABEL,
@@ -40,6 +41,8 @@ type Line = {
   basis: "water" | "solution";
   minutes: number;
   method: string | null;
+  /** Why a product held for disposal was used all the same. */
+  heldUseReason?: string | null;
   water: number;
   concentrate: number;
   solution: number;
@@ -62,6 +65,8 @@ export type SummaryReport = {
   pfasContaining: boolean;
   eventWarnings: UsageWarning[];
   totals: { water: number; concentrate: number; solution: number };
+  /** Concentrate × the products' unit costs (US $), where the catalogue has them. */
+  concentrateCostUsd?: number | null;
   geography: GeographyChecks;
   discharges: Line[];
   dispositions: Array<{
@@ -138,6 +143,13 @@ export function ReportSummary({ report }: { report: SummaryReport }) {
             </div>
           ))}
         </dl>
+        {report.concentrateCostUsd != null ? (
+          <p className="mt-3 text-sm" data-testid="concentrate-cost">
+            Concentrate cost: US $
+            {report.concentrateCostUsd.toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 })}{" "}
+            at the catalogue&apos;s current unit costs — a basis for cost recovery, not an invoice.
+          </p>
+        ) : null}
         {report.eventWarnings.map((warning) => (
           <p key={warning.code} className="caution mt-3" role="note">
             {warning.message}
@@ -230,6 +242,11 @@ export function ReportSummary({ report }: { report: SummaryReport }) {
                   {line.product ? `${line.product} (${foamClassLabel(line.foamClass)})` : WATER_ONLY_LABEL}
                   {line.pfasContaining ? (
                     <span className="ml-1 rounded bg-danger-50 px-1 text-xs font-bold text-danger-700">PFAS</span>
+                  ) : null}
+                  {line.heldUseReason ? (
+                    <span className="block text-xs">
+                      {HELD_FOR_DISPOSAL_LABEL}; used because: {line.heldUseReason}
+                    </span>
                   ) : null}
                 </td>
                 <td>

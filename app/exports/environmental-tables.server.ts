@@ -1,3 +1,4 @@
+import { CONCENTRATE_COST_HEADER } from "~/lib/stock/concentrate-cost";
 import type { Db } from "~/lib/db.server";
 import { figureBasis } from "~/lib/foam/figure-basis";
 import {
@@ -87,6 +88,7 @@ export function eventTable(wall: WallClock): DetailTable<EventExportRow> {
         value: (r) => r.unaccountedGallons,
       },
       { key: "pfas", header: "PFAS-containing foam", width: 11, value: (r) => r.pfasContaining },
+      { key: "cost", header: CONCENTRATE_COST_HEADER, width: 14, numFmt: "#,##0.00", value: (r) => r.concentrateCost },
       { key: "warnings", header: "Has warnings", width: 10, value: (r) => r.hasWarnings },
       { key: "eventWarnings", header: "Event warnings", width: 40, value: (r) => r.eventWarnings },
       { key: "mutualAid", header: "Mutual-aid units", width: 24, value: (r) => r.mutualAid },

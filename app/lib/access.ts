@@ -184,6 +184,18 @@ export const CAPABILITIES = {
     does: "receive release alerts by e-mail when a filed report may have released foam",
     grants: [{ roles: ["environmental"] }],
   }),
+  "stock.read": plain({
+    does: "read the concentrate stock book: what each location holds, lots, movements, readiness",
+    grants: [{ roles: ["officer", "environmental", "chief"] }],
+  }),
+  "stock.manage": plain({
+    does: "receive concentrate, move it, take quality samples, send it for disposal, count it, set reorder points",
+    grants: [{ roles: ["environmental", "chief"] }],
+  }),
+  "alerts.stock": plain({
+    does: "receive stock alerts by e-mail: below a reorder point, past shelf life, quality sample due",
+    grants: [{ roles: ["environmental"] }],
+  }),
   "records.manage": plain({
     does: "work the public-records queue: requesters' contact details, due dates, extensions and release packages",
     grants: [{ roles: ["records", "admin"] }],
@@ -333,6 +345,11 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "records/:id/files/:fileId": { GET: "records.manage" },
   "records/:id/attachments/:attachmentId": { GET: "records.manage", POST: "records.manage" },
   "records/:id/attachments/:attachmentId/thumbnail": { GET: "records.manage" },
+  stock: { GET: "stock.read", POST: "stock.manage" },
+  "stock/movements": { GET: "stock.read", POST: "stock.manage" },
+  "stock/counts": { GET: "stock.read", POST: "stock.manage" },
+  "api/stock": { GET: "stock.read" },
+  "api/stock/movements": { GET: "stock.read" },
   "api/records-requests": { GET: "records.manage" },
   "api/records-requests/:id": { GET: "records.manage" },
   "api/records-requests/:id/attachments": { GET: "records.manage", POST: "records.manage" },

@@ -14,6 +14,15 @@ export const WATERWAY_BUFFER_BASIS =
 export const DEFAULT_DRAWDOWN_TOLERANCE_SHARE = 0.15;
 /** 1 lb in 24 h: CERCLA reportable quantity for PFOA/PFOS, 40 CFR 302.4 (89 FR 39124). */
 export const DEFAULT_PFAS_REPORTABLE_LB = 1;
+/**
+ * 12 months between quality samples of stored concentrate. NFPA 11 (2021) §13.2.6 calls for samples
+ * of concentrate to be tested periodically for quality condition; annually is common practice, no
+ * source for the interval itself — the agency sets it.
+ */
+export const DEFAULT_QUALITY_SAMPLE_INTERVAL_MONTHS = 12;
+/** A typical Class B attack line: 95 gpm of foam solution at 3 % (issue 15's example; common practice, no source). */
+export const DEFAULT_CLASS_B_ATTACK_SOLUTION_GPM = 95;
+export const DEFAULT_CLASS_B_ATTACK_PERCENT = 3;
 /** 30 %: from memory, low confidence — no published figure for Class A apparatus systems was found. */
 export const DEFAULT_CLASS_A_ACCURACY_SHARE = 0.3;
 
@@ -197,6 +206,25 @@ export const AgencySettingsSchema = z.object({
     .min(1, "At least 1 day.")
     .max(730, "At most 730 days.")
     .optional(),
+  // Optional so that a form from before the stock settings existed keeps the stored values.
+  qualitySampleIntervalMonths: z
+    .number({ error: "Give the interval in whole months, as a number." })
+    .int("Give the interval in whole months.")
+    .min(1, "At least 1 month.")
+    .max(60, "At most 60 months.")
+    .optional(),
+  classBAttackSolutionGpm: z
+    .number({ error: "Give the attack flow in gpm, as a number." })
+    .gt(0, "The flow must be more than 0 gpm.")
+    .max(5000, "At most 5,000 gpm.")
+    .refine((value) => decimals(value, 2), "At most two decimals.")
+    .optional(),
+  classBAttackPercent: z
+    .number({ error: "Give the percentage as a number." })
+    .gt(0, "The percentage must be more than 0 %.")
+    .max(10, "At most 10 %.")
+    .refine((value) => decimals(value, 2), "At most two decimals.")
+    .optional(),
   /** A checkbox: present ("on") when ticked, absent when not. */
   releaseAlertsToChief: z.preprocess((value) => value === "on" || value === true || value === "true", z.boolean()),
 });
@@ -233,6 +261,11 @@ export type AgencySettings = {
   attachmentMaxMb: number;
   attachmentsPerEvent: number;
   attachmentRetentionDays: number;
+  /** Months between quality samples of a lot in stock (NFPA 11 §13.2.6 periodic samples). */
+  qualitySampleIntervalMonths: number;
+  /** The typical Class B attack readiness is measured in: foam-solution flow and percentage. */
+  classBAttackSolutionGpm: number;
+  classBAttackPercent: number;
   updatedAt: string | null;
   /** A fingerprint of the stored row: a save names the version it started from. */
   version: string;

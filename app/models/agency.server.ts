@@ -31,6 +31,9 @@ function auditedValues(settings: AuditedSettings): AuditedSettings {
     attachmentMaxMb: settings.attachmentMaxMb,
     attachmentsPerEvent: settings.attachmentsPerEvent,
     attachmentRetentionDays: settings.attachmentRetentionDays,
+    qualitySampleIntervalMonths: settings.qualitySampleIntervalMonths,
+    classBAttackSolutionGpm: settings.classBAttackSolutionGpm,
+    classBAttackPercent: settings.classBAttackPercent,
   };
 }
 
@@ -76,6 +79,9 @@ export async function saveAgencySettings(
       attachment_max_mb: input.attachmentMaxMb ?? before.attachmentMaxMb,
       attachments_per_event: input.attachmentsPerEvent ?? before.attachmentsPerEvent,
       attachment_retention_days: input.attachmentRetentionDays ?? before.attachmentRetentionDays,
+      quality_sample_interval_months: input.qualitySampleIntervalMonths ?? before.qualitySampleIntervalMonths,
+      class_b_attack_solution_gpm: input.classBAttackSolutionGpm ?? before.classBAttackSolutionGpm,
+      class_b_attack_percent: input.classBAttackPercent ?? before.classBAttackPercent,
     };
     const afterValues = auditedValues({
       ...input,
@@ -87,6 +93,9 @@ export async function saveAgencySettings(
       classAAccuracyShare: values.class_a_accuracy_share,
       accuracyTestIntervalMonths: values.accuracy_test_interval_months,
       flushIntervalDays: values.flush_interval_days,
+      qualitySampleIntervalMonths: values.quality_sample_interval_months,
+      classBAttackSolutionGpm: values.class_b_attack_solution_gpm,
+      classBAttackPercent: values.class_b_attack_percent,
     });
     const beforeValues = auditedValues(before);
     const changed = (Object.keys(afterValues) as (keyof typeof afterValues)[]).filter(

@@ -96,6 +96,8 @@ export type ProductSpec = {
   safetySheetKey?: string | null;
   safetySheetName?: string | null;
   active?: boolean;
+  heldForDisposal?: boolean;
+  shelfLifeMonths?: number | null;
   notes?: string | null;
 };
 
@@ -118,6 +120,8 @@ export function productColumns(spec: ProductSpec) {
     pfas_content_source: spec.pfasContentSource ?? null,
     unit_cost_per_gal: spec.unitCostPerGal ?? null,
     active: spec.active ?? true,
+    held_for_disposal: spec.heldForDisposal ?? false,
+    shelf_life_months: spec.shelfLifeMonths ?? null,
     notes: spec.notes ?? null,
   };
 }

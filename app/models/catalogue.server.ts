@@ -22,13 +22,15 @@ export type ActiveProduct = {
   foamType: FoamType;
   nominalPercents: number[];
   pfasContaining: boolean;
+  /** Legacy foam waiting for disposal: a report that uses it says why. */
+  heldForDisposal: boolean;
 };
 
 /** Products an officer may choose on a usage report, by name. */
 export async function listActiveProducts(connection: Db = db): Promise<ActiveProduct[]> {
   const rows = await connection("foam_products")
     .where({ active: true })
-    .select("id", "name", "foam_class", "foam_type", "nominal_percents", "pfas_containing")
+    .select("id", "name", "foam_class", "foam_type", "nominal_percents", "pfas_containing", "held_for_disposal")
     .orderBy("name");
   return rows.map((row) => ({
     id: row.id,
@@ -37,6 +39,7 @@ export async function listActiveProducts(connection: Db = db): Promise<ActivePro
     foamType: row.foam_type,
     nominalPercents: nominalPercentsOf(row.nominal_percents),
     pfasContaining: Boolean(row.pfas_containing),
+    heldForDisposal: Boolean(row.held_for_disposal),
   }));
 }
 

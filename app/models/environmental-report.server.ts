@@ -1,3 +1,4 @@
+import { concentrateCostSql } from "~/lib/stock/concentrate-cost";
 import type { Knex } from "knex";
 import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
@@ -236,6 +237,8 @@ export type EventExportRow = {
   eventWarnings: string;
   /** Foam solution no runoff line accounts for (US gal). */
   unaccountedGallons: number;
+  /** Concentrate × unit cost (US $); null when no product used has a unit cost. */
+  concentrateCost: number | null;
 };
 
 const yesNo = (value: unknown): string => (value === null || value === undefined ? "" : Number(value) ? "Yes" : "No");
@@ -273,6 +276,7 @@ export async function* streamEventRows(period: ReportPeriod, connection: Db = db
       "e.has_warnings",
       "e.event_warnings",
       connection.raw(`${unaccountedGallonsSql("e")} AS unaccounted_gal`),
+      connection.raw(`${concentrateCostSql("e")} AS concentrate_cost`),
     )
     .orderBy(["e.started_at", "e.id"]);
   for await (const row of query.stream()) {
@@ -301,6 +305,7 @@ export async function* streamEventRows(period: ReportPeriod, connection: Db = db
       hasWarnings: yesNo(row.has_warnings),
       eventWarnings: warningText(row.event_warnings),
       unaccountedGallons: num(row.unaccounted_gal),
+      concentrateCost: numOrNull(row.concentrate_cost),
     };
   }
 }

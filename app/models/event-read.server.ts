@@ -170,6 +170,7 @@ function reportDetailOf({ event, discharges, dispositions, tankReadings }: Repor
       minutes: decimalOrZero(row.minutes),
       method: (row.method as string | null) ?? null,
       airFlowCfm: decimalOrNull(row.air_flow_cfm),
+      heldUseReason: (row.held_use_reason as string | null) || null,
       water: decimalOrZero(row.water_gal),
       concentrate: decimalOrZero(row.concentrate_gal),
       solution: decimalOrZero(row.solution_gal),

@@ -32,6 +32,7 @@ import { reportRecordOf } from "./event-read.server";
 import { recomputeEventGeography } from "./geography.server";
 import { deliverPendingMailSoon } from "./mail-outbox.server";
 import { queueFiledReportAlerts, queueReturnedReportNotice } from "./report-notifications.server";
+import { postReportStock } from "./stock.server";
 import {
   dischargeInputs,
   tankReadingInputs,
@@ -63,6 +64,7 @@ function storedDischarges(lines: DischargeLine[], timeZone: string): ReportDisch
     airFlowCfm: line.airFlowCfm ?? null,
     mutualAidAgency: line.mutualAidAgency || null,
     mutualAidUnit: line.mutualAidUnit || null,
+    heldUseReason: line.heldUseReason ?? null,
   }));
 }
 
@@ -560,6 +562,7 @@ export async function saveReport(saveRequest: SaveRequest): Promise<SaveOutcome>
       await auditReport(trx, request, eventId, change, before, loaded.lines);
       await recomputeEventGeography(eventId, trx);
       if (filing) await queueFiledReportAlerts(eventId, trx);
+      if (filing) await postReportStock(trx, eventId, request.user);
       return { kind: "saved", eventId, status: change.status, usage: loaded.usage };
     });
     if (outcome.kind === "saved" && outcome.status === "filed") deliverPendingMailSoon();

@@ -9,7 +9,8 @@ export type MailKind =
   | "records_acknowledgement"
   | "records_release"
   | "password_reset"
-  | "foam_system_reminder";
+  | "foam_system_reminder"
+  | "stock_alert";
 
 export type QueuedMail = {
   kind: MailKind;

@@ -32,6 +32,8 @@ export type ProductRecord = {
   safetySheetName: string | null;
   hasSafetySheet: boolean;
   active: boolean;
+  heldForDisposal: boolean;
+  shelfLifeMonths: number | null;
   notes: string | null;
   /** Raised by every save; an edit must name the version it started from. */
   version: number;
@@ -58,6 +60,8 @@ function recordOf(row: Record<string, unknown>): ProductRecord {
     safetySheetName: (row.safety_sheet_name as string | null) ?? null,
     hasSafetySheet: Boolean(row.safety_sheet_key),
     active: Boolean(row.active),
+    heldForDisposal: Boolean(row.held_for_disposal),
+    shelfLifeMonths: row.shelf_life_months == null ? null : Number(row.shelf_life_months),
     notes: (row.notes as string | null) ?? null,
     version: Number(row.version ?? 1),
   };

@@ -39,12 +39,13 @@ export async function reportFormOptions() {
           outOfTolerance: system.outOfTolerance.some((span) => span.to == null),
         })),
     })),
-    products: products.map(({ id, name, foamClass, nominalPercents, pfasContaining }) => ({
+    products: products.map(({ id, name, foamClass, nominalPercents, pfasContaining, heldForDisposal }) => ({
       id,
       name,
       foamClass,
       nominalPercents,
       pfasContaining,
+      heldForDisposal,
     })),
   };
 }
@@ -81,6 +82,7 @@ export function formValuesOf(report: NonNullable<ReportDetail>): Record<string, 
       airFlowCfm: text(line.airFlowCfm),
       mutualAidAgency: line.mutualAidAgency ?? undefined,
       mutualAidUnit: line.mutualAidUnit ?? undefined,
+      heldUseReason: line.heldUseReason ?? undefined,
     })),
     dispositions: report.dispositions.map((line) => ({
       disposition: line.disposition,

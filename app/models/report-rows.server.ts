@@ -33,6 +33,8 @@ export type ReportDischarge = {
   /** Another agency's unit (mutual aid), as typed; such a line names no apparatus of ours. */
   mutualAidAgency?: string | null;
   mutualAidUnit?: string | null;
+  /** Why a product held for disposal was used all the same. */
+  heldUseReason?: string | null;
 };
 
 export type ReportRunoff = {
@@ -146,6 +148,7 @@ export function dischargeRows(eventId: number, discharges: readonly ReportDischa
       air_flow_cfm: line.airFlowCfm ?? null,
       mutual_aid_agency: line.mutualAidAgency || null,
       mutual_aid_unit: line.mutualAidUnit || null,
+      held_use_reason: line.heldUseReason || null,
       water_gal: result.water.gal,
       concentrate_gal: result.concentrate.gal,
       solution_gal: result.solution.gal,

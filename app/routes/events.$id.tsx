@@ -18,6 +18,7 @@ import { refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { reviewReport } from "~/models/event.server";
 import { getReport, listRevisions, reportAccessRecord, reportHistory } from "~/models/event-read.server";
+import { eventConcentrateCost } from "~/models/stock.server";
 import { readAgencySettings } from "~/models/agency-settings.server";
 import { listReleaseNotifications } from "~/models/release-notification.server";
 import { eventReportableQuantity } from "~/models/environmental-report.server";
@@ -34,7 +35,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { draft: _draft, ...visible } = report;
   const settings = await readAgencySettings();
   return {
-    report: visible,
+    report: { ...visible, concentrateCostUsd: await eventConcentrateCost(report.id) },
     history: await reportHistory(report.id),
     revisions: await listRevisions(report.id),
     canReview: report.status === "filed" && can(user, "report.review", report),

@@ -142,6 +142,8 @@ export default function ProductPage({ loaderData, actionData }: Route.ComponentP
           pfasContentSource: product.pfasContentSource ?? undefined,
           unitCostPerGal: product.unitCostPerGal?.toString(),
           active: product.active ? "on" : undefined,
+          heldForDisposal: product.heldForDisposal ? "on" : undefined,
+          shelfLifeMonths: product.shelfLifeMonths?.toString(),
           notes: product.notes ?? undefined,
         }
       : { active: "on", foamClass: "B" },
@@ -275,6 +277,18 @@ export default function ProductPage({ loaderData, actionData }: Route.ComponentP
             label="Active (officers can choose it on a usage report)"
             field={fields.active}
             hint="Untick to retire a product; past reports keep it."
+          />
+          <CheckboxField
+            label="Held for disposal (legacy PFAS foam)"
+            field={fields.heldForDisposal}
+            hint="In stock it can only be sent for disposal; a report that uses it must say why."
+          />
+          <TextField
+            label="Shelf life (months from manufacture)"
+            field={fields.shelfLifeMonths}
+            inputMode="numeric"
+            autoComplete="off"
+            hint="From the product's data sheet; a lot older than this is flagged in the stock book."
           />
         </fieldset>
         {readOnly ? (

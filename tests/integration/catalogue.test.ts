@@ -595,6 +595,7 @@ describe("catalogue loaders for the usage form", () => {
       foamType: "class-a",
       nominalPercents: [0.3, 0.5],
       pfasContaining: false,
+      heldForDisposal: false,
     });
     expect(listed.some((item) => item.id === retired.id)).toBe(false);
     const facts = await productFactsMap([active.id, retired.id, active.id]);

@@ -30,7 +30,8 @@ async function tableNames(): Promise<string[]> {
 }
 
 describe("migrations", () => {
-  it("run up from zero, down to zero, and up again", async () => {
+  // Every migration down and up again takes longer than the default timeout on a loaded machine.
+  it("run up from zero, down to zero, and up again", { timeout: 120_000 }, async () => {
     await knex.migrate.latest();
     const tables = await tableNames();
     expect(tables).toEqual(expect.arrayContaining(["users", "user_roles", "audit_events", "events", "discharges"]));

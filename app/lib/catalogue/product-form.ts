@@ -52,6 +52,12 @@ export const ProductFormSchema = z
     pfasContentSource: optionalText(2000, "The source"),
     unitCostPerGal: optionalNumber("The unit cost", { max: decimalColumnMax("foam_products.unit_cost_per_gal") }),
     active: checkbox,
+    // Legacy foam waiting for a hauler: in stock it only goes to disposal; a report says why it was used.
+    heldForDisposal: checkbox,
+    shelfLifeMonths: optionalNumber("The shelf life in months", { max: 600, positive: true }).refine(
+      (value) => value == null || Number.isInteger(value),
+      "Give the shelf life in whole months.",
+    ),
     notes: optionalText(4000, "The notes"),
     safetySheet: z
       .file({ error: "Choose a PDF file." })

@@ -143,6 +143,8 @@ export const DischargeLineSchema = z
     /** Another agency's unit (mutual aid): its name and unit id as typed; no apparatus of ours. */
     mutualAidAgency: text(120, "mutual-aid agency name"),
     mutualAidUnit: text(24, "mutual-aid unit id"),
+    // Why a product held for disposal was used all the same (required then; checked when filed).
+    heldUseReason: text(500, "reason for using foam held for disposal"),
   })
   .superRefine((line, ctx) => {
     mutualAidIssues(line).forEach((issue) => ctx.addIssue({ code: "custom", ...issue }));

@@ -484,3 +484,39 @@ export const ATTACHMENT_KIND_LABELS: Record<AttachmentKind, string> = {
   test_printout: "Test printout",
   other: "Other document",
 };
+// ---------------------------------------------------------------------------------------------
+// The stock book
+
+export const STOCK_LOCATION_KINDS = ["station_store", "apparatus_tank", "foam_tender", "cache"] as const;
+export type StockLocationKind = (typeof STOCK_LOCATION_KINDS)[number];
+export const STOCK_LOCATION_KIND_LABELS: Record<StockLocationKind, string> = {
+  station_store: "Station store",
+  apparatus_tank: "Apparatus tank",
+  foam_tender: "Foam tender",
+  cache: "Cache",
+};
+
+export const STOCK_MOVEMENT_KINDS = ["received", "transferred", "used", "sampled", "disposed", "adjusted"] as const;
+export type StockMovementKind = (typeof STOCK_MOVEMENT_KINDS)[number];
+export const STOCK_MOVEMENT_KIND_LABELS: Record<StockMovementKind, string> = {
+  received: "Received",
+  transferred: "Transferred",
+  used: "Used on a report",
+  sampled: "Quality sample",
+  disposed: "Sent for disposal",
+  adjusted: "Count adjustment",
+};
+
+export const STOCK_CONTAINERS = ["pail", "drum", "tote", "bulk"] as const;
+export type StockContainer = (typeof STOCK_CONTAINERS)[number];
+export const STOCK_CONTAINER_LABELS: Record<StockContainer, string> = {
+  pail: "Pail",
+  drum: "Drum",
+  tote: "Tote",
+  bulk: "Bulk",
+};
+
+/** What a product held for disposal is called wherever it is listed. */
+export const HELD_FOR_DISPOSAL_LABEL = "Held for disposal";
+/** What stands in the lot column for concentrate whose lot the book does not know. */
+export const UNKNOWN_LOT_LABEL = "Lot not known";

@@ -1,0 +1,76 @@
+// The demo's year of concentrate stock, seeded into a database of its own: a product below its
+// reorder point, an expired lot, the legacy AR-AFFF held for disposal, and every filed report's use
+// posted once.
+import knexFactory, { type Knex } from "knex";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { currentStockConditions } from "~/models/stock-alerts.server";
+import { stockItems } from "~/models/stock.server";
+import knexConfig from "../../knexfile";
+import { testDatabaseName } from "../support/test-database";
+
+const name = `${testDatabaseName()}_stock_seed`;
+let knex: Knex;
+
+function config(database?: string): Knex.Config {
+  const connection = { ...(knexConfig.connection as Knex.MySqlConnectionConfig) };
+  if (database) connection.database = database;
+  else delete connection.database;
+  return { ...knexConfig, connection };
+}
+
+beforeAll(async () => {
+  const server = knexFactory(config());
+  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
+  await server.raw(`CREATE DATABASE \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
+  await server.destroy();
+  knex = knexFactory(config(name));
+  await knex.migrate.latest();
+  for (const file of ["01_agency_and_accounts.ts", "02_catalogue.ts", "03_events.ts", "08_stock.ts"]) {
+    await knex.seed.run({ specific: file });
+  }
+}, 180_000);
+
+afterAll(async () => {
+  await knex.raw(`DROP DATABASE IF EXISTS \`${name}\``);
+  await knex.destroy();
+});
+
+describe("the demo stock book", () => {
+  it("covers the demo year and posts each filed report's concentrate exactly once", async () => {
+    const span = await knex("stock_movements")
+      .where("at", ">=", "2025-12-01")
+      .min({ first: "at" })
+      .max({ last: "at" })
+      .first();
+    expect(new Date(span!.first).toISOString() < "2026-01-01").toBe(true);
+    expect(new Date(span!.last).toISOString() >= "2026-11-01").toBe(true);
+    const events = await knex("events as e")
+      .whereIn("e.status", ["filed", "returned", "accepted"])
+      .select(
+        "e.id",
+        knex.raw(
+          "(SELECT COALESCE(SUM(d.concentrate_gal), 0) FROM discharges d WHERE d.event_id = e.id AND d.product_id IS NOT NULL) AS concentrate",
+        ),
+      );
+    expect(events.length).toBeGreaterThan(10);
+    for (const event of events) {
+      const used = await knex("stock_movements")
+        .where({ event_id: event.id, kind: "used" })
+        .sum({ gal: "gal" })
+        .first();
+      expect(-Number(used?.gal ?? 0)).toBeCloseTo(Number(event.concentrate), 3);
+    }
+  });
+
+  it("has a product below its reorder point, an expired lot, and legacy foam held for disposal", async () => {
+    const conditions = await currentStockConditions(knex, "2026-12-02");
+    expect(conditions.some((condition) => condition.kind === "reorder")).toBe(true);
+    expect(conditions.some((condition) => condition.kind === "expired")).toBe(true);
+    const held = (await stockItems({}, knex)).filter((item) => item.product.heldForDisposal);
+    expect(held.reduce((sum, item) => sum + item.onHandGal, 0)).toBeGreaterThan(0);
+    expect(
+      await knex("stock_movements").where({ kind: "disposed" }).whereNot({ reference: "" }).first("id"),
+    ).toBeTruthy();
+    expect(await knex("mail_outbox").where({ kind: "stock_alert" }).first("id")).toBeTruthy();
+  });
+});
