@@ -1,6 +1,16 @@
 import { Form, NavLink, useLocation } from "react-router";
 import { ROLE_LABELS, type Role } from "~/lib/access";
+import { clearAllUnsavedCopies } from "~/lib/unsaved-copy";
 import { navFor } from "./navigation";
+
+/** Signing out leaves no one's unsaved report typing on this device for the next person. */
+function forgetUnsavedCopies() {
+  try {
+    clearAllUnsavedCopies(window.localStorage);
+  } catch {
+    // Storage turned off: nothing was kept.
+  }
+}
 
 type ShellUser = { id: number; name: string; email: string; roles: Role[] } | null;
 
@@ -52,7 +62,7 @@ export function AppShell({
                 {user.name}
                 <span className="sr-only">, your profile</span>
               </NavLink>
-              <Form method="post" action="/sign-out">
+              <Form method="post" action="/sign-out" onSubmit={forgetUnsavedCopies}>
                 <button type="submit" className="rounded border border-white/40 px-3 py-1.5 hover:bg-white/10">
                   Sign out
                 </button>
