@@ -1,12 +1,13 @@
 import { Form, NavLink, useLocation } from "react-router";
 import { ROLE_LABELS, type Role } from "~/lib/access";
-import { clearAllUnsavedCopies } from "~/lib/unsaved-copy";
+import { clearAllUnsavedCopies, SIGNING_OUT_EVENT } from "~/lib/unsaved-copy";
 import { navFor } from "./navigation";
 
 /** Signing out leaves no one's unsaved report typing on this device for the next person. */
 function forgetUnsavedCopies() {
   try {
     clearAllUnsavedCopies(window.localStorage);
+    window.dispatchEvent(new Event(SIGNING_OUT_EVENT));
   } catch {
     // Storage turned off: nothing was kept.
   }

@@ -4,10 +4,16 @@ type SummaryEntry = { key: string; targetId: string; label: string; message: str
 
 /** The field or list a conform error name points at, and the words a person knows it by. */
 function describe(formId: string, name: string): { target: HTMLElement; label: string } | null {
-  const control = document.getElementById(`${formId}-${name}`);
+  const form = document.getElementById(formId);
+  const named = form instanceof HTMLFormElement ? form.elements.namedItem(name) : null;
+  const control = document.getElementById(`${formId}-${name}`) ?? (named instanceof HTMLElement ? named : null);
   if (control) {
+    // A field drawn by a component of its own may have no id for the link to point at.
+    if (!control.id) control.id = `${formId}-${name}`;
+    const wrapping = control.closest("label");
     const labelText =
       document.querySelector(`label[for="${CSS.escape(control.id)}"]`)?.textContent?.trim() ||
+      wrapping?.querySelector(".field-label")?.textContent?.trim() ||
       control.getAttribute("aria-label") ||
       name;
     const group = control.closest("li[aria-label]")?.getAttribute("aria-label");

@@ -231,7 +231,6 @@ export function ReportForm(props: ReportFormProps) {
   const copy = useUnsavedReportCopy({
     formId: form.id,
     baseVersion: props.version,
-    value: form.value,
     onRestore(entries) {
       const formData = new FormData();
       for (const [name, value] of entries) formData.append(name, value);
@@ -338,6 +337,8 @@ export function ReportForm(props: ReportFormProps) {
             <TextField label="Address or location" field={fields.address} />
           </div>
           <EventLocationMap
+            // Drawn from its own state: a restored copy gives it new starting values.
+            key={`${fields.latitude.key}:${fields.longitude.key}`}
             defaultLatitude={fields.latitude.initialValue}
             defaultLongitude={fields.longitude.initialValue}
             latitudeName={fields.latitude.name}

@@ -5,6 +5,7 @@ import {
   fieldEntriesOf,
   readUnsavedCopy,
   sameEntries,
+  SIGNING_OUT_EVENT,
   unsavedCopyKey,
   writeUnsavedCopy,
   type FieldEntries,
@@ -38,13 +39,10 @@ function entriesOfForm(form: HTMLFormElement): FieldEntries {
 export function useUnsavedReportCopy({
   formId,
   baseVersion,
-  value,
   onRestore,
 }: {
   formId: string;
   baseVersion?: number;
-  /** The form's current value: a change (a line added or removed) is a moment to keep the copy. */
-  value: unknown;
   onRestore: (entries: FieldEntries) => void;
 }) {
   const root = useRouteLoaderData("root") as RootData;
@@ -52,9 +50,16 @@ export function useUnsavedReportCopy({
   const reportId = params.id && /^\d+$/.test(params.id) ? Number(params.id) : "new";
   const key = root?.user ? unsavedCopyKey(root.user.id, reportId) : null;
   const [offer, setOffer] = useState<UnsavedCopy | null>(null);
-  const [dirty, setDirty] = useState(false);
+  const [dirty, setDirtyState] = useState(false);
+  const dirtyNow = useRef(false);
+  const setDirty = useCallback((next: boolean) => {
+    if (dirtyNow.current === next) return;
+    dirtyNow.current = next;
+    setDirtyState(next);
+  }, []);
   const baseline = useRef<FieldEntries | null>(null);
   const offerPending = useRef(false);
+  const signingOut = useRef(false);
 
   const formElement = useCallback(() => document.getElementById(formId) as HTMLFormElement | null, [formId]);
 
@@ -77,7 +82,7 @@ export function useUnsavedReportCopy({
     const form = formElement();
     const storage = browserStorage();
     // While a copy is on offer it is not overwritten: the choice comes first.
-    if (!form || !storage || !key || !baseline.current || offerPending.current) return;
+    if (!form || !storage || !key || !baseline.current || offerPending.current || signingOut.current) return;
     const entries = entriesOfForm(form);
     if (sameEntries(entries, baseline.current)) {
       clearUnsavedCopy(storage, key);
@@ -86,9 +91,10 @@ export function useUnsavedReportCopy({
     }
     writeUnsavedCopy(storage, key, { savedAt: new Date().toISOString(), baseVersion: baseVersion ?? null, entries });
     setDirty(true);
-  }, [formElement, key, baseVersion]);
+  }, [formElement, key, baseVersion, setDirty]);
 
   // Every keystroke and choice, and every line added or removed, keeps the copy up to date.
+  // (Nothing here sets state unless it changes: a render per keystroke would hold up navigation.)
   useEffect(() => {
     const form = formElement();
     if (!form) return;
@@ -97,18 +103,28 @@ export function useUnsavedReportCopy({
       clearTimeout(timer);
       timer = setTimeout(keepCopy, 0);
     };
-    form.addEventListener("input", schedule);
-    form.addEventListener("change", schedule);
+    const typed = () => {
+      signingOut.current = false;
+      schedule();
+    };
+    const onSigningOut = () => {
+      signingOut.current = true;
+      clearTimeout(timer);
+    };
+    form.addEventListener("input", typed);
+    form.addEventListener("change", typed);
+    window.addEventListener(SIGNING_OUT_EVENT, onSigningOut);
+    // Lines added or removed change the fields without an input event.
+    const observer = new MutationObserver(schedule);
+    observer.observe(form, { childList: true, subtree: true });
     return () => {
       clearTimeout(timer);
-      form.removeEventListener("input", schedule);
-      form.removeEventListener("change", schedule);
+      observer.disconnect();
+      form.removeEventListener("input", typed);
+      form.removeEventListener("change", typed);
+      window.removeEventListener(SIGNING_OUT_EVENT, onSigningOut);
     };
   }, [formElement, keepCopy]);
-  useEffect(() => {
-    const timer = setTimeout(keepCopy, 0);
-    return () => clearTimeout(timer);
-  }, [value, keepCopy]);
 
   // A save that worked redirects: to another page (the copy goes with the page), or back to this
   // edit page with no answer from the action. A refusal answers with its errors and keeps the copy.
@@ -137,23 +153,25 @@ export function useUnsavedReportCopy({
       saving.current = false;
       if (actionData == null && SAVED_REPORT_PAGE.test(location.pathname)) saved();
     }
-  }, [navigation, location.pathname, actionData, key, formElement]);
+  }, [navigation, location.pathname, actionData, key, formElement, setDirty]);
 
   // Leaving with changes asks first: inside the app through the router, and on reload or closing.
   // (A save posts to this page's own address, so it is never held here.)
+  const formPath = location.pathname;
   const blocker = useBlocker(
-    ({ currentLocation, nextLocation }) => dirty && currentLocation.pathname !== nextLocation.pathname,
+    ({ currentLocation, nextLocation }) =>
+      dirty && currentLocation.pathname === formPath && nextLocation.pathname !== formPath,
   );
   useEffect(() => {
-    if (!dirty) return;
     const onBeforeUnload = (event: BeforeUnloadEvent) => {
+      if (!dirtyNow.current) return;
       event.preventDefault();
       // Older browsers need a return value to ask at all.
       event.returnValue = "";
     };
     window.addEventListener("beforeunload", onBeforeUnload);
     return () => window.removeEventListener("beforeunload", onBeforeUnload);
-  }, [dirty]);
+  }, []);
 
   const restore = () => {
     if (!offer) return;
@@ -255,43 +273,40 @@ export function UnsavedCopyOffer({
 
 /** Asks before leaving the form with changes that are not saved. */
 export function LeaveDialog({ blocker }: { blocker: ReturnType<typeof useBlocker> }) {
-  const dialog = useRef<HTMLDialogElement>(null);
+  const stay = useRef<HTMLButtonElement>(null);
   const blocked = blocker.state === "blocked";
   useEffect(() => {
-    const element = dialog.current;
-    if (!element) return;
-    if (blocked && !element.open) element.showModal();
-    if (!blocked && element.open) element.close();
+    if (blocked) stay.current?.focus();
   }, [blocked]);
+  if (!blocked) return null;
   return (
-    <dialog
-      ref={dialog}
-      aria-labelledby="leave-title"
-      className="m-auto max-w-md rounded-lg border border-stone-300 bg-white p-6 shadow-lg backdrop:bg-ink/40"
-      onCancel={(event) => {
-        event.preventDefault();
-        if (blocker.state === "blocked") blocker.reset();
-      }}
-    >
-      <h2 id="leave-title" className="text-lg font-semibold">
-        Leave this report?
-      </h2>
-      <p className="mt-2 text-sm">
-        Your changes are not saved to Foamtally yet. A copy stays on this device and is offered again when you open the
-        report.
-      </p>
-      <div className="mt-4 flex flex-wrap gap-2">
-        <button type="button" className="btn-primary" onClick={() => blocker.state === "blocked" && blocker.reset()}>
-          Stay on the report
-        </button>
-        <button
-          type="button"
-          className="btn-secondary"
-          onClick={() => blocker.state === "blocked" && blocker.proceed()}
-        >
-          Leave
-        </button>
+    <div className="fixed inset-0 z-50 flex items-center justify-center bg-ink/40 p-4">
+      <div
+        role="alertdialog"
+        aria-modal="true"
+        aria-labelledby="leave-title"
+        aria-describedby="leave-text"
+        className="max-w-md rounded-lg border border-stone-300 bg-white p-6 shadow-lg"
+        onKeyDown={(event) => {
+          if (event.key === "Escape") blocker.reset();
+        }}
+      >
+        <h2 id="leave-title" className="text-lg font-semibold">
+          Leave this report?
+        </h2>
+        <p id="leave-text" className="mt-2 text-sm">
+          Your changes are not saved to Foamtally yet. A copy stays on this device and is offered again when you open
+          the report.
+        </p>
+        <div className="mt-4 flex flex-wrap gap-2">
+          <button ref={stay} type="button" className="btn-primary" onClick={() => blocker.reset()}>
+            Stay on the report
+          </button>
+          <button type="button" className="btn-secondary" onClick={() => blocker.proceed()}>
+            Leave
+          </button>
+        </div>
       </div>
-    </dialog>
+    </div>
   );
 }

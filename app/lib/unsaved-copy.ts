@@ -9,6 +9,9 @@ import { z } from "zod";
 /** Every key of a copy starts with this; sign-out removes every key that does. */
 export const UNSAVED_COPY_PREFIX = "foamtally:report-copy:v1:";
 
+/** Announced on `window` when someone signs out: forms stop keeping copies until typed in again. */
+export const SIGNING_OUT_EVENT = "foamtally:signing-out";
+
 /** Fields the server sets for each page load: never restored from a copy. */
 const NOT_KEPT = new Set(["submissionKey", "version", "intent", "__intent__"]);
 
