@@ -73,7 +73,7 @@ export function AppShell({
         </div>
         {user ? (
           <nav aria-label="Main" className="bg-ink/95">
-            <ul className="mx-auto flex max-w-7xl gap-1 overflow-x-auto px-2 pb-2 text-sm">
+            <ul className="mx-auto flex max-w-7xl flex-wrap gap-1 px-2 pb-2 text-sm">
               {items.map((item) => (
                 <li key={item.to}>
                   <NavLink

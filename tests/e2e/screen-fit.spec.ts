@@ -157,7 +157,7 @@ async function addressOf(key: string, principal: Principal | null, browser: Brow
   return address;
 }
 
-type Overflow = { scrollWidth: number; clientWidth: number; widest: string[] };
+type Overflow = { scrollWidth: number; clientWidth: number; widest: string[]; hiddenMenuItems: number };
 
 /** The page's sideways overflow, and the first elements that stick out (not those in a scroll box). */
 async function horizontalOverflow(page: Page): Promise<Overflow> {
@@ -175,7 +175,12 @@ async function horizontalOverflow(page: Page): Promise<Overflow> {
       .filter((element) => element.getBoundingClientRect().right > limit + 1 && !scrollsInside(element))
       .slice(0, 4)
       .map((element) => `${element.tagName.toLowerCase()}.${String(element.className).slice(0, 60)}`);
-    return { scrollWidth: root.scrollWidth, clientWidth: root.clientWidth, widest };
+    // The menu wraps rather than scrolls: every item is in sight.
+    const menu = document.querySelector('nav[aria-label="Main"]');
+    const hiddenMenuItems = menu
+      ? Array.from(menu.querySelectorAll("a")).filter((link) => link.getBoundingClientRect().right > limit + 1).length
+      : 0;
+    return { scrollWidth: root.scrollWidth, clientWidth: root.clientWidth, widest, hiddenMenuItems };
   });
 }
 
@@ -210,6 +215,9 @@ test.describe("every page fits a tablet and a phone", () => {
             problems.push(
               `${address} at ${viewport.name}: ${overflow.scrollWidth} > ${overflow.clientWidth} (${overflow.widest.join(", ")})`,
             );
+          }
+          if (overflow.hiddenMenuItems > 0) {
+            problems.push(`${address} at ${viewport.name}: ${overflow.hiddenMenuItems} menu items out of sight`);
           }
           visited += 1;
         }
