@@ -142,7 +142,7 @@ export default function Outbox({ loaderData, actionData }: Route.ComponentProps)
         </h2>
         {loaderData.received.length === 0 ? <p>No messages yet.</p> : null}
         {loaderData.received.map((message) => (
-          <article key={message.id} className="rounded-md border border-stone-200 p-3">
+          <article key={message.id} className="rounded-md border border-stone-200 p-3 [overflow-wrap:anywhere]">
             <h3 className="font-semibold">{message.subject}</h3>
             <p className="text-sm text-slate-ft">
               {when(message.receivedAt)} · to {message.envelopeTo.join(", ")}
