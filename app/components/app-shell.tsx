@@ -1,6 +1,17 @@
 import { Form, Link, NavLink, useLocation } from "react-router";
 import { ROLE_LABELS, type Role } from "~/lib/access";
+import { clearAllUnsavedCopies, SIGNING_OUT_EVENT } from "~/lib/unsaved-copy";
 import { currentNavItem, navFor } from "./navigation";
+
+/** Signing out leaves no one's unsaved report typing on this device for the next person. */
+function forgetUnsavedCopies() {
+  try {
+    clearAllUnsavedCopies(window.localStorage);
+    window.dispatchEvent(new Event(SIGNING_OUT_EVENT));
+  } catch {
+    // Storage turned off: nothing was kept.
+  }
+}
 
 type ShellUser = { id: number; name: string; email: string; roles: Role[] } | null;
 
@@ -47,7 +58,7 @@ export function AppShell({
                 {user.name}
                 <span className="sr-only">, your profile</span>
               </NavLink>
-              <Form method="post" action="/sign-out">
+              <Form method="post" action="/sign-out" onSubmit={forgetUnsavedCopies}>
                 <button type="submit" className="rounded border border-white/40 px-3 py-1.5 hover:bg-white/10">
                   Sign out
                 </button>
@@ -57,7 +68,7 @@ export function AppShell({
         </div>
         {user ? (
           <nav aria-label="Main" className="bg-ink/95">
-            <ul className="mx-auto flex max-w-7xl gap-1 overflow-x-auto px-2 pb-2 text-sm">
+            <ul className="mx-auto flex max-w-7xl flex-wrap gap-1 px-2 pb-2 text-sm">
               {items.map((item) => (
                 <li key={item.to}>
                   <Link

@@ -35,16 +35,18 @@ function LabelledField({
   field,
   hint,
   hintBelow,
+  className,
   children,
 }: {
   label: string;
   field: AnyField;
   hint?: string;
   hintBelow?: boolean;
+  className?: string;
   children: React.ReactNode;
 }) {
   return (
-    <div>
+    <div className={className}>
       <label htmlFor={field.id} className="field-label">
         {label}
       </label>
@@ -78,6 +80,9 @@ export function TextField({
   );
 }
 
+/** Characters of a choice that a narrow column shows whole (common practice, no source). */
+const LONG_CHOICE = 30;
+
 export function SelectField({
   label,
   field,
@@ -98,9 +103,28 @@ export function SelectField({
   onChange?: (event: React.ChangeEvent<HTMLSelectElement>) => void;
 }) {
   const props = getSelectProps(field, { ariaDescribedBy: hintIdOf(field, hint) });
+  const labels = [placeholder ?? "", ...options.map((option) => option.label)];
+  // A choice too long for a narrow column gets a wider one; on a phone, where the closed list
+  // cuts it off, the whole of the chosen label is repeated under it.
+  const long = labels.some((text) => text.length > LONG_CHOICE);
+  const chosen =
+    options.find((option) => option.value === field.value)?.label ?? (field.value ? undefined : placeholder);
   return (
-    <LabelledField label={label} field={field} hint={hint} hintBelow={hintBelow}>
-      <select {...props} key={props.key} className="field-input" disabled={disabled} onChange={onChange}>
+    <LabelledField
+      label={label}
+      field={field}
+      hint={hint}
+      hintBelow={hintBelow}
+      className={long ? "min-w-0 sm:col-span-2" : "min-w-0"}
+    >
+      <select
+        {...props}
+        key={props.key}
+        className="field-input"
+        disabled={disabled}
+        onChange={onChange}
+        title={chosen && chosen.length > LONG_CHOICE ? chosen : undefined}
+      >
         {placeholder !== undefined ? <option value="">{placeholder}</option> : null}
         {options.map((option) => (
           <option key={option.value} value={option.value}>
@@ -108,6 +132,11 @@ export function SelectField({
           </option>
         ))}
       </select>
+      {chosen && chosen.length > LONG_CHOICE ? (
+        <p aria-hidden="true" className="mt-1 text-sm text-slate-ft sm:hidden" data-testid="chosen-in-full">
+          {chosen}
+        </p>
+      ) : null}
     </LabelledField>
   );
 }

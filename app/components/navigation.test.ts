@@ -43,9 +43,16 @@ describe("the current menu item", () => {
     expect(currentNavItem(officer, "/profile", "")).toBeNull();
   });
 
-  it("is the review queue with its query, the events list without it", () => {
-    expect(reviewer).toContain("/events?status=filed");
-    expect(currentNavItem(reviewer, "/events", "?status=filed")).toBe("/events?status=filed");
-    expect(currentNavItem(reviewer, "/events", "")).toBe("/events");
+  it("is the review queue on its own page, the events list elsewhere", () => {
+    expect(reviewer).toContain("/review");
+    expect(currentNavItem(reviewer, "/review", "")).toBe("/review");
+    expect(currentNavItem(reviewer, "/events", "?status=filed")).toBe("/events");
+  });
+
+  it("prefers a link with a query on its own query, and its plain sibling otherwise", () => {
+    const links = ["/", "/events", "/events?status=filed"];
+    expect(currentNavItem(links, "/events", "?status=filed")).toBe("/events?status=filed");
+    expect(currentNavItem(links, "/events", "?status=draft")).toBe("/events");
+    expect(currentNavItem(links, "/events/12", "")).toBe("/events");
   });
 });

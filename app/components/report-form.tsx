@@ -50,9 +50,12 @@ import {
   type FoamClass,
   type PercentOf,
 } from "~/lib/foam/vocabulary";
+import type { FieldEntries } from "~/lib/unsaved-copy";
+import { ErrorSummary } from "./error-summary";
 import { EventLocationMap } from "./event-location-map";
 import { ErrorList, FormErrors, SelectField, TextField } from "./form-fields";
 import { MutualAidFields, MutualAidSwitch } from "./mutual-aid-fields";
+import { fillFields, LeaveDialog, UnsavedCopyOffer, useUnsavedReportCopy } from "./unsaved-copy";
 import { UsageCautions } from "./usage-cautions";
 
 export type ProductOption = {
@@ -111,6 +114,8 @@ export type ReportFormProps = {
   numberSuggestion?: string;
   /** A reviewer changing a report someone else filed gives a reason (`changeReasonFor`). */
   reasonRequired?: boolean;
+  /** When the report was last saved (an ISO instant), for a report that has been. */
+  savedAt?: string | null;
 };
 
 type TotalsVolume = { gal: number; L: number };
@@ -138,6 +143,20 @@ const number = (value: unknown) => {
   return Number.isFinite(parsed) ? parsed : undefined;
 };
 
+/** Why a typed line cannot be computed yet, in the officer's words; null when it can. */
+function lineLeftOutBecause(raw: unknown, timeZone: string): string | null {
+  const line = (raw ?? {}) as Record<string, string | undefined>;
+  const flow = number(line.flow);
+  const minutes = number(line.minutes) ?? minutesBetween(line.startedAt, line.endedAt, timeZone) ?? undefined;
+  const percent = number(line.percent);
+  if (!flow || flow <= 0) return "it has no valid flow";
+  if (!minutes || minutes <= 0 || minutes > MAX_DISCHARGE_MINUTES) return "it has no valid duration";
+  if (number(line.productId) && (!percent || percent <= 0 || percent >= 100)) {
+    return "its concentrate has no valid percent";
+  }
+  return null;
+}
+
 /** The lines complete enough for the server to compute, with their place in the form. */
 function computableLines(
   lines: unknown,
@@ -151,8 +170,7 @@ function computableLines(
     const minutes = number(line.minutes) ?? minutesBetween(line.startedAt, line.endedAt, timeZone) ?? undefined;
     const productId = number(line.productId);
     const percent = number(line.percent);
-    if (!flow || flow <= 0 || !minutes || minutes <= 0 || minutes > MAX_DISCHARGE_MINUTES) return [];
-    if (productId && (!percent || percent <= 0 || percent >= 100)) return [];
+    if (lineLeftOutBecause(raw, timeZone) !== null || !flow || !minutes) return [];
     const basis = line.basis === "solution" ? "solution" : "water";
     const unit = apparatusById.get(number(line.apparatusId) ?? 0);
     const percentOf =
@@ -234,13 +252,84 @@ export function ReportForm(props: ReportFormProps) {
   const classAChosen = chosenProducts.some((product) => product?.foamClass === "A");
   const saving = navigation.state === "submitting" && navigation.formAction?.includes("/events");
   const accepted = props.status === "accepted";
+  const leftOut = typedLines.flatMap((line, index) => {
+    const because = lineLeftOutBecause(line, props.timeZone);
+    return because ? [{ index, because }] : [];
+  });
+
+  // The unsaved copy kept in this browser: offered when the form opens, put back on request.
+  const [pendingFill, setPendingFill] = useState<FieldEntries | null>(null);
+  const copy = useUnsavedReportCopy({
+    formId: form.id,
+    baseVersion: props.version,
+    onRestore(entries) {
+      const formData = new FormData();
+      for (const [name, value] of entries) formData.append(name, value);
+      form.update({ value: parseWithZod(formData, { schema: DraftPayloadSchema }).payload as never });
+      setPendingFill(entries);
+    },
+  });
+  useEffect(() => {
+    const element = document.getElementById(form.id);
+    if (!pendingFill || !(element instanceof HTMLFormElement)) return;
+    fillFields(element, pendingFill);
+    setPendingFill(null);
+  }, [pendingFill, form.id]);
+
+  // Each refused filing (in the browser or by the server) brings the summary of what to fix.
+  const [filingAttempt, setFilingAttempt] = useState(0);
+  useEffect(() => {
+    const fieldErrors = Object.entries(props.lastResult?.error ?? {}).some(([name, errors]) => name && errors?.length);
+    if (props.lastResult?.status === "error" && fieldErrors) setFilingAttempt((attempt) => attempt + 1);
+  }, [props.lastResult]);
+  const formProps = getFormProps(form);
+
+  // The bar's height, so that a focused field scrolls clear of it (`scroll-padding` in app.css).
+  const actionsBar = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    const bar = actionsBar.current;
+    if (!bar || typeof ResizeObserver === "undefined") return;
+    const root = document.documentElement;
+    const observer = new ResizeObserver(() =>
+      root.style.setProperty("--report-actions-height", `${bar.offsetHeight}px`),
+    );
+    observer.observe(bar);
+    return () => {
+      observer.disconnect();
+      root.style.removeProperty("--report-actions-height");
+    };
+  }, []);
 
   return (
     <FormProvider context={form.context}>
-      <Form method="post" {...getFormProps(form)} className="space-y-6" aria-describedby={form.errorId}>
+      {copy.offer ? (
+        <UnsavedCopyOffer
+          copy={copy.offer}
+          timeZone={props.timeZone}
+          currentVersion={props.version}
+          onRestore={copy.restore}
+          onDiscard={copy.discard}
+        />
+      ) : null}
+      <LeaveDialog blocker={copy.blocker} />
+      <Form
+        method="post"
+        {...formProps}
+        onSubmit={(event) => {
+          formProps.onSubmit(event);
+          const submitter = (event.nativeEvent as SubmitEvent).submitter as HTMLButtonElement | null;
+          // Refused in the browser: the form library stopped the submission.
+          if (event.defaultPrevented && submitter?.name === "intent" && submitter.value === "file") {
+            setFilingAttempt((attempt) => attempt + 1);
+          }
+        }}
+        className="report-form space-y-6"
+        aria-describedby={form.errorId}
+      >
         <input type="hidden" name="submissionKey" value={props.submissionKey} />
         {props.version ? <input type="hidden" name="version" value={props.version} /> : null}
         <FormErrors id={form.errorId} errors={form.errors} />
+        <ErrorSummary formId={form.id} errors={form.allErrors} attempt={filingAttempt} />
 
         <section className="card space-y-4" aria-labelledby="details-title">
           <h2 id="details-title" className="text-lg font-semibold">
@@ -308,6 +397,8 @@ export function ReportForm(props: ReportFormProps) {
             />
           </div>
           <EventLocationMap
+            // Drawn from its own state: a restored copy gives it new starting values.
+            key={`${fields.latitude.key}:${fields.longitude.key}`}
             defaultLatitude={fields.latitude.initialValue}
             defaultLongitude={fields.longitude.initialValue}
             latitudeName={fields.latitude.name}
@@ -363,6 +454,7 @@ export function ReportForm(props: ReportFormProps) {
                 listName={fields.discharges.name}
                 full={discharges.length >= MAX_LINES}
                 result={resultFor(index)}
+                leftOutBecause={leftOut.find((entry) => entry.index === index)?.because}
                 apparatus={props.apparatus}
                 products={props.products}
                 apparatusById={apparatusById}
@@ -388,6 +480,15 @@ export function ReportForm(props: ReportFormProps) {
             ))}
           </dl>
           {totalsFetcher.state !== "idle" ? <p className="mt-2 text-sm text-slate-ft">Updating…</p> : null}
+          {leftOut.length ? (
+            <ul className="mt-2 space-y-1 text-sm font-medium" data-testid="totals-left-out">
+              {leftOut.map((entry) => (
+                <li key={entry.index}>
+                  Discharge {entry.index + 1} is left out of these totals: {entry.because}.
+                </li>
+              ))}
+            </ul>
+          ) : null}
           <p className="mt-2 text-xs text-slate-ft">
             Estimates from the figures entered; the saved report keeps the server&apos;s computation.
           </p>
@@ -538,7 +639,10 @@ export function ReportForm(props: ReportFormProps) {
           </section>
         ) : null}
 
-        <div className="sticky bottom-0 flex flex-wrap gap-3 border-t border-stone-200 bg-stone-50/95 py-3">
+        <div
+          ref={actionsBar}
+          className="report-actions sticky bottom-0 z-10 flex flex-wrap items-center gap-3 border-t border-stone-300 bg-stone-50 py-3"
+        >
           <button type="submit" name="intent" value="file" className="btn-primary" disabled={saving}>
             {accepted ? "File this revision" : "File report"}
           </button>
@@ -554,20 +658,49 @@ export function ReportForm(props: ReportFormProps) {
               Save draft
             </button>
           ) : null}
-          {saving ? <span className="self-center text-sm">Saving…</span> : null}
+          {saving ? <span className="text-sm">Saving…</span> : null}
+          <SaveState dirty={copy.dirty} savedAt={props.savedAt} status={props.status} timeZone={props.timeZone} />
         </div>
       </Form>
     </FormProvider>
   );
 }
 
-/** Select options from [value, label] pairs. */
+/** Whether what is shown is saved, and when it was, in the agency's time zone. */
+function SaveState({
+  dirty,
+  savedAt,
+  status,
+  timeZone,
+}: {
+  dirty: boolean;
+  savedAt?: string | null;
+  status?: EventStatus;
+  timeZone: string;
+}) {
+  const when = savedAt
+    ? new Date(savedAt).toLocaleString("en-US", { timeZone, dateStyle: "medium", timeStyle: "short" })
+    : null;
+  return (
+    <p className="text-sm text-slate-ft" aria-live="polite" data-testid="save-state">
+      {dirty ? "Changes not saved yet; a copy is kept on this device. " : ""}
+      {when && status === "draft" ? (
+        <>
+          Draft saved <time dateTime={savedAt!}>{when}</time> ({timeZone}).
+        </>
+      ) : null}
+    </p>
+  );
+}
+
 type DischargeLineProps = {
   name: string;
   index: number;
   listName: string;
   full: boolean;
   result?: NonNullable<TotalsResponse["discharges"]>[number];
+  /** Why the line is not in the live totals, when it is not. */
+  leftOutBecause?: string;
   apparatus: ApparatusOption[];
   products: ProductOption[];
   apparatusById: Map<number, ApparatusOption>;
@@ -578,7 +711,7 @@ type DischargeLineProps = {
  * One discharge. Each line reads its own fields (`useField`), so the form's work grows with the
  * number of lines, not with its square.
  */
-function DischargeLine({ name, index, listName, full, result, ...props }: DischargeLineProps) {
+function DischargeLine({ name, index, listName, full, result, leftOutBecause, ...props }: DischargeLineProps) {
   const [line, form] = useField<z.input<typeof DischargeLineSchema>>(name);
   const row = line.getFieldset();
   const values = (line.value ?? {}) as Record<string, string | undefined>;
@@ -726,7 +859,11 @@ function DischargeLine({ name, index, listName, full, result, ...props }: Discha
           </div>
         ) : null}
       </div>
-      <LineResult result={result} />
+      {leftOutBecause ? (
+        <p className="mt-2 text-sm font-medium text-slate-ft">Not in the totals yet: {leftOutBecause}.</p>
+      ) : (
+        <LineResult result={result} />
+      )}
     </li>
   );
 }

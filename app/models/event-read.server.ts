@@ -134,6 +134,7 @@ function reportDetailOf({ event, discharges, dispositions, tankReadings }: Repor
     createdBy: event.created_by as number,
     authorName: (event.author_name as string | null) ?? null,
     filedAt: event.filed_at ? new Date(event.filed_at).toISOString() : null,
+    updatedAt: event.updated_at ? new Date(event.updated_at).toISOString() : null,
     reviewedAt: event.reviewed_at ? new Date(event.reviewed_at).toISOString() : null,
     reviewerName: (event.reviewer_name as string | null) ?? null,
     reviewComment: (event.review_comment as string | null) ?? null,

@@ -24,6 +24,8 @@ import {
 } from "~/lib/http.server";
 import { flashHeaders } from "~/lib/session.server";
 import { refusalData, refusalStatus } from "~/lib/refusal";
+import { localDateTime } from "~/lib/time-zone";
+import { readAgencySettings } from "~/models/agency-settings.server";
 import { reportSummary, saveReport } from "~/models/event.server";
 import { notificationReason } from "./release-notification.server";
 import { reportAccessRecord } from "~/models/event-read.server";
@@ -96,6 +98,7 @@ export async function handleReportSubmission(request: Request, guard: () => Prom
       clientAddress: clientAddress(request),
     });
     if (outcome.kind === "saved" || outcome.kind === "repeat") {
+      const { timeZone } = await readAgencySettings();
       const reason =
         outcome.kind === "saved" && outcome.status === "filed" ? await notificationReason(outcome.eventId) : null;
       const notice = reason
@@ -113,7 +116,7 @@ export async function handleReportSubmission(request: Request, guard: () => Prom
           ? "This form was already sent; here is the report it made."
           : outcome.status === "filed"
             ? `Report filed. The environmental officer will review it.${notice}${submittedNote}`
-            : "Draft saved. You can come back to it at any time.";
+            : `Draft saved at ${localDateTime(new Date(), timeZone)} (${timeZone}). You can come back to it at any time.`;
       const target =
         outcome.kind === "saved" && outcome.status !== "filed"
           ? `/events/${outcome.eventId}/edit`

@@ -69,67 +69,71 @@ export default function Outbox({ loaderData, actionData }: Route.ComponentProps)
             </button>
           </Form>
         </div>
-        <table className="data-table mt-3">
-          <thead>
-            <tr>
-              <th scope="col">Queued</th>
-              <th scope="col">Kind</th>
-              <th scope="col">To</th>
-              <th scope="col">Subject</th>
-              <th scope="col">Status</th>
-              <th scope="col">Attempts</th>
-              <th scope="col">Last error / next attempt</th>
-              <th scope="col">
-                <span className="sr-only">Retry or discard</span>
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {loaderData.queue.map((row) => (
-              <tr key={row.id}>
-                <td>{when(row.createdAt)}</td>
-                <td>{row.kind.replace(/_/g, " ")}</td>
-                <td className="break-all">{row.to}</td>
-                <td>
-                  {row.subject}
-                  {row.attachmentName ? (
-                    <span className="block text-xs text-slate-ft">Attachment: {row.attachmentName}</span>
-                  ) : null}
-                </td>
-                <td className={row.status === "failed" ? "font-semibold text-danger-700" : undefined}>{row.status}</td>
-                <td>{row.attempts}</td>
-                <td className="text-sm">
-                  {row.lastError ? <span className="block text-danger-700">{row.lastError}</span> : null}
-                  {row.status === "queued"
-                    ? `next: ${when(row.nextAttemptAt)}`
-                    : row.sentAt
-                      ? `sent ${when(row.sentAt)}`
-                      : ""}
-                </td>
-                <td>
-                  {row.status === "queued" || row.status === "failed" ? (
-                    <div className="flex gap-2">
-                      <Form method="post">
-                        <input type="hidden" name="intent" value="retry" />
-                        <input type="hidden" name="id" value={row.id} />
-                        <button type="submit" className="btn-quiet">
-                          Retry now
-                        </button>
-                      </Form>
-                      <Form method="post">
-                        <input type="hidden" name="intent" value="discard" />
-                        <input type="hidden" name="id" value={row.id} />
-                        <button type="submit" className="btn-quiet">
-                          Discard
-                        </button>
-                      </Form>
-                    </div>
-                  ) : null}
-                </td>
+        <div className="table-scroll mt-3">
+          <table className="data-table">
+            <thead>
+              <tr>
+                <th scope="col">Queued</th>
+                <th scope="col">Kind</th>
+                <th scope="col">To</th>
+                <th scope="col">Subject</th>
+                <th scope="col">Status</th>
+                <th scope="col">Attempts</th>
+                <th scope="col">Last error / next attempt</th>
+                <th scope="col">
+                  <span className="sr-only">Retry or discard</span>
+                </th>
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody>
+              {loaderData.queue.map((row) => (
+                <tr key={row.id}>
+                  <td>{when(row.createdAt)}</td>
+                  <td>{row.kind.replace(/_/g, " ")}</td>
+                  <td className="break-all">{row.to}</td>
+                  <td>
+                    {row.subject}
+                    {row.attachmentName ? (
+                      <span className="block text-xs text-slate-ft">Attachment: {row.attachmentName}</span>
+                    ) : null}
+                  </td>
+                  <td className={row.status === "failed" ? "font-semibold text-danger-700" : undefined}>
+                    {row.status}
+                  </td>
+                  <td>{row.attempts}</td>
+                  <td className="text-sm">
+                    {row.lastError ? <span className="block text-danger-700">{row.lastError}</span> : null}
+                    {row.status === "queued"
+                      ? `next: ${when(row.nextAttemptAt)}`
+                      : row.sentAt
+                        ? `sent ${when(row.sentAt)}`
+                        : ""}
+                  </td>
+                  <td>
+                    {row.status === "queued" || row.status === "failed" ? (
+                      <div className="flex gap-2">
+                        <Form method="post">
+                          <input type="hidden" name="intent" value="retry" />
+                          <input type="hidden" name="id" value={row.id} />
+                          <button type="submit" className="btn-quiet">
+                            Retry now
+                          </button>
+                        </Form>
+                        <Form method="post">
+                          <input type="hidden" name="intent" value="discard" />
+                          <input type="hidden" name="id" value={row.id} />
+                          <button type="submit" className="btn-quiet">
+                            Discard
+                          </button>
+                        </Form>
+                      </div>
+                    ) : null}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
         {loaderData.queue.length === 0 ? <p className="mt-2">Nothing has been queued yet.</p> : null}
       </section>
       <section className="card space-y-4" aria-labelledby="received-title">
@@ -138,7 +142,7 @@ export default function Outbox({ loaderData, actionData }: Route.ComponentProps)
         </h2>
         {loaderData.received.length === 0 ? <p>No messages yet.</p> : null}
         {loaderData.received.map((message) => (
-          <article key={message.id} className="rounded-md border border-stone-200 p-3">
+          <article key={message.id} className="rounded-md border border-stone-200 p-3 [overflow-wrap:anywhere]">
             <h3 className="font-semibold">{message.subject}</h3>
             <p className="text-sm text-slate-ft">
               {when(message.receivedAt)} · to {message.envelopeTo.join(", ")}

@@ -175,29 +175,31 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
           Accounts
         </h2>
         <FormErrors errors={updateErrors ?? undefined} />
-        <table className="data-table mt-3">
-          <thead>
-            <tr>
-              <th scope="col">Person</th>
-              <th scope="col">Roles</th>
-              <th scope="col">Station</th>
-              <th scope="col">Active</th>
-              <th scope="col">Signed in</th>
-              <th scope="col">
-                <span className="sr-only">Save</span>
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {loaderData.users.map((user) =>
-              user.editable ? (
-                <UserRowForm key={user.id} user={user} roles={grantable} stations={stations} />
-              ) : (
-                <ReadOnlyUserRow key={user.id} user={user} stations={stations} />
-              ),
-            )}
-          </tbody>
-        </table>
+        <div className="table-scroll mt-3">
+          <table className="data-table">
+            <thead>
+              <tr>
+                <th scope="col">Person</th>
+                <th scope="col">Roles</th>
+                <th scope="col">Station</th>
+                <th scope="col">Active</th>
+                <th scope="col">Signed in</th>
+                <th scope="col">
+                  <span className="sr-only">Save</span>
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {loaderData.users.map((user) =>
+                user.editable ? (
+                  <UserRowForm key={user.id} user={user} roles={grantable} stations={stations} />
+                ) : (
+                  <ReadOnlyUserRow key={user.id} user={user} stations={stations} />
+                ),
+              )}
+            </tbody>
+          </table>
+        </div>
       </section>
       <section className="card max-w-xl" aria-labelledby="create-title">
         <h2 id="create-title" className="text-lg font-semibold">

@@ -321,7 +321,8 @@ export default function Environmental({ loaderData, actionData }: Route.Componen
                 <ul className="list-disc pl-5">
                   {submission.changes.map((change) => (
                     <li key={`${change.number}-${change.revision}-${change.changedAt}`}>
-                      {change.number} (revision {change.revision}, {change.changedAt}): {change.reason}
+                      <span className="event-number">{change.number}</span> (revision {change.revision},{" "}
+                      {change.changedAt}): {change.reason}
                     </li>
                   ))}
                 </ul>

@@ -25,6 +25,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     status: report.status,
     reviewComment: report.status === "returned" ? report.reviewComment : null,
     submissionKey: randomUUID(),
+    savedAt: report.updatedAt,
     defaultValue: report.draft ?? formValuesOf(report),
   };
 }
@@ -39,7 +40,7 @@ export default function EditReport({ loaderData, actionData }: Route.ComponentPr
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">
-        {loaderData.status === "accepted" ? "Revise" : "Edit"} report {number}
+        {loaderData.status === "accepted" ? "Revise" : "Edit"} report <span className="event-number">{number}</span>
       </h1>
       {reviewComment ? (
         <div role="note" className="caution">

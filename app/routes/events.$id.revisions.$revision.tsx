@@ -45,7 +45,8 @@ export default function EarlierRevision({ loaderData }: Route.ComponentProps) {
       <div>
         <p className="text-sm text-slate-ft">Usage report, earlier state (read-only)</p>
         <h1 className="text-2xl font-bold">
-          {report.number} <span className="text-lg font-normal text-slate-ft">revision {report.revision}</span>
+          <span className="event-number">{report.number}</span>{" "}
+          <span className="text-lg font-normal text-slate-ft">revision {report.revision}</span>
         </h1>
       </div>
       <ReportSummary report={report} />

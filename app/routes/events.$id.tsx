@@ -96,7 +96,7 @@ export default function EventReport({ loaderData, actionData }: Route.ComponentP
       <div className="flex flex-wrap items-start justify-between gap-3">
         <div>
           <p className="text-sm text-slate-ft">Usage report</p>
-          <h1 className="text-2xl font-bold">{report.number}</h1>
+          <h1 className="event-number text-2xl font-bold">{report.number}</h1>
           <p className="mt-1">
             <span className="rounded bg-stone-200 px-2 py-0.5 text-sm font-semibold" data-testid="report-status">
               {EVENT_STATUS_LABELS[report.status]}

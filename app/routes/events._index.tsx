@@ -154,7 +154,10 @@ export default function Events({ loaderData }: Route.ComponentProps) {
             {items.map((item) => (
               <tr key={item.id}>
                 <td>
-                  <Link to={`/events/${item.id}`} className="font-semibold text-pond-700 underline underline-offset-4">
+                  <Link
+                    to={`/events/${item.id}`}
+                    className="event-number font-semibold text-pond-700 underline underline-offset-4"
+                  >
                     {item.number}
                   </Link>
                   {item.pfasContaining ? (

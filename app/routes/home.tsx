@@ -33,7 +33,7 @@ export default function Home({ loaderData }: Route.ComponentProps) {
               <li key={report.id}>
                 <Link
                   to={`/events/${report.id}/edit`}
-                  className="font-semibold text-pond-700 underline underline-offset-4"
+                  className="event-number font-semibold text-pond-700 underline underline-offset-4"
                 >
                   {report.number}
                 </Link>
@@ -51,7 +51,10 @@ export default function Home({ loaderData }: Route.ComponentProps) {
           <ul className="mt-2 space-y-1">
             {drafts.map((report) => (
               <li key={report.id}>
-                <Link to={`/events/${report.id}/edit`} className="text-pond-700 underline underline-offset-4">
+                <Link
+                  to={`/events/${report.id}/edit`}
+                  className="event-number text-pond-700 underline underline-offset-4"
+                >
                   {report.number}
                 </Link>
                 <span className="ml-2 text-sm text-slate-ft">

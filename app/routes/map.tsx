@@ -163,8 +163,8 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
         </button>
       </Form>
 
-      <div className="grid gap-4 lg:grid-cols-[minmax(0,1fr)_26rem]">
-        <div className="space-y-2">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-[minmax(0,1fr)_26rem]">
+        <div className="min-w-0 space-y-2">
           <fieldset className="flex flex-wrap gap-x-4 gap-y-1 text-sm">
             <legend className="sr-only">Layers</legend>
             {OVERLAYS.map((overlay) => (

@@ -359,7 +359,7 @@ function ReleaseSection() {
               <tbody>
                 {preview.rows.map((row) => (
                   <tr key={row.id} className="border-t">
-                    <td>{row.number}</td>
+                    <td className="event-number">{row.number}</td>
                     <td>{row.kind}</td>
                     <td>{row.startedAt}</td>
                     <td>{row.address}</td>

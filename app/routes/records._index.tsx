@@ -89,54 +89,56 @@ export default function RecordsQueue({ loaderData }: Route.ComponentProps) {
       {items.length === 0 ? (
         <p className="card">No requests match.</p>
       ) : (
-        <table className="w-full text-sm">
-          <thead>
-            <tr>
-              <th className="px-2 py-2 text-left">Tracking code</th>
-              {COLUMNS.map((column) => {
-                const active = column.key !== null && query.sort === column.key;
-                return (
-                  <th
-                    key={column.label}
-                    className="px-2 py-2 text-left"
-                    aria-sort={active ? (query.dir === "asc" ? "ascending" : "descending") : undefined}
-                  >
-                    {column.key ? (
-                      <Link
-                        to={link({ sort: column.key, dir: active && query.dir === "asc" ? "desc" : "asc" })}
-                        className="underline underline-offset-4"
-                      >
-                        {column.label}
-                      </Link>
-                    ) : (
-                      column.label
-                    )}
-                  </th>
-                );
-              })}
-            </tr>
-          </thead>
-          <tbody>
-            {items.map((item) => (
-              <tr key={item.id} className={`border-t ${URGENCY_CLASS[item.urgency]}`} data-urgency={item.urgency}>
-                <td className="px-2 py-2">
-                  <Link to={`/records/${item.id}`} className="font-mono text-pond-700 underline underline-offset-4">
-                    {item.trackingCode}
-                  </Link>
-                  <span className="block text-xs">{item.requesterName}</span>
-                </td>
-                <td className="px-2 py-2">{item.receivedAt.slice(0, 10)}</td>
-                <td className="px-2 py-2">{item.dueOn}</td>
-                <td className="px-2 py-2">
-                  {item.daysLeft ?? "—"}{" "}
-                  {URGENCY_LABEL[item.urgency] ? <span>({URGENCY_LABEL[item.urgency]})</span> : null}
-                </td>
-                <td className="px-2 py-2">{item.statusLabel}</td>
-                <td className="px-2 py-2">{item.assignee?.name ?? "Nobody yet"}</td>
+        <div className="table-scroll">
+          <table className="w-full text-sm">
+            <thead>
+              <tr>
+                <th className="px-2 py-2 text-left">Tracking code</th>
+                {COLUMNS.map((column) => {
+                  const active = column.key !== null && query.sort === column.key;
+                  return (
+                    <th
+                      key={column.label}
+                      className="px-2 py-2 text-left"
+                      aria-sort={active ? (query.dir === "asc" ? "ascending" : "descending") : undefined}
+                    >
+                      {column.key ? (
+                        <Link
+                          to={link({ sort: column.key, dir: active && query.dir === "asc" ? "desc" : "asc" })}
+                          className="underline underline-offset-4"
+                        >
+                          {column.label}
+                        </Link>
+                      ) : (
+                        column.label
+                      )}
+                    </th>
+                  );
+                })}
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody>
+              {items.map((item) => (
+                <tr key={item.id} className={`border-t ${URGENCY_CLASS[item.urgency]}`} data-urgency={item.urgency}>
+                  <td className="px-2 py-2">
+                    <Link to={`/records/${item.id}`} className="font-mono text-pond-700 underline underline-offset-4">
+                      {item.trackingCode}
+                    </Link>
+                    <span className="block text-xs">{item.requesterName}</span>
+                  </td>
+                  <td className="px-2 py-2">{item.receivedAt.slice(0, 10)}</td>
+                  <td className="px-2 py-2">{item.dueOn}</td>
+                  <td className="px-2 py-2">
+                    {item.daysLeft ?? "—"}{" "}
+                    {URGENCY_LABEL[item.urgency] ? <span>({URGENCY_LABEL[item.urgency]})</span> : null}
+                  </td>
+                  <td className="px-2 py-2">{item.statusLabel}</td>
+                  <td className="px-2 py-2">{item.assignee?.name ?? "Nobody yet"}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
       )}
     </section>
   );

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { DispositionLineSchema } from "./report-schema";
+import { DispositionLineSchema, FiledReportSchema } from "./report-schema";
 
 describe("runoff lines", () => {
   it("asks for the receiving water of a surface-water release, at its field", () => {
@@ -12,5 +12,47 @@ describe("runoff lines", () => {
       receivingWater: "Alder Creek",
     });
     expect(named.success).toBe(true);
+  });
+});
+
+describe("the first filing attempt", () => {
+  it("names the cross-field problems together with the field problems", () => {
+    const result = FiledReportSchema.safeParse({
+      kind: "incident",
+      startedAt: "2026-11-20T14:05",
+      clearedAt: "2026-11-20T13:00",
+      // No address, no location, no station: field problems.
+      discharges: [{ flowUnit: "gpm", basis: "water", productId: 1 }],
+      dispositions: [
+        { disposition: "storm_drain", sharePercent: 40 },
+        { disposition: "contained", sharePercent: 20 },
+      ],
+    });
+    expect(result.success).toBe(false);
+    const paths = result.error!.issues.map((issue) => issue.path.join("."));
+    // Field problems…
+    expect(paths).toEqual(expect.arrayContaining(["address", "latitude", "stationId", "discharges.0.flow"]));
+    // …and, in the same answer, the checks across fields of a line and of the report.
+    expect(paths).toEqual(
+      expect.arrayContaining([
+        "discharges.0.percent",
+        "discharges.0.minutes",
+        "dispositions.1.disposalReference",
+        "dispositions",
+        "clearedAt",
+      ]),
+    );
+  });
+
+  it("does not add up shares while one of them is not a number", () => {
+    const result = FiledReportSchema.safeParse({
+      dispositions: [
+        { disposition: "storm_drain", sharePercent: 40 },
+        { disposition: "soil", sharePercent: "lots" },
+      ],
+    });
+    const messages = result.error!.issues.map((issue) => issue.message);
+    expect(messages.some((message) => message.includes("add up to"))).toBe(false);
+    expect(result.error!.issues.some((issue) => issue.path.join(".") === "dispositions.1.sharePercent")).toBe(true);
   });
 });

@@ -42,6 +42,14 @@ const flowBasis = z.enum(FLOW_BASES, { error: "Choose whether the flow is water 
 const percentOf = z.enum(PERCENT_OF, { error: "Choose whether the percent is of the foam solution or of the water." });
 const id = z.number().int().positive();
 
+/**
+ * Cross-field checks run even when a field of the line or report has already failed, so that the
+ * first filing attempt names every problem at once. Their values may then be partly unparsed: each
+ * check looks only at values of the type it needs.
+ */
+const everyCheck = { when: () => true };
+const isNumber = (value: unknown): value is number => typeof value === "number" && Number.isFinite(value);
+
 /** One discharge as the totals API takes it. */
 export const TotalsDischargeSchema = z.object({
   flow: positiveNumber("flow", 100_000),
@@ -161,7 +169,7 @@ export const DischargeLineSchema = z
         ctx.addIssue({ code: "custom", path: ["endedAt"], message: "A discharge cannot last more than 24 hours." });
       }
     }
-  });
+  }, everyCheck);
 
 export type DischargeLine = z.infer<typeof DischargeLineSchema>;
 
@@ -210,7 +218,7 @@ export const DispositionLineSchema = z
         message: "Say who at the treatment works was told, and when.",
       });
     }
-  });
+  }, everyCheck);
 
 export const TankReadingLineSchema = z
   .object({
@@ -221,7 +229,7 @@ export const TankReadingLineSchema = z
     levelAfterGal: optionalNonNegative("level after", 100_000),
   })
   .superRefine((line, ctx) => {
-    const levels = line.levelBeforeGal != null && line.levelAfterGal != null;
+    const levels = isNumber(line.levelBeforeGal) && isNumber(line.levelAfterGal);
     if (line.refillGal == null && !levels) {
       ctx.addIssue({ code: "custom", path: ["refillGal"], message: "Enter the refill amount, or both tank levels." });
     }
@@ -232,7 +240,7 @@ export const TankReadingLineSchema = z
         message: "The level after use cannot be above the level before.",
       });
     }
-  });
+  }, everyCheck);
 
 /** The report as filed: every rule applies. Drafts are kept as typed (see `DraftReportSchema`). */
 export const FiledReportSchema = z
@@ -282,27 +290,30 @@ export const FiledReportSchema = z
       .optional(),
   })
   .superRefine((report, ctx) => {
-    const allowed = INCIDENT_TYPES_BY_KIND[report.kind];
-    if (report.incidentType && !allowed.includes(report.incidentType)) {
+    // Every check runs even when a field failed: a kind or type that failed its own check is skipped.
+    const allowed = Object.hasOwn(INCIDENT_TYPES_BY_KIND, report.kind) ? INCIDENT_TYPES_BY_KIND[report.kind] : null;
+    const type = report.incidentType;
+    if (allowed && type && Object.hasOwn(INCIDENT_TYPE_LABELS, type) && !allowed.includes(type)) {
       ctx.addIssue({
         code: "custom",
         path: ["incidentType"],
-        message: `${INCIDENT_TYPE_LABELS[report.incidentType]} is not a type of ${EVENT_KIND_LABELS[report.kind].toLowerCase()}; choose ${allowed.map((type) => INCIDENT_TYPE_LABELS[type]).join(" or ")}, or change the kind.`,
+        message: `${INCIDENT_TYPE_LABELS[type]} is not a type of ${EVENT_KIND_LABELS[report.kind].toLowerCase()}; choose ${allowed.map((type) => INCIDENT_TYPE_LABELS[type]).join(" or ")}, or change the kind.`,
       });
     }
     const window = minutesBetween(report.startedAt, report.clearedAt);
     if (window != null && window < 0) {
       ctx.addIssue({ code: "custom", path: ["clearedAt"], message: "The clear time must be after the start." });
     }
-    const shares = report.dispositions.filter((line) => line.sharePercent != null);
-    const volumes = report.dispositions.filter((line) => line.volumeGal != null);
+    const dispositions = Array.isArray(report.dispositions) ? report.dispositions.filter(Boolean) : [];
+    const shares = dispositions.filter((line) => line.sharePercent != null);
+    const volumes = dispositions.filter((line) => line.volumeGal != null);
     if (shares.length && volumes.length) {
       ctx.addIssue({
         code: "custom",
         path: ["dispositions"],
         message: "Give every runoff line as a share, or every line as a volume — not a mix.",
       });
-    } else if (shares.length) {
+    } else if (shares.length && shares.every((line) => isNumber(line.sharePercent))) {
       const sum = shares.reduce((total, line) => total + line.sharePercent!, 0);
       if (Math.abs(sum - 100) > 0.01) {
         ctx.addIssue({
@@ -312,7 +323,7 @@ export const FiledReportSchema = z
         });
       }
     }
-  });
+  }, everyCheck);
 
 export type FiledReport = z.infer<typeof FiledReportSchema>;
 
