@@ -10,7 +10,7 @@ case "${1:-start}" in
     if [ -f "$pidfile" ] && kill -0 "$(cat "$pidfile")" 2>/dev/null; then exit 0; fi
     nohup node --import tsx scripts/fakes.ts >".data/fakes-${FAKES_TAG:-demo}.log" 2>&1 &
     echo $! >"$pidfile"
-    for _ in $(seq 1 50); do grep -q "fakes ready" ".data/fakes-${FAKES_TAG:-demo}.log" 2>/dev/null && break; sleep 0.2; done
+    for _ in $(seq 1 300); do grep -q "fakes ready" ".data/fakes-${FAKES_TAG:-demo}.log" 2>/dev/null && break; sleep 0.2; done
     grep -q "fakes ready" ".data/fakes-${FAKES_TAG:-demo}.log" || { echo "local fakes did not start; see .data/fakes-${FAKES_TAG:-demo}.log" >&2; exit 1; }
     ;;
   stop)

@@ -3,7 +3,7 @@ import { DEMO, DEMO_PASSWORD, expect, signInAs, test } from "../support/e2e";
 test.describe("signing in", () => {
   test("each demo role signs in and sees only its own navigation", async ({ page }) => {
     const expected: Record<keyof typeof DEMO, string[]> = {
-      officer: ["Home", "New report", "Events", "Foam systems"],
+      officer: ["Home", "New report", "Events", "Foam systems", "Concentrate stock"],
       environmental: [
         "Home",
         "Events",
@@ -13,6 +13,7 @@ test.describe("signing in", () => {
         "Usage map",
         "Drainage layers",
         "Quarterly summaries",
+        "Concentrate stock",
       ],
       chief: [
         "Home",
@@ -25,6 +26,7 @@ test.describe("signing in", () => {
         "Foam systems",
         "Usage map",
         "Quarterly summaries",
+        "Concentrate stock",
       ],
       records: ["Home", "Events"],
       admin: ["Home", "People and roles", "Agency settings", "Apparatus and stations", "Mail outbox"],
