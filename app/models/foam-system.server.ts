@@ -762,14 +762,18 @@ export async function saveFoamSystem(
     } else {
       [savedId] = await trx("foam_systems").insert(columns);
     }
-    await trx("foam_system_tanks").where({ foam_system_id: savedId }).delete();
+    // The tank is changed in place: a stock location is tied to it (decision 170).
+    const tank = {
+      name: value.tankName || "Tank",
+      capacity_gal: value.tankCapacityGal ?? null,
+      product_id: value.tankProductId ?? null,
+    };
+    const firstTank = await trx("foam_system_tanks").where({ foam_system_id: savedId }).orderBy("id").first("id");
     if (value.tankName || value.tankCapacityGal != null || value.tankProductId != null) {
-      await trx("foam_system_tanks").insert({
-        foam_system_id: savedId,
-        name: value.tankName || "Tank",
-        capacity_gal: value.tankCapacityGal ?? null,
-        product_id: value.tankProductId ?? null,
-      });
+      if (firstTank) await trx("foam_system_tanks").where({ id: firstTank.id }).update(tank);
+      else await trx("foam_system_tanks").insert({ foam_system_id: savedId, ...tank });
+    } else {
+      await trx("foam_system_tanks").where({ foam_system_id: savedId }).delete();
     }
     await trx("foam_system_outlets").where({ foam_system_id: savedId }).delete();
     if (outlets.length) {
