@@ -2,6 +2,7 @@ import type { Knex } from "knex";
 import {
   addStockLocation,
   apparatusTankLocation,
+  tankFill,
   moveStock,
   postReportStock,
   receiveStock,
@@ -179,8 +180,9 @@ export async function seed(knex: Knex): Promise<void> {
   await move("transferred", locations.s1, locations.e1, classA, 25, "2025-12-06", "Fill E1 Class A tank");
   await move("transferred", locations.s2, locations.e2, classA, 15, "2025-12-06", "Fill E2 Class A tank");
   await move("transferred", locations.s1, locations.s3, classA, 30, "2025-12-07", "Stock South Fork");
-  await move("transferred", locations.s3, locations.e3, classA, 20, "2025-12-07", "Fill E3 Class A tank");
-  await move("transferred", locations.s3, locations.br3, classA, 10, "2025-12-07", "Fill BR3 Class A tank");
+  // E3's one system tank holds 50 gal (its catalogue figure): 10 of Class A beside 40 of F3.
+  await move("transferred", locations.s3, locations.e3, classA, 10, "2025-12-07", "Fill E3 Class A tank");
+  await move("transferred", locations.s3, locations.br3, classA, 5, "2025-12-07", "Fill BR3 Class A tank");
   await move("transferred", locations.s1, locations.ft1, f3, 150, "2025-12-08", "Fill Foam Tender 1 F3 tank");
   await move("transferred", locations.s1, locations.e3, f3, 40, "2025-12-08", "Fill E3 Class B tank");
 
@@ -212,8 +214,8 @@ export async function seed(knex: Knex): Promise<void> {
   const tankFills: [number, number, number, number][] = [
     [locations.e1, locations.s1, classA, 25],
     [locations.e2, locations.s2, classA, 15],
-    [locations.e3, locations.s3, classA, 20],
-    [locations.br3, locations.s3, classA, 10],
+    [locations.e3, locations.s3, classA, 10],
+    [locations.br3, locations.s3, classA, 5],
     [locations.e3, locations.s1, f3, 40],
     [locations.ft1, locations.s1, f3, 150],
   ];
@@ -225,7 +227,10 @@ export async function seed(knex: Knex): Promise<void> {
     const inStore = (await stockItems({ locationId: store, productId }, knex))
       .filter((item) => item.lot && item.onHandGal > 0)
       .reduce((sum, item) => sum + item.onHandGal, 0);
-    const wanted = Math.min(Math.round((full - inTank) * 100) / 100, Math.floor(inStore));
+    // A transfer beyond the tank's capacity is refused: fill only the room left in it.
+    const fill = (await tankFill(knex)).find((row) => row.locationId === tank);
+    const room = fill?.capacityGal == null ? Infinity : Math.floor(fill.capacityGal - fill.onHandGal);
+    const wanted = Math.min(Math.round((full - inTank) * 100) / 100, Math.floor(inStore), room);
     if (wanted >= 1)
       await move("transferred", store, tank, productId, wanted, "2026-11-20", "Top-up after the year's calls");
   }

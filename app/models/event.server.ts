@@ -547,24 +547,34 @@ async function auditReport(
  * submission key answers with the report it already made; a stale version is a conflict, never an
  * overwrite.
  */
+/**
+ * The one save path, inside a transaction the caller holds (a flush's maintenance entry files its
+ * usage report in its own transaction). A refusal is thrown as a `RefusalError`; mail queued by a
+ * filing is delivered once the caller commits (`deliverPendingMailSoon`).
+ */
+export async function saveReportWithin(trx: Knex.Transaction, saveRequest: SaveRequest): Promise<SaveOutcome> {
+  const request = { ...saveRequest, payload: boundedDraft(saveRequest.payload) };
+  const filing = request.intent === "file";
+  if (filing && !request.report) throw new Error("filing needs a validated report");
+  const repeat = await claimSubmissionKey(trx, request);
+  if (repeat) return repeat;
+  const loaded = await loadReport(trx, request);
+  const change = checkStatusChange(request, loaded.row);
+  const before = loaded.row ? await snapshotEvent(loaded.row.id, trx) : null;
+  const eventId = await writeReport(trx, request, loaded, change, before);
+  await auditReport(trx, request, eventId, change, before, loaded.lines);
+  await recomputeEventGeography(eventId, trx);
+  if (filing) await queueFiledReportAlerts(eventId, trx);
+  if (filing) await postReportStock(trx, eventId, request.user);
+  return { kind: "saved", eventId, status: change.status, usage: loaded.usage };
+}
+
 export async function saveReport(saveRequest: SaveRequest): Promise<SaveOutcome> {
   const request = { ...saveRequest, payload: boundedDraft(saveRequest.payload) };
   const filing = request.intent === "file";
   if (filing && !request.report) throw new Error("filing needs a validated report");
   try {
-    const outcome = await db.transaction(async (trx): Promise<SaveOutcome> => {
-      const repeat = await claimSubmissionKey(trx, request);
-      if (repeat) return repeat;
-      const loaded = await loadReport(trx, request);
-      const change = checkStatusChange(request, loaded.row);
-      const before = loaded.row ? await snapshotEvent(loaded.row.id, trx) : null;
-      const eventId = await writeReport(trx, request, loaded, change, before);
-      await auditReport(trx, request, eventId, change, before, loaded.lines);
-      await recomputeEventGeography(eventId, trx);
-      if (filing) await queueFiledReportAlerts(eventId, trx);
-      if (filing) await postReportStock(trx, eventId, request.user);
-      return { kind: "saved", eventId, status: change.status, usage: loaded.usage };
-    });
+    const outcome = await db.transaction((trx) => saveReportWithin(trx, request));
     if (outcome.kind === "saved" && outcome.status === "filed") deliverPendingMailSoon();
     return outcome;
   } catch (error) {

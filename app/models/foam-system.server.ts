@@ -1,3 +1,5 @@
+import { randomUUID } from "node:crypto";
+import type { Knex } from "knex";
 import { recordAudit } from "~/lib/audit.server";
 import type { SessionUser } from "~/lib/auth.server";
 import { decimalOrNull } from "~/lib/decimal";
@@ -27,6 +29,8 @@ import { refused, RefusalError, type Refusal } from "~/lib/refusal";
 import { instantToWallClock, wallClockToInstant } from "~/lib/time-zone";
 import { readAgencySettings } from "./agency-settings.server";
 import { bumpDataVersion } from "./data-version.server";
+import { saveReportWithin } from "./event.server";
+import { deliverPendingMailSoon } from "./mail-outbox.server";
 import { failureReason } from "./foam-system-facts.server";
 
 export type FoamSystemSummary = {
@@ -383,7 +387,7 @@ async function productExists(trx: Db, id: number | undefined, field: string) {
   return product;
 }
 
-async function run<T>(work: (trx: Db) => Promise<T>): Promise<T | Refusal> {
+async function run<T>(work: (trx: Knex.Transaction) => Promise<T>): Promise<T | Refusal> {
   try {
     return await db.transaction(async (trx) => {
       const result = await work(trx);
@@ -397,14 +401,17 @@ async function run<T>(work: (trx: Db) => Promise<T>): Promise<T | Refusal> {
   }
 }
 
-/** Records a flush, prime, strainer cleaning or changeover, linked to the usage report it names. */
+/**
+ * Records a flush, prime, strainer cleaning or changeover, linked to the usage report it names; a
+ * flush that flowed and names none files its own usage report (`fileFlushReport`).
+ */
 export async function recordMaintenance(
   systemId: number,
   value: MaintenanceFormValue,
   actor: SessionUser,
   clientAddress?: string,
-): Promise<{ id: number } | Refusal> {
-  return run(async (trx) => {
+): Promise<{ id: number; eventId: number | null; createdReport: string | null } | Refusal> {
+  const outcome = await run(async (trx) => {
     const settings = await readAgencySettings(trx);
     const system = await lockSystem(trx, systemId);
     const performedAt = instantOf(value.performedAt, settings.timeZone, "performedAt");
@@ -419,14 +426,11 @@ export async function recordMaintenance(
       eventId = event.id;
     }
     const flowed = (value.waterGal ?? 0) > 0 || (value.concentrateDisposedGal ?? 0) > 0;
+    let createdReport: string | null = null;
     if (flowed && eventId == null && value.kind === "flush") {
-      throw new RefusalError(
-        refused(400, "Name the flush's usage report.", {
-          eventNumber: [
-            "This flush flowed water or concentrate: enter the number of its usage report (kind “flush”), so its volumes are counted once, in the same totals.",
-          ],
-        }),
-      );
+      const filed = await fileFlushReport(trx, system, value, actor, clientAddress);
+      eventId = filed.id;
+      createdReport = filed.number;
     }
     const from = await productExists(trx, value.fromProductId, "fromProductId");
     const to = await productExists(trx, value.toProductId, "toProductId");
@@ -471,8 +475,126 @@ export async function recordMaintenance(
       },
       trx,
     );
-    return { id };
+    return { id, eventId, createdReport };
   });
+  // A filed report may have queued alerts: they go out once the flush is committed.
+  if (!("kind" in outcome) && outcome.createdReport) deliverPendingMailSoon();
+  return outcome;
+}
+
+/**
+ * The usage report of a flush that flowed and names none: filed through the one report save path
+ * (totals, event number, audit and stock as for any report), in the maintenance entry's transaction,
+ * so the flush's water and concentrate are counted once — in this report.
+ */
+async function fileFlushReport(
+  trx: Knex.Transaction,
+  system: { id: number; apparatus_id: number; name: string; max_concentrate_gpm: unknown },
+  value: MaintenanceFormValue,
+  actor: SessionUser,
+  clientAddress?: string,
+): Promise<{ id: number; number: string }> {
+  const waterGal = value.waterGal ?? 0;
+  const concentrateGal = value.concentrateDisposedGal ?? 0;
+  const apparatus = await trx("apparatus").where({ id: system.apparatus_id }).first("id", "unit_id", "station_id");
+  const station = apparatus?.station_id
+    ? await trx("stations").where({ id: apparatus.station_id }).first("id", "name", "address", "latitude", "longitude")
+    : null;
+  const latitude = decimalOrNull(station?.latitude);
+  const longitude = decimalOrNull(station?.longitude);
+  if (!station || latitude == null || longitude == null) {
+    throw new RefusalError(
+      refused(400, "Name the flush's usage report.", {
+        eventNumber: [
+          "This flush flowed water or concentrate, and its usage report cannot be made here: the apparatus has no station with a map position. Enter the number of its usage report (kind “flush”).",
+        ],
+      }),
+    );
+  }
+  if (waterGal <= 0) {
+    throw new RefusalError(
+      refused(400, "Enter the water used.", {
+        waterGal: [
+          "Concentrate went through the system: enter the water used with it, so the flush's report can be made.",
+        ],
+      }),
+    );
+  }
+  const tank = await trx("foam_system_tanks")
+    .where({ foam_system_id: system.id })
+    .whereNotNull("product_id")
+    .orderBy("id")
+    .first("product_id");
+  if (concentrateGal > 0 && !tank) {
+    throw new RefusalError(
+      refused(400, "Record the product loaded.", {
+        concentrateDisposedGal: [
+          "The system's tank has no product loaded, so the concentrate cannot be counted: record the product on the system, or enter the number of the flush's usage report.",
+        ],
+      }),
+    );
+  }
+  const outlet = await trx("foam_system_outlets")
+    .where({ foam_system_id: system.id })
+    .orderBy("id")
+    .first("outlet_name");
+  // One line carrying the whole flush: a water flow over its minutes gives the water used; the
+  // concentrate as a share of the solution (water + concentrate) gives the concentrate used, and
+  // stays below 100 % whatever the two figures are. The minutes are long enough that the
+  // concentrate rate stays within the system's maximum, which would otherwise cap it.
+  const percent = concentrateGal > 0 ? (concentrateGal / (waterGal + concentrateGal)) * 100 : undefined;
+  const maxRate = decimalOrNull(system.max_concentrate_gpm);
+  const minutes = Math.min(
+    24 * 60,
+    Math.max(1, maxRate && maxRate > 0 && concentrateGal > 0 ? Math.ceil(concentrateGal / maxRate) : 1),
+  );
+  const report = {
+    kind: "flush" as const,
+    incidentType: "flush" as const,
+    startedAt: value.performedAt,
+    address: station.address || station.name,
+    latitude,
+    longitude,
+    stationId: station.id,
+    narrative:
+      `Made with the ${system.name} flush entry on ${apparatus!.unit_id}. ` +
+      `The place shown is ${station.name}, the apparatus's station, not necessarily where the water went; ` +
+      `the flush entry does not say where its runoff went, so it is given as unknown. Revise this report to correct either.` +
+      (value.notes ? ` Flush notes: ${value.notes}` : ""),
+    discharges: [
+      {
+        apparatusId: apparatus!.id,
+        outlet: (outlet?.outlet_name as string | undefined) ?? system.name,
+        productId: concentrateGal > 0 ? (tank!.product_id as number) : undefined,
+        percent,
+        percentOf: concentrateGal > 0 ? ("solution" as const) : undefined,
+        flow: waterGal / minutes,
+        flowUnit: "gpm" as const,
+        basis: "water" as const,
+        minutes,
+      },
+    ],
+    dispositions: [{ disposition: "evaporated_unknown" as const, sharePercent: 100 }],
+  };
+  const outcome = await saveReportWithin(trx, {
+    user: actor,
+    intent: "file",
+    submissionKey: `flush-${randomUUID()}`,
+    payload: report,
+    report,
+    clientAddress,
+  });
+  if (outcome.kind === "saved" || outcome.kind === "repeat") {
+    const event = await trx("events").where({ id: outcome.eventId }).first("id", "number");
+    return { id: event.id as number, number: event.number as string };
+  }
+  // The report's own field names are not on this form: its reasons are shown at the water field.
+  const reasons = Object.values(outcome.fieldErrors ?? {}).flat();
+  throw new RefusalError(
+    refused(outcome.kind === "refused" ? outcome.status : 400, "The flush's usage report could not be filed.", {
+      waterGal: [`The flush's usage report could not be filed: ${[outcome.message, ...reasons].join(" ")}`],
+    }),
+  );
 }
 
 /** Largest achieved percentage kept: beyond it the sample lies far outside the calibration. */
@@ -640,14 +762,18 @@ export async function saveFoamSystem(
     } else {
       [savedId] = await trx("foam_systems").insert(columns);
     }
-    await trx("foam_system_tanks").where({ foam_system_id: savedId }).delete();
+    // The tank is changed in place: a stock location is tied to it (decision 170).
+    const tank = {
+      name: value.tankName || "Tank",
+      capacity_gal: value.tankCapacityGal ?? null,
+      product_id: value.tankProductId ?? null,
+    };
+    const firstTank = await trx("foam_system_tanks").where({ foam_system_id: savedId }).orderBy("id").first("id");
     if (value.tankName || value.tankCapacityGal != null || value.tankProductId != null) {
-      await trx("foam_system_tanks").insert({
-        foam_system_id: savedId,
-        name: value.tankName || "Tank",
-        capacity_gal: value.tankCapacityGal ?? null,
-        product_id: value.tankProductId ?? null,
-      });
+      if (firstTank) await trx("foam_system_tanks").where({ id: firstTank.id }).update(tank);
+      else await trx("foam_system_tanks").insert({ foam_system_id: savedId, ...tank });
+    } else {
+      await trx("foam_system_tanks").where({ foam_system_id: savedId }).delete();
     }
     await trx("foam_system_outlets").where({ foam_system_id: savedId }).delete();
     if (outlets.length) {

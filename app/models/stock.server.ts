@@ -35,6 +35,9 @@ export type StockLocation = {
   name: string;
   stationId: number | null;
   apparatusId: number | null;
+  /** The foam system tank this location is (apparatus tanks), with its capacity when known. */
+  foamSystemTankId: number | null;
+  capacityGal: number | null;
   version: number;
 };
 
@@ -44,6 +47,8 @@ type LocationRow = {
   name: string;
   station_id: number | null;
   apparatus_id: number | null;
+  foam_system_tank_id: number | null;
+  capacity_gal?: unknown;
   version: number;
 };
 
@@ -53,26 +58,109 @@ const locationOf = (row: LocationRow): StockLocation => ({
   name: row.name,
   stationId: row.station_id,
   apparatusId: row.apparatus_id,
+  foamSystemTankId: row.foam_system_tank_id ?? null,
+  capacityGal: decimalOrNull(row.capacity_gal),
   version: row.version,
 });
 
+/** Locations with their tank's capacity (`capacity_gal`) where they are a foam system's tank. */
+const locationsWithTanks = (connection: Db) =>
+  connection("stock_locations as l")
+    .leftJoin("foam_system_tanks as k", "k.id", "l.foam_system_tank_id")
+    .select("l.*", "k.capacity_gal");
+
+export type TankFill = {
+  locationId: number;
+  name: string;
+  capacityGal: number | null;
+  onHandGal: number;
+  /** On hand as a share of the capacity, in %; null without a capacity on record. */
+  fillPercent: number | null;
+};
+
+/** Every apparatus tank with its capacity (from its foam system's tank) and what is in it now. */
+export async function tankFill(connection: Db = db): Promise<TankFill[]> {
+  const rows = await locationsWithTanks(connection)
+    .where({ "l.active": true, "l.kind": "apparatus_tank" })
+    .select(
+      connection.raw("(SELECT COALESCE(SUM(m.gal), 0) FROM stock_movements m WHERE m.location_id = l.id) AS on_hand"),
+    )
+    .orderBy("l.name");
+  return rows.map((row: LocationRow & { on_hand: unknown }) => {
+    const capacityGal = decimalOrNull(row.capacity_gal);
+    const onHandGal = roundGal(decimalOrZero(row.on_hand));
+    return {
+      locationId: row.id,
+      name: row.name,
+      capacityGal,
+      onHandGal,
+      fillPercent: capacityGal && capacityGal > 0 ? Math.round((onHandGal / capacityGal) * 1000) / 10 : null,
+    };
+  });
+}
+
 export async function listStockLocations(connection: Db = db): Promise<StockLocation[]> {
-  const rows: LocationRow[] = await connection("stock_locations").where({ active: true }).orderBy(["kind", "name"]);
+  const rows: LocationRow[] = await locationsWithTanks(connection)
+    .where("l.active", true)
+    .orderBy([{ column: "l.kind" }, { column: "l.name" }]);
   return rows.map(locationOf);
 }
 
-/** The tank of an apparatus as a stock location, made the first time it is needed. */
-export async function apparatusTankLocation(trx: Knex.Transaction, apparatusId: number): Promise<number> {
-  const existing = await trx("stock_locations").where({ apparatus_id: apparatusId }).first("id");
-  if (existing) return existing.id;
+/**
+ * The tank a line of an apparatus draws from, as a stock location (decision 170): the tank of the
+ * foam system the line was placed on when known, else the apparatus's first tank location. A tank
+ * without a location gets one the first time it is needed.
+ */
+export async function apparatusTankLocation(
+  trx: Knex.Transaction,
+  apparatusId: number,
+  foamSystemId: number | null = null,
+): Promise<number> {
+  const systemTank = foamSystemId
+    ? await trx("foam_system_tanks as k")
+        .join("foam_systems as s", "s.id", "k.foam_system_id")
+        .where({ "k.foam_system_id": foamSystemId, "s.apparatus_id": apparatusId })
+        .orderBy("k.id")
+        .first("k.id", "k.name", "s.name as system_name")
+    : null;
+  if (systemTank) {
+    const linked = await trx("stock_locations").where({ foam_system_tank_id: systemTank.id }).first("id");
+    if (linked) return linked.id;
+  } else {
+    const existing = await trx("stock_locations")
+      .where({ apparatus_id: apparatusId, kind: "apparatus_tank" })
+      .orderBy("id")
+      .first("id");
+    if (existing) return existing.id;
+  }
+  const tank =
+    systemTank ??
+    (await trx("foam_system_tanks as k")
+      .join("foam_systems as s", "s.id", "k.foam_system_id")
+      .where("s.apparatus_id", apparatusId)
+      .whereNotExists(trx("stock_locations as l").whereRaw("l.foam_system_tank_id = k.id").select("l.id"))
+      .orderBy([{ column: "s.id" }, { column: "k.id" }])
+      .first("k.id", "k.name", "s.name as system_name"));
   const apparatus = await trx("apparatus").where({ id: apparatusId }).first("unit_id", "station_id");
+  const others = await trx("stock_locations").where({ apparatus_id: apparatusId }).first("id");
+  const wanted =
+    others && tank ? `${apparatus.unit_id} ${tank.system_name} · ${tank.name}` : `${apparatus.unit_id} tank`;
   const [id] = await trx("stock_locations").insert({
     kind: "apparatus_tank",
-    name: `${apparatus.unit_id} tank`,
+    name: await freeLocationName(trx, wanted),
     station_id: apparatus.station_id,
     apparatus_id: apparatusId,
+    foam_system_tank_id: tank?.id ?? null,
   });
   return id;
+}
+
+async function freeLocationName(trx: Knex.Transaction, wanted: string): Promise<string> {
+  const base = wanted.slice(0, 110);
+  for (let n = 1; ; n += 1) {
+    const name = n === 1 ? base : `${base} (${n})`;
+    if (!(await trx("stock_locations").where({ name }).first("id"))) return name;
+  }
 }
 
 /** A station's store as a stock location, made the first time it is needed. */
@@ -294,6 +382,31 @@ export type MoveInput = {
   at: Date;
 };
 
+/**
+ * A transfer into a foam system's tank must fit: what the tank holds now (every product) plus the
+ * transfer at most its capacity. A tank without a capacity on record takes any amount.
+ */
+async function checkTankRoom(trx: Knex.Transaction, locationId: number, gal: number): Promise<void> {
+  const tank = await trx("stock_locations as l")
+    .join("foam_system_tanks as k", "k.id", "l.foam_system_tank_id")
+    .where("l.id", locationId)
+    .first("l.name", "k.capacity_gal");
+  const capacity = decimalOrNull(tank?.capacity_gal);
+  if (!tank || capacity == null) return;
+  const held = decimalOrZero(
+    (await trx("stock_movements").where({ location_id: locationId }).sum({ gal: "gal" }).first())?.gal,
+  );
+  if (held + gal > capacity + 1e-6) {
+    const room = Math.max(0, capacity - held);
+    refuseAt(
+      "gal",
+      `${tank.name} holds ${formatGal(capacity)} gal and has ${formatGal(held)} gal in it: at most ${formatGal(room)} gal more fits.`,
+    );
+  }
+}
+
+const formatGal = (value: number) => value.toLocaleString("en-US", { maximumFractionDigits: 2 });
+
 /** A transfer between locations, a quality sample taken or concentrate sent for disposal. */
 export async function moveStock(
   user: Actor,
@@ -333,6 +446,7 @@ export async function moveStock(
           };
     const plan = planMovement(book, request, facts);
     if (!plan.ok) return refuseAt(plan.field, plan.message);
+    if (input.kind === "transferred") await checkTankRoom(trx, input.toLocationId!, input.gal);
     const movementIds = await writeEntries(trx, plan.entries, {
       at: input.at,
       reason: input.reason,
@@ -498,13 +612,24 @@ async function checkHeldForDisposalUse(trx: Knex.Transaction, eventId: number): 
 export async function postReportStock(trx: Knex.Transaction, eventId: number, actor: Actor): Promise<void> {
   await checkHeldForDisposalUse(trx, eventId);
   const event = await trx("events").where({ id: eventId }).first("number", "station_id", "started_at", "cleared_at");
-  const discharges: { apparatus_id: number | null; product_id: number; station_id: number | null; gal: unknown }[] =
-    await trx("discharges as d")
-      .leftJoin("apparatus as a", "a.id", "d.apparatus_id")
-      .where("d.event_id", eventId)
-      .whereNotNull("d.product_id")
-      .groupBy("d.apparatus_id", "d.product_id", "a.station_id")
-      .select("d.apparatus_id", "d.product_id", "a.station_id", trx.raw("SUM(d.concentrate_gal) AS gal"));
+  const discharges: {
+    apparatus_id: number | null;
+    foam_system_id: number | null;
+    product_id: number;
+    station_id: number | null;
+    gal: unknown;
+  }[] = await trx("discharges as d")
+    .leftJoin("apparatus as a", "a.id", "d.apparatus_id")
+    .where("d.event_id", eventId)
+    .whereNotNull("d.product_id")
+    .groupBy("d.apparatus_id", "d.foam_system_id", "d.product_id", "a.station_id")
+    .select(
+      "d.apparatus_id",
+      "d.foam_system_id",
+      "d.product_id",
+      "a.station_id",
+      trx.raw("SUM(d.concentrate_gal) AS gal"),
+    );
   const refills = await trx("tank_readings as t")
     .join("apparatus as a", "a.id", "t.apparatus_id")
     .where({ "t.event_id": eventId, "t.kind": "refill" })
@@ -514,7 +639,7 @@ export async function postReportStock(trx: Knex.Transaction, eventId: number, ac
   const usedWanted = new Map<string, number>();
   for (const line of discharges) {
     const locationId = line.apparatus_id
-      ? await apparatusTankLocation(trx, line.apparatus_id)
+      ? await apparatusTankLocation(trx, line.apparatus_id, line.foam_system_id)
       : event.station_id
         ? await stationStoreLocation(trx, event.station_id)
         : null;
@@ -786,7 +911,7 @@ export const LOCATION_KIND_OPTIONS = Object.entries(STOCK_LOCATION_KIND_LABELS).
 
 /** A location's row by id (with its version), or null. */
 export async function getStockLocation(id: number, connection: Db = db): Promise<StockLocation | null> {
-  const row: LocationRow | undefined = await connection("stock_locations").where({ id }).first();
+  const row: LocationRow | undefined = await locationsWithTanks(connection).where("l.id", id).first();
   return row ? locationOf(row) : null;
 }
 
@@ -815,8 +940,20 @@ export async function addStockLocation(
       if (!(await trx("apparatus").where({ id: input.apparatusId }).first("id"))) {
         refuseAt("apparatusId", "Choose an apparatus from the list.");
       }
+    }
+    // An apparatus tank is the next of its foam systems' tanks not yet a location.
+    const tank =
+      input.kind === "apparatus_tank" && input.apparatusId
+        ? await trx("foam_system_tanks as k")
+            .join("foam_systems as s", "s.id", "k.foam_system_id")
+            .where("s.apparatus_id", input.apparatusId)
+            .whereNotExists(trx("stock_locations as l").whereRaw("l.foam_system_tank_id = k.id").select("l.id"))
+            .orderBy([{ column: "s.id" }, { column: "k.id" }])
+            .first("k.id")
+        : null;
+    if (input.kind === "apparatus_tank" && input.apparatusId && !tank) {
       if (await trx("stock_locations").where({ apparatus_id: input.apparatusId }).first("id")) {
-        refuseAt("apparatusId", "This apparatus's tank is already a location.");
+        refuseAt("apparatusId", "Every tank of this apparatus's foam systems is already a location.");
       }
     }
     const [id] = await trx("stock_locations").insert({
@@ -824,6 +961,7 @@ export async function addStockLocation(
       name: input.name,
       station_id: input.stationId,
       apparatus_id: input.kind === "apparatus_tank" ? input.apparatusId : null,
+      foam_system_tank_id: tank?.id ?? null,
     });
     await recordAudit(
       {

@@ -72,7 +72,12 @@ export async function action({ request, params }: Route.ActionArgs) {
   const saved = await recordMaintenance(id, submission.value, user, clientAddress(request));
   if ("kind" in saved) return refusalData(submission, saved, { intent: "maintenance" as const });
   throw redirect(`/foam-systems/${id}`, {
-    headers: await flashHeaders(request, `${MAINTENANCE_KIND_LABELS[submission.value.kind]} recorded.`),
+    headers: await flashHeaders(
+      request,
+      saved.createdReport
+        ? `${MAINTENANCE_KIND_LABELS[submission.value.kind]} recorded, with its usage report ${saved.createdReport} filed: its water and concentrate are counted there.`
+        : `${MAINTENANCE_KIND_LABELS[submission.value.kind]} recorded.`,
+    ),
   });
 }
 
@@ -344,7 +349,7 @@ function MaintenanceForm({ products, lastResult }: FormProps) {
       <TextField
         label="Usage report number"
         field={fields.eventNumber}
-        hint="A flush that flowed water or concentrate is counted through its usage report (kind “flush”): enter its number, so the volumes are counted once."
+        hint="A flush that flowed water or concentrate is counted through its usage report (kind “flush”): enter its number, or leave it blank and a filed report is made for this flush from the station's location, so the volumes are counted once."
       />
       <fieldset className="space-y-3 rounded-md border border-stone-200 p-3">
         <legend className="text-sm font-semibold">Changeover only</legend>

@@ -24,6 +24,7 @@ import {
   setReorderPoint,
   stockFormOptions,
   stockItems,
+  tankFill,
 } from "~/models/stock.server";
 import { currentStockConditions, sweepStockAlerts } from "~/models/stock-alerts.server";
 import { stockReadiness } from "~/models/stock-readiness.server";
@@ -34,14 +35,15 @@ export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "stock.read");
   // Shelf life and sample dates pass without any movement: opening the book alerts what became due.
   await sweepStockAlerts();
-  const [items, readiness, conditions, options, reorderPoints] = await Promise.all([
+  const [items, readiness, conditions, options, reorderPoints, tanks] = await Promise.all([
     stockItems(),
     stockReadiness(),
     currentStockConditions(),
     stockFormOptions(),
     listReorderPoints(),
+    tankFill(),
   ]);
-  return { items, readiness, conditions, options, reorderPoints, canManage: can(user, "stock.manage") };
+  return { items, readiness, conditions, options, reorderPoints, tanks, canManage: can(user, "stock.manage") };
 }
 
 type Intent = "receive" | "add-location" | "reorder";
@@ -102,7 +104,7 @@ const gal = (value: number, digits = 1) => value.toLocaleString("en-US", { maxim
 const today = () => new Date().toISOString().slice(0, 10);
 
 export default function StockPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { items, readiness, conditions, options, reorderPoints, canManage } = loaderData;
+  const { items, readiness, conditions, options, reorderPoints, tanks, canManage } = loaderData;
   const resultFor = (intent: Intent) => (actionData?.intent === intent ? actionData.result : undefined);
   const locationOptions = options.locations.map((location) => ({
     value: String(location.id),
@@ -201,6 +203,38 @@ export default function StockPage({ loaderData, actionData }: Route.ComponentPro
           <p className="mt-2">Nothing below a reorder point, past its shelf life or due for a sample.</p>
         )}
       </section>
+
+      {tanks.length ? (
+        <section className="card overflow-x-auto" aria-labelledby="tanks-title">
+          <h2 id="tanks-title" className="text-lg font-semibold">
+            Apparatus tanks
+          </h2>
+          <p className="mt-1 text-sm text-stone-600">
+            Each is a foam system&apos;s tank; its capacity comes from the system. A transfer that would overfill it is
+            refused.
+          </p>
+          <table className="data-table mt-2">
+            <thead>
+              <tr>
+                <th scope="col">Tank</th>
+                <th scope="col">Capacity (gal)</th>
+                <th scope="col">In it (gal)</th>
+                <th scope="col">Fill</th>
+              </tr>
+            </thead>
+            <tbody>
+              {tanks.map((tank) => (
+                <tr key={tank.locationId}>
+                  <th scope="row">{tank.name}</th>
+                  <td>{tank.capacityGal === null ? "Not recorded" : gal(tank.capacityGal)}</td>
+                  <td>{gal(tank.onHandGal, 2)}</td>
+                  <td>{tank.fillPercent === null ? "—" : `${tank.fillPercent} %`}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </section>
+      ) : null}
 
       <section className="card overflow-x-auto" aria-labelledby="on-hand-title">
         <h2 id="on-hand-title" className="text-lg font-semibold">
