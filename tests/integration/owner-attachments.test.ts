@@ -1,7 +1,7 @@
 // Attachments on accuracy tests (printouts) and on disposals of concentrate (hauler's manifests),
 // through the same upload path as report files, against the object-store fake: upload, list,
 // download, role refusals, the one kind each takes, audited removal, and the printouts named in the
-// printable test record.
+// printable test record; and a photo's kept position offered on the report's edit page.
 import { PDFParse } from "pdf-parse";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/lib/db.server";
@@ -23,13 +23,15 @@ import {
   loader as movementFileLoader,
 } from "~/routes/stock.movements.$movementId.attachments.$attachmentId";
 import { loader as movementsPageLoader } from "~/routes/stock.movements";
+import { action as eventUploadAction } from "~/routes/api.events.$id.attachments";
+import { loader as editLoader } from "~/routes/events.$id.edit";
 import { demoDocumentPdf, demoPhotoJpeg } from "../../scripts/demo-files";
 import { makeApparatusRow } from "../support/catalogue-factories";
 import { makeUser, TEST_PASSWORD } from "../support/factories";
 import { startFileStore } from "../support/file-store";
 import { formRequest, getRequest, routeArgs, settle } from "../support/requests";
 import { signIn } from "../support/session";
-import { ensureAgency, makeProduct, makeStation } from "../support/usage-fixtures";
+import { ensureAgency, makeEvent, makeProduct, makeStation } from "../support/usage-fixtures";
 
 const ORIGIN = "http://127.0.0.1:3000";
 let closeFileStore: () => Promise<void>;
@@ -356,5 +358,48 @@ describe("a manifest on a disposal", () => {
       movementFileLoader(routeArgs(getRequest(attachment.url, { Cookie: officer.cookie }), params)),
     );
     expect(statusOf(gone)).toBe(404);
+  });
+});
+
+describe("a photo's kept position on the report's edit page", () => {
+  it("is offered for the photos whose position the officer kept, and for no other", async () => {
+    const station = (await makeStation()).id;
+    const user = await makeUser(["officer"], "Position Officer", { stationId: station });
+    const cookie = await signIn(user.email, TEST_PASSWORD, "10.16.0.2");
+    const eventId = (
+      await makeEvent({ createdBy: user.id, status: "draft", stationId: station, startedAt: new Date() })
+    ).id;
+    const photo = () =>
+      demoPhotoJpeg({
+        label: "Runoff at the swale",
+        exif: { latitude: 38.7131, longitude: -98.2011, camera: "Cam 9" },
+      });
+    const path = `/api/events/${eventId}/attachments`;
+    const send = async (name: string, fields: Record<string, string>) => {
+      const bytes = await photo();
+      const outcome = await settle(() =>
+        eventUploadAction(
+          routeArgs(uploadRequest(path, { bytes, name, type: "image/jpeg" }, cookie, fields), {
+            id: String(eventId),
+          }),
+        ),
+      );
+      const response = outcome.value as Response;
+      expect(response.status).toBe(201);
+      return (await response.json()) as { id: number };
+    };
+    const kept = await send("kept.jpg", { usePosition: "true" });
+    await send("stripped.jpg", {});
+
+    const page = await editLoader(
+      routeArgs(getRequest(`/events/${eventId}/edit`, { Cookie: cookie }), { id: String(eventId) }),
+    );
+    expect(page.photoPositions).toHaveLength(1);
+    expect(page.photoPositions[0]).toMatchObject({ id: kept.id, name: "kept.jpg" });
+    expect(page.photoPositions[0].latitude).toBeCloseTo(38.7131, 3);
+    expect(page.photoPositions[0].longitude).toBeCloseTo(-98.2011, 3);
+    // Offering it changes nothing: the report keeps its own point until the officer saves.
+    const event = await db("events").where({ id: eventId }).first();
+    expect(event.latitude).toBeNull();
   });
 });
