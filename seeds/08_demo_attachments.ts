@@ -5,21 +5,21 @@ import type { Knex } from "knex";
 import { prepareFile } from "../app/lib/attachment-content.server";
 import type { AttachmentKind } from "../app/lib/foam/vocabulary";
 import { putObject, putObjectFile, StorageUnavailableError } from "../app/lib/storage.server";
-import { attachmentKeys } from "../app/models/attachments.server";
+import { attachmentKeys, type AttachmentOwner } from "../app/models/attachments.server";
 import { demoDocumentPdf, demoPhotoJpeg } from "../scripts/demo-files";
 
 // Demo data only: invented pictures (coloured fields with a label, drawn by the script) and one-page
 // PDFs marked DEMO, attached to a few of the demo's reports through the same preparation as an
 // upload (content check, metadata stripped, thumbnail). Runs only while the file store is up.
 
-type DemoFile = { kind: AttachmentKind; name: string; bytes: () => Promise<Uint8Array> };
+export type DemoFile = { kind: AttachmentKind; name: string; bytes: () => Promise<Uint8Array> };
 
 const photo = (name: string, label: string, background: string): DemoFile => ({
   kind: "photo",
   name,
   bytes: () => demoPhotoJpeg({ label, background, exif: { latitude: 38.65, longitude: -98.25, camera: "Demo" } }),
 });
-const document = (kind: AttachmentKind, name: string, title: string, lines: string[]): DemoFile => ({
+export const document = (kind: AttachmentKind, name: string, title: string, lines: string[]): DemoFile => ({
   kind,
   name,
   bytes: async () => demoDocumentPdf(title, lines),
@@ -66,35 +66,52 @@ export async function seed(knex: Knex): Promise<void> {
     ] as const) {
       if (!event) continue;
       for (const file of files) {
-        const received = path.join(directory, file.name);
-        await writeFile(received, await file.bytes());
-        const prepared = await prepareFile(received, { usePosition: false });
-        const { storageKey, thumbnailKey } = attachmentKeys({ subject: "event", id: event.id }, prepared);
-        try {
-          await putObjectFile(storageKey, prepared.path, prepared.byteSize, prepared.contentType);
-          if (thumbnailKey && prepared.thumbnail) await putObject(thumbnailKey, prepared.thumbnail, "image/webp");
-        } catch (error) {
-          if (!(error instanceof StorageUnavailableError)) throw error;
+        if (!(await storeDemoFile(knex, directory, { subject: "event", id: event.id }, file, event.created_by))) {
           console.log("The file store is not running; demo attachments were not added.");
           return;
-        } finally {
-          await prepared.discard();
         }
-        await knex("attachments").insert({
-          subject: "event",
-          subject_id: event.id,
-          kind: file.kind,
-          file_name: file.name,
-          content_type: prepared.contentType,
-          byte_size: prepared.byteSize,
-          sha256: prepared.sha256,
-          storage_key: storageKey,
-          thumbnail_key: thumbnailKey,
-          uploaded_by: event.created_by,
-        });
       }
     }
   } finally {
     await rm(directory, { recursive: true, force: true });
   }
+}
+
+/**
+ * Stores one demo file for an owner as an upload would (object first, then its row); false when the
+ * file store is not running, with nothing written.
+ */
+export async function storeDemoFile(
+  knex: Knex,
+  directory: string,
+  owner: AttachmentOwner,
+  file: DemoFile,
+  uploadedBy: number,
+): Promise<boolean> {
+  const received = path.join(directory, file.name);
+  await writeFile(received, await file.bytes());
+  const prepared = await prepareFile(received, { usePosition: false });
+  const { storageKey, thumbnailKey } = attachmentKeys(owner, prepared);
+  try {
+    await putObjectFile(storageKey, prepared.path, prepared.byteSize, prepared.contentType);
+    if (thumbnailKey && prepared.thumbnail) await putObject(thumbnailKey, prepared.thumbnail, "image/webp");
+  } catch (error) {
+    if (!(error instanceof StorageUnavailableError)) throw error;
+    return false;
+  } finally {
+    await prepared.discard();
+  }
+  await knex("attachments").insert({
+    subject: owner.subject,
+    subject_id: owner.id,
+    kind: file.kind,
+    file_name: file.name,
+    content_type: prepared.contentType,
+    byte_size: prepared.byteSize,
+    sha256: prepared.sha256,
+    storage_key: storageKey,
+    thumbnail_key: thumbnailKey,
+    uploaded_by: uploadedBy,
+  });
+  return true;
 }

@@ -1,7 +1,7 @@
-import { useEffect, useRef, useState } from "react";
+import { useEffect, useId, useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import { ATTACHMENT_ACCEPT, ATTACHMENT_TYPES_SENTENCE, formatBytes } from "~/lib/attachment-files";
-import { ATTACHMENT_KIND_LABELS, ATTACHMENT_KINDS, type AttachmentKind } from "~/lib/foam/vocabulary";
+import { ATTACHMENT_KIND_LABELS, type AttachmentKind } from "~/lib/foam/vocabulary";
 
 type Attachment = {
   id: number;
@@ -17,7 +17,17 @@ type Attachment = {
   position: { latitude: number; longitude: number } | null;
 };
 
-type AttachmentList = { attachments: Attachment[]; canAttach: boolean; maxFileBytes: number; maxFiles: number };
+type AttachmentList = {
+  attachments: Attachment[];
+  /** The kinds this owner takes; with one only, the kind picker and the position box are left out. */
+  kinds: AttachmentKind[];
+  canAttach: boolean;
+  maxFileBytes: number;
+  maxFiles: number;
+};
+
+/** The word for what the files are attached to, as the panel says it. */
+type OwnerWord = "report" | "request" | "test" | "movement";
 
 type Upload = {
   key: string;
@@ -64,14 +74,44 @@ export function RequestAttachments({ requestId }: { requestId: number }) {
   return <AttachmentsPanel apiUrl={`/api/records-requests/${requestId}/attachments`} owner="request" />;
 }
 
+/** The printouts attached to a proportioner accuracy test. */
+export function TestPrintouts({ testId }: { testId: number }) {
+  return <AttachmentsPanel apiUrl={`/api/foam-tests/${testId}/attachments`} owner="test" title="Printouts" />;
+}
+
+/** The hauler's manifest attached to a disposal of concentrate. */
+export function DisposalManifests({ movementId }: { movementId: number }) {
+  return (
+    <AttachmentsPanel
+      apiUrl={`/api/stock/movements/${movementId}/attachments`}
+      owner="movement"
+      title="Disposal manifest"
+      compact
+    />
+  );
+}
+
 /**
  * Attached files: thumbnails of photos, links to documents, and (for those who may attach) a picker
  * for several files at once, each sent on its own with its progress shown and a retry when it fails.
  * `apiUrl` lists the files (GET) and takes one (POST).
  */
-function AttachmentsPanel({ apiUrl, owner }: { apiUrl: string; owner: "report" | "request" }) {
+function AttachmentsPanel({
+  apiUrl,
+  owner,
+  title = "Attachments",
+  compact = false,
+}: {
+  apiUrl: string;
+  owner: OwnerWord;
+  title?: string;
+  /** Inside a table row: no card, a smaller heading, ids made from the list address. */
+  compact?: boolean;
+}) {
   const list = useFetcher<AttachmentList>();
   const remove = useFetcher();
+  // Several panels may share a page (one per disposal in the movements list).
+  const ids = useId();
   const listUrl = apiUrl;
   const [uploads, setUploads] = useState<Upload[]>([]);
   const [kind, setKind] = useState<AttachmentKind | "">("");
@@ -123,10 +163,16 @@ function AttachmentsPanel({ apiUrl, owner }: { apiUrl: string; owner: "report" |
   const data = list.data;
   const attachments = data?.attachments ?? [];
   return (
-    <section className="card" aria-labelledby="attachments-title" data-testid="attachments">
-      <h2 id="attachments-title" className="text-lg font-semibold">
-        Attachments
-      </h2>
+    <section className={compact ? "space-y-2" : "card"} aria-labelledby={`${ids}-title`} data-testid="attachments">
+      {compact ? (
+        <h3 id={`${ids}-title`} className="font-semibold">
+          {title}
+        </h3>
+      ) : (
+        <h2 id={`${ids}-title`} className="text-lg font-semibold">
+          {title}
+        </h2>
+      )}
       {data ? (
         attachments.length === 0 ? (
           <p className="mt-2 text-sm text-slate-ft">No files are attached to this {owner}.</p>
@@ -175,47 +221,58 @@ function AttachmentsPanel({ apiUrl, owner }: { apiUrl: string; owner: "report" |
       )}
       {data?.canAttach ? (
         <div className="mt-4 space-y-3 border-t border-slate-200 pt-3">
-          <div className="flex flex-wrap items-end gap-4">
-            <div>
-              <label htmlFor="attachment-kind" className="field-label">
-                Kind of file
+          {data.kinds.length > 1 ? (
+            <div className="flex flex-wrap items-end gap-4">
+              <div>
+                <label htmlFor={`${ids}-kind`} className="field-label">
+                  Kind of file
+                </label>
+                <select
+                  id={`${ids}-kind`}
+                  className="field-input"
+                  value={kind}
+                  onChange={(event) => setKind(event.target.value as AttachmentKind | "")}
+                >
+                  <option value="">Photo for images, other for documents</option>
+                  {data.kinds.map((value) => (
+                    <option key={value} value={value}>
+                      {ATTACHMENT_KIND_LABELS[value]}
+                    </option>
+                  ))}
+                </select>
+              </div>
+              <label className="flex items-center gap-2 text-sm">
+                <input
+                  type="checkbox"
+                  checked={usePosition}
+                  onChange={(event) => setUsePosition(event.target.checked)}
+                />
+                Keep each photo&apos;s recorded position with it
               </label>
-              <select
-                id="attachment-kind"
-                className="field-input"
-                value={kind}
-                onChange={(event) => setKind(event.target.value as AttachmentKind | "")}
-              >
-                <option value="">Photo for images, other for documents</option>
-                {ATTACHMENT_KINDS.map((value) => (
-                  <option key={value} value={value}>
-                    {ATTACHMENT_KIND_LABELS[value]}
-                  </option>
-                ))}
-              </select>
             </div>
-            <label className="flex items-center gap-2 text-sm">
-              <input type="checkbox" checked={usePosition} onChange={(event) => setUsePosition(event.target.checked)} />
-              Keep each photo&apos;s recorded position with it
-            </label>
-          </div>
+          ) : null}
           <div>
-            <label htmlFor="attachment-files" className="field-label">
-              Attach files
+            <label htmlFor={`${ids}-files`} className="field-label">
+              {data.kinds.length === 1
+                ? `Attach ${ATTACHMENT_KIND_LABELS[data.kinds[0]].toLowerCase()}s`
+                : "Attach files"}
             </label>
             <input
-              id="attachment-files"
+              id={`${ids}-files`}
               ref={input}
               type="file"
               multiple
               accept={ATTACHMENT_ACCEPT}
               className="field-input"
-              aria-describedby="attachment-files-hint"
+              aria-describedby={`${ids}-files-hint`}
               onChange={(event) => choose(event.target.files)}
             />
-            <p id="attachment-files-hint" className="mt-1 text-sm text-slate-ft">
+            <p id={`${ids}-files-hint`} className="mt-1 text-sm text-slate-ft">
               {ATTACHMENT_TYPES_SENTENCE}, at most {formatBytes(data.maxFileBytes)} each and {data.maxFiles} on a{" "}
-              {owner}. Photos are stored without their location and camera data unless you keep the position.
+              {owner}.
+              {data.kinds.length > 1
+                ? " Photos are stored without their location and camera data unless you keep the position."
+                : " Photos are stored without their location and camera data."}
               {owner === "report"
                 ? " They show where the runoff went and may show people: attach what the record needs."
                 : ""}

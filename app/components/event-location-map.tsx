@@ -31,6 +31,11 @@ type Props = {
    */
   dischargePoints?: DischargePoint[];
   onDischargePointChange?: (key: string, point: { latitude: number; longitude: number }) => void;
+  /**
+   * A point to place the event at, as if clicked (a new object each time it is asked for, e.g. a
+   * photo's recorded position): it fills the two inputs, which the form then saves as typed.
+   */
+  placeAt?: { latitude: number; longitude: number } | null;
   disabled?: boolean;
 };
 
@@ -55,6 +60,7 @@ export function EventLocationMap({
   onChange,
   dischargePoints,
   onDischargePointChange,
+  placeAt,
   disabled = false,
 }: Props) {
   const id = useId();
@@ -139,6 +145,11 @@ export function EventLocationMap({
     // The map is created once; later changes to the point move the marker below.
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, []);
+
+  useEffect(() => {
+    if (placeAt && isValidLatLon(placeAt.latitude, placeAt.longitude))
+      placeRef.current(placeAt.latitude, placeAt.longitude);
+  }, [placeAt]);
 
   // Keep the marker where the inputs say, and ask the server for the checks.
   useEffect(() => {

@@ -116,7 +116,11 @@ export type ReportFormProps = {
   reasonRequired?: boolean;
   /** When the report was last saved (an ISO instant), for a report that has been. */
   savedAt?: string | null;
+  /** Photos attached to the report whose recorded position the officer chose to keep. */
+  photoPositions?: PhotoPositionOption[];
 };
+
+export type PhotoPositionOption = { id: number; name: string; latitude: number; longitude: number };
 
 type TotalsVolume = { gal: number; L: number };
 type TotalsResponse = {
@@ -223,6 +227,8 @@ export function ReportForm(props: ReportFormProps) {
   const dispositions = fields.dispositions.getFieldList();
   const tankReadings = fields.tankReadings.getFieldList();
   const productsById = useMemo(() => new Map(props.products.map((product) => [product.id, product])), [props.products]);
+  // A photo's position the officer asked for: placed on the map and in the fields, saved as typed.
+  const [placeAt, setPlaceAt] = useState<{ latitude: number; longitude: number } | null>(null);
   const apparatusById = useMemo(() => new Map(props.apparatus.map((unit) => [unit.id, unit])), [props.apparatus]);
 
   // Live totals from the server, debounced while the officer types.
@@ -396,7 +402,11 @@ export function ReportForm(props: ReportFormProps) {
               hint={`Local time, ${props.timeZone}.`}
             />
           </div>
+          {props.photoPositions && props.photoPositions.length > 0 ? (
+            <PhotoPositions photos={props.photoPositions} onUse={setPlaceAt} />
+          ) : null}
           <EventLocationMap
+            placeAt={placeAt}
             // Drawn from its own state: a restored copy gives it new starting values.
             key={`${fields.latitude.key}:${fields.longitude.key}`}
             defaultLatitude={fields.latitude.initialValue}
@@ -903,6 +913,52 @@ function LineResult({ result }: { result?: NonNullable<TotalsResponse["discharge
           ))}
         </ul>
       ) : null}
+    </div>
+  );
+}
+
+/**
+ * The photos whose recorded position was kept: each offers its position for the event, which fills
+ * the latitude and longitude fields (and moves the marker); nothing is saved until the form is.
+ */
+function PhotoPositions({
+  photos,
+  onUse,
+}: {
+  photos: PhotoPositionOption[];
+  onUse: (point: { latitude: number; longitude: number }) => void;
+}) {
+  const [used, setUsed] = useState<number | null>(null);
+  return (
+    <div className="rounded border border-slate-300 p-3 text-sm" data-testid="photo-positions">
+      <p className="font-semibold">Positions recorded by attached photos</p>
+      <ul className="mt-1 space-y-1">
+        {photos.map((photo) => (
+          <li key={photo.id} className="flex flex-wrap items-center gap-2">
+            <span>
+              {photo.name}: {photo.latitude}, {photo.longitude}
+            </span>
+            <button
+              type="button"
+              className="btn-secondary"
+              aria-label={`Use the position of ${photo.name} for the event`}
+              onClick={() => {
+                // A new object each time, so the same photo can be asked for again after a change.
+                onUse({ latitude: photo.latitude, longitude: photo.longitude });
+                setUsed(photo.id);
+              }}
+            >
+              Use this photo&apos;s position for the event
+            </button>
+            {used === photo.id ? (
+              <span role="status">Placed in the latitude and longitude fields; save the report to keep it.</span>
+            ) : null}
+          </li>
+        ))}
+      </ul>
+      <p className="mt-1 text-slate-ft">
+        A phone records where it was, not always where the foam went: check the marker before saving.
+      </p>
     </div>
   );
 }

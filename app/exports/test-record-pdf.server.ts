@@ -13,6 +13,8 @@ export type PrintedAccuracyTest = AccuracyTestRecord & {
   apparatus: string;
   agencyName: string;
   classAAccuracyShare: number;
+  /** Printouts attached to the test (kept in the object store, named here so the paper points to them). */
+  printouts: Array<{ name: string; /** local wall-clock time */ uploadedAt: string }>;
 };
 
 const percent = (value: number, places = 3) => `${Number(value.toFixed(places))} %`;
@@ -59,6 +61,13 @@ export async function accuracyTestPdf(test: PrintedAccuracyTest): Promise<Uint8A
     { size: 9 },
   );
   if (test.notes) writer.text(`Notes: ${test.notes}`, { size: 9 });
+  writer.heading("Attached printouts");
+  if (test.printouts.length === 0) writer.text("None attached.", { gap: 8 });
+  else {
+    for (const printout of test.printouts)
+      writer.text(`${printout.name} (attached ${printout.uploadedAt.replace("T", " ")})`, { size: 9 });
+    writer.text("The printouts are kept with the test record in Foamtally.", { size: 9, gap: 8 });
+  }
   writer.text("Signature of tester: ______________________________", { gap: 4 });
   return writer.bytes();
 }

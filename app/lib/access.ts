@@ -169,7 +169,7 @@ export const CAPABILITIES = {
     grants: [{ roles: ["officer", "environmental", "chief"] }],
   }),
   "systems.maintain": plain({
-    does: "record flushes, primes, changeovers and accuracy tests of foam systems",
+    does: "record flushes, primes, changeovers and accuracy tests of foam systems, and attach or remove test printouts",
     grants: [{ roles: ["officer", "chief"] }],
   }),
   "users.manage": account({
@@ -189,7 +189,7 @@ export const CAPABILITIES = {
     grants: [{ roles: ["officer", "environmental", "chief"] }],
   }),
   "stock.manage": plain({
-    does: "receive concentrate, move it, take quality samples, send it for disposal, count it, set reorder points",
+    does: "receive concentrate, move it, take quality samples, send it for disposal (attaching the hauler's manifest), count it, set reorder points",
     grants: [{ roles: ["environmental", "chief"] }],
   }),
   "alerts.stock": plain({
@@ -330,7 +330,11 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "apparatus/:apparatusId/foam-systems/:systemId": { GET: "apparatus.edit", POST: "apparatus.edit" },
   "foam-systems": { GET: "systems.read" },
   "foam-systems/:systemId": { GET: "systems.read", POST: "systems.maintain" },
+  "foam-systems/:systemId/tests/:testId": { GET: "systems.read" },
   "foam-systems/:systemId/tests/:testId/record.pdf": { GET: "systems.read" },
+  "api/foam-tests/:testId/attachments": { GET: "systems.read", POST: "systems.maintain" },
+  "foam-tests/:testId/attachments/:attachmentId": { GET: "systems.read", POST: "systems.maintain" },
+  "foam-tests/:testId/attachments/:attachmentId/thumbnail": { GET: "systems.read" },
   "api/foam-systems": { GET: "systems.read" },
   "api/foam-tests/compute": { GET: "signed-in", POST: "signed-in" },
   environmental: { GET: "exports.quarterly", POST: "exports.submit" },
@@ -350,6 +354,9 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "stock/counts": { GET: "stock.read", POST: "stock.manage" },
   "api/stock": { GET: "stock.read" },
   "api/stock/movements": { GET: "stock.read" },
+  "api/stock/movements/:movementId/attachments": { GET: "stock.read", POST: "stock.manage" },
+  "stock/movements/:movementId/attachments/:attachmentId": { GET: "stock.read", POST: "stock.manage" },
+  "stock/movements/:movementId/attachments/:attachmentId/thumbnail": { GET: "stock.read" },
   "api/records-requests": { GET: "records.manage" },
   "api/records-requests/:id": { GET: "records.manage" },
   "api/records-requests/:id/attachments": { GET: "records.manage", POST: "records.manage" },

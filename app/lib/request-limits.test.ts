@@ -28,6 +28,14 @@ describe("the body limit of each route", () => {
     expect(requestBodyLimit("/attachments/3")).toBe(FORM_BODY_MAX_BYTES);
   });
 
+  it("lets a test printout or a disposal manifest reach its route the same way", () => {
+    expect(requestBodyLimit("/api/foam-tests/7/attachments")).toBe(ATTACHMENT_BODY_CEILING_BYTES);
+    expect(requestBodyLimit("/api/stock/movements/9/attachments")).toBe(ATTACHMENT_BODY_CEILING_BYTES);
+    expect(requestBodyLimit("/api/stock/movements")).toBe(JSON_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/api/foam-tests/compute")).toBe(JSON_BODY_MAX_BYTES);
+    expect(requestBodyLimit("/stock/movements/9/attachments/2")).toBe(FORM_BODY_MAX_BYTES);
+  });
+
   it("holds every other form and the JSON API to 1 MB", () => {
     expect(requestBodyLimit("/sign-in")).toBe(FORM_BODY_MAX_BYTES);
     expect(requestBodyLimit("/events/new")).toBe(FORM_BODY_MAX_BYTES);

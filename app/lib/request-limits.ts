@@ -21,12 +21,13 @@ export const UPLOAD_FILE_MAX_BYTES = 10 * MEGABYTE;
 export const UPLOAD_BODY_MAX_BYTES = UPLOAD_FILE_MAX_BYTES + 256 * 1024;
 
 /**
- * An attachment upload (`POST /api/events/:id/attachments`, `/api/records-requests/:id/attachments`): the largest file the agency settings
+ * An attachment upload (`POST /api/events/:id/attachments`, `/api/records-requests/:id/attachments`,
+ * `/api/foam-tests/:testId/attachments`, `/api/stock/movements/:movementId/attachments`): the largest file the agency settings
  * can allow plus framing. The route itself refuses a body past the agency's own setting before it
  * reads it, and counts the file's bytes against that setting while it streams.
  */
 export const ATTACHMENT_BODY_CEILING_BYTES = ATTACHMENT_MAX_MB_CEILING * MEGABYTE + 256 * 1024;
-const ATTACHMENT_PATH = /^\/api\/(events|records-requests)\/[^/]+\/attachments\/?$/;
+const ATTACHMENT_PATH = /^\/api\/(events|records-requests|foam-tests|stock\/movements)\/[^/]+\/attachments\/?$/;
 
 /**
  * The pages whose forms carry a file, as the browser posts them (`/geography`, or `/geography.data`

@@ -9,6 +9,7 @@ import {
   attachmentLimits,
   listAttachments,
   type AttachmentOwner,
+  subjectTerms,
   type StoredAttachment,
 } from "./attachments.server";
 import { recordDownload } from "./download-audit.server";
@@ -18,6 +19,7 @@ export async function attachmentListResponse(owner: AttachmentOwner, canAttach: 
   const limits = attachmentLimits(await readAgencySettings());
   return Response.json({
     attachments: await listAttachments(owner),
+    kinds: subjectTerms(owner.subject).kinds,
     canAttach,
     maxFileBytes: limits.maxFileBytes,
     maxFiles: limits.perEvent,
@@ -39,7 +41,7 @@ export async function attachmentUploadResponse(
     if (error instanceof StorageUnavailableError) {
       apiError(
         503,
-        `The file store is not answering, so this file was not attached. The ${owner.subject === "event" ? "report" : "request"} is saved as it was; try the file again.`,
+        `The file store is not answering, so this file was not attached. The ${subjectTerms(owner.subject).noun} is saved as it was; try the file again.`,
       );
     }
     throw error;
@@ -72,7 +74,7 @@ export async function attachmentResponse(
   if (part === "file") {
     await recordDownload(request, user, {
       action: "attachment_downloaded",
-      entityType: attachment.owner.subject,
+      entityType: subjectTerms(attachment.owner.subject).entityType,
       entityId: attachment.owner.id,
       summary: `Attachment ${attachment.name} downloaded`,
       details: { attachmentId: attachment.id, key, fileName: attachment.name, sha256: attachment.sha256 },

@@ -19,22 +19,68 @@ import { reportAccessRecord } from "./event-read.server";
  * and the object kept until the retention setting lets it go.
  */
 
-/** What a file is attached to: a usage report (event) or a public-records request. */
-export type AttachmentSubject = "event" | "records_request";
+/**
+ * What a file is attached to: a usage report (event), a public-records request, a proportioner
+ * accuracy test (its printouts) or a stock movement of kind `disposed` (the hauler's manifest).
+ */
+export const ATTACHMENT_SUBJECTS = ["event", "records_request", "foam_test", "stock_movement"] as const;
+export type AttachmentSubject = (typeof ATTACHMENT_SUBJECTS)[number];
 export type AttachmentOwner = { subject: AttachmentSubject; id: number };
 
-/** Per subject: the start of its objects' keys, the audit entity, and where a file is served. */
+/**
+ * Per subject: the start of its objects' keys, the audit entity, where a file is served, the word
+ * for the owner in messages, and the kinds of file it takes (the first is the default when the
+ * subject takes one kind only).
+ */
 const SUBJECTS: Record<
   AttachmentSubject,
-  { keyPrefix: string; entityType: string; url: (ownerId: number, attachmentId: number) => string }
+  {
+    keyPrefix: string;
+    entityType: string;
+    noun: string;
+    kinds: readonly AttachmentKind[];
+    url: (ownerId: number, attachmentId: number) => string;
+  }
 > = {
-  event: { keyPrefix: "event", entityType: "event", url: (_owner, id) => `/attachments/${id}` },
+  event: {
+    keyPrefix: "event",
+    entityType: "event",
+    noun: "report",
+    kinds: ATTACHMENT_KINDS,
+    url: (_owner, id) => `/attachments/${id}`,
+  },
   records_request: {
     keyPrefix: "records-request",
     entityType: "records_request",
+    noun: "request",
+    kinds: ATTACHMENT_KINDS,
     url: (owner, id) => `/records/${owner}/attachments/${id}`,
   },
+  foam_test: {
+    keyPrefix: "foam-test",
+    entityType: "foam_accuracy_test",
+    noun: "test",
+    kinds: ["test_printout"],
+    url: (owner, id) => `/foam-tests/${owner}/attachments/${id}`,
+  },
+  stock_movement: {
+    keyPrefix: "stock-movement",
+    entityType: "stock_movement",
+    noun: "movement",
+    kinds: ["disposal_manifest"],
+    url: (owner, id) => `/stock/movements/${owner}/attachments/${id}`,
+  },
 };
+
+/** The kinds of file an owner takes, and the word for it in messages. */
+export function subjectTerms(subject: AttachmentSubject): {
+  noun: string;
+  kinds: readonly AttachmentKind[];
+  entityType: string;
+} {
+  const { noun, kinds, entityType } = SUBJECTS[subject];
+  return { noun, kinds, entityType };
+}
 
 export type AttachmentView = {
   id: number;
@@ -107,6 +153,25 @@ export async function listAttachments(owner: AttachmentOwner): Promise<Attachmen
   return rows.map((row) => viewOf(storedOf(row)));
 }
 
+/** The attachments of several owners of one subject at once (for a list page), by owner id. */
+export async function listAttachmentsOf(
+  subject: AttachmentSubject,
+  ids: number[],
+): Promise<Map<number, AttachmentView[]>> {
+  const byOwner = new Map<number, AttachmentView[]>();
+  if (ids.length === 0) return byOwner;
+  const rows = await attachmentsQuery()
+    .where("attachments.subject", subject)
+    .whereIn("attachments.subject_id", ids)
+    .whereNull("attachments.removed_at")
+    .orderBy("attachments.id");
+  for (const row of rows) {
+    const stored = storedOf(row);
+    byOwner.set(stored.owner.id, [...(byOwner.get(stored.owner.id) ?? []), viewOf(stored)]);
+  }
+  return byOwner;
+}
+
 async function findOf(owner: Partial<AttachmentOwner> & { subject: AttachmentSubject }, id: number) {
   const row = await attachmentsQuery()
     .where({ "attachments.id": id, "attachments.subject": owner.subject })
@@ -130,6 +195,11 @@ export async function findEventAttachment(
 /** One attachment of the given records request that is not removed, or null. */
 export function findRequestAttachment(requestId: number, id: number): Promise<StoredAttachment | null> {
   return findOf({ subject: "records_request", id: requestId }, id);
+}
+
+/** One attachment of the given owner that is not removed, or null. */
+export function findOwnedAttachment(owner: AttachmentOwner, id: number): Promise<StoredAttachment | null> {
+  return findOf(owner, id);
 }
 
 export type AttachmentLimits = {
@@ -163,10 +233,14 @@ export function attachmentKeys(owner: AttachmentOwner, file: Pick<PreparedFile, 
   };
 }
 
-function kindOf(value: string | undefined, image: boolean): AttachmentKind {
-  if (value === undefined || value === "") return image ? "photo" : "other";
-  if ((ATTACHMENT_KINDS as readonly string[]).includes(value)) return value as AttachmentKind;
-  throw new BodyRefused(400, `The kind must be one of: ${ATTACHMENT_KINDS.join(", ")}.`);
+function kindOf(subject: AttachmentSubject, value: string | undefined, image: boolean): AttachmentKind {
+  const { kinds } = SUBJECTS[subject];
+  if (value === undefined || value === "") {
+    if (kinds.length === 1) return kinds[0];
+    return image ? "photo" : "other";
+  }
+  if ((kinds as readonly string[]).includes(value)) return value as AttachmentKind;
+  throw new BodyRefused(400, `The kind must be one of: ${kinds.join(", ")}.`);
 }
 
 export type AddAttachmentOptions = { clientAddress?: string | null };
@@ -193,10 +267,9 @@ export async function addAttachment(
   };
   refuseEarly(request, uploadLimits);
   if ((await activeCount(owner)) >= limits.perEvent) {
-    const what = owner.subject === "event" ? "report" : "request";
     throw new BodyRefused(
       413,
-      `This ${what} already has ${limits.perEvent} files, the most the agency settings allow. Remove one first.`,
+      `This ${SUBJECTS[owner.subject].noun} already has ${limits.perEvent} files, the most the agency settings allow. Remove one first.`,
     );
   }
   const upload = await receiveUpload(request, uploadLimits);
@@ -212,7 +285,7 @@ export async function addAttachment(
       throw error;
     }
     const { contentType, byteSize, sha256, thumbnail, position } = prepared;
-    const kind = kindOf(upload.fields.kind, prepared.image);
+    const kind = kindOf(owner.subject, upload.fields.kind, prepared.image);
     const { storageKey, thumbnailKey } = attachmentKeys(owner, prepared);
     const name = displayFileName(upload.file.name, `attachment.${prepared.extension}`);
 

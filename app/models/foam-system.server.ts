@@ -813,3 +813,8 @@ export async function listSystemsOfApparatus(apparatusId: number, connection: Db
     active: Boolean(row.active),
   }));
 }
+
+/** Whether an accuracy test with this id is recorded (its printouts may be attached). */
+export async function accuracyTestExists(testId: number, connection: Db = db): Promise<boolean> {
+  return Boolean(await connection("foam_accuracy_tests").where({ id: testId }).first("id"));
+}

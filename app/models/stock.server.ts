@@ -1126,3 +1126,8 @@ export async function eventConcentrateCost(eventId: number, connection: Db = db)
     .first(connection.raw(`${concentrateCostSql("e")} AS cost`));
   return decimalOrNull(row?.cost);
 }
+
+/** Whether a movement with this id is recorded as `disposed` (only those take a disposal manifest). */
+export async function disposedMovementExists(movementId: number, connection: Db = db): Promise<boolean> {
+  return Boolean(await connection("stock_movements").where({ id: movementId, kind: "disposed" }).first("id"));
+}

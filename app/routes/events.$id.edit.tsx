@@ -4,6 +4,7 @@ import { ReportForm } from "~/components/report-form";
 import { SubmittedPeriodNote } from "~/components/submitted-period-note";
 import { changeReasonFor } from "~/lib/access";
 import { invariantResponse, requireRecordId } from "~/lib/http.server";
+import { listAttachments } from "~/models/attachments.server";
 import { getReport } from "~/models/event-read.server";
 import { formValuesOf, reportFormOptions } from "~/models/report-options.server";
 import { submittedPeriodOf } from "~/models/quarterly-submission.server";
@@ -16,6 +17,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireReportChange(request, eventId);
   const report = await getReport(eventId);
   invariantResponse(report, "No such report.");
+  const attachments = await listAttachments({ subject: "event", id: eventId });
   return {
     reasonRequired: changeReasonFor(user, report) === "review-edit",
     submittedPeriod: await submittedPeriodOf(eventId),
@@ -27,6 +29,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     submissionKey: randomUUID(),
     savedAt: report.updatedAt,
     defaultValue: report.draft ?? formValuesOf(report),
+    // Only photos whose position the officer chose to keep carry one.
+    photoPositions: attachments.flatMap((attachment) =>
+      attachment.position ? [{ id: attachment.id, name: attachment.name, ...attachment.position }] : [],
+    ),
   };
 }
 

@@ -2,7 +2,9 @@ import type { Route } from "./+types/foam-systems.$systemId.tests.$testId.record
 import { requireCapability } from "~/lib/access.server";
 import { accuracyTestPdf } from "~/exports/test-record-pdf.server";
 import { invariantResponse, requireRecordId } from "~/lib/http.server";
+import { localDateTime } from "~/lib/time-zone";
 import { agencyNameForDocuments } from "~/models/agency-settings.server";
+import { listAttachments } from "~/models/attachments.server";
 import { getAccuracyTest } from "~/models/foam-system.server";
 
 /** The printable record of one accuracy test. */
@@ -12,7 +14,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const testId = requireRecordId(request, params.testId, "No such test.");
   const test = await getAccuracyTest(systemId, testId);
   invariantResponse(test, "No such test.");
-  const pdf = await accuracyTestPdf({ ...test, agencyName: agencyNameForDocuments({ name: test.agencyName }) });
+  const printouts = await listAttachments({ subject: "foam_test", id: testId });
+  const pdf = await accuracyTestPdf({
+    ...test,
+    agencyName: agencyNameForDocuments({ name: test.agencyName }),
+    printouts: printouts.map(({ name, uploadedAt }) => ({
+      name,
+      uploadedAt: localDateTime(new Date(uploadedAt), test.timeZone),
+    })),
+  });
   return new Response(Buffer.from(pdf), {
     headers: {
       "Content-Type": "application/pdf",

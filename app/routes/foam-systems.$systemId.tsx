@@ -233,6 +233,10 @@ export default function FoamSystemPage({ loaderData, actionData }: Route.Compone
                   </td>
                   <td>{test.testedBy}</td>
                   <td>
+                    <Link to={`/foam-systems/${system.id}/tests/${test.id}`} className="text-pond-700 underline">
+                      Test and printouts
+                    </Link>
+                    {" · "}
                     <a
                       href={`/foam-systems/${system.id}/tests/${test.id}/record.pdf`}
                       className="text-pond-700 underline"

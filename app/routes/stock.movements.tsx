@@ -1,7 +1,9 @@
 import { getFormProps, useForm } from "@conform-to/react";
 import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
+import { useState } from "react";
 import { data, Form, Link, redirect } from "react-router";
 import type { Route } from "./+types/stock.movements";
+import { DisposalManifests } from "~/components/attachments-panel";
 import { FormErrors, SelectField, TextField } from "~/components/form-fields";
 import { can } from "~/lib/access";
 import { requireCapability } from "~/lib/access.server";
@@ -14,6 +16,7 @@ import { flashHeaders } from "~/lib/session.server";
 import { MoveFormSchema } from "~/lib/stock/stock-forms";
 import { instantToWallClock, localDateTime, wallClockToInstant } from "~/lib/time-zone";
 import { readAgencySettings } from "~/models/agency-settings.server";
+import { listAttachmentsOf } from "~/models/attachments.server";
 import { getStockLocation, moveStock, stockFormOptions, stockItems, stockMovements } from "~/models/stock.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Stock movements · Foamtally" }];
@@ -40,16 +43,22 @@ export async function loader({ request }: Route.LoaderArgs) {
     locationId ? stockItems({ locationId }) : Promise.resolve([]),
     readAgencySettings(),
   ]);
+  const shown = movements.slice(-PAGE_ROWS).reverse();
+  const manifests = await listAttachmentsOf(
+    "stock_movement",
+    shown.filter((movement) => movement.kind === "disposed").map((movement) => movement.id),
+  );
   return {
     location,
     held,
     options,
     timeZone,
     now: instantToWallClock(new Date(), timeZone),
-    movements: movements
-      .slice(-PAGE_ROWS)
-      .reverse()
-      .map((movement) => ({ ...movement, at: localDateTime(new Date(movement.at), timeZone) })),
+    movements: shown.map((movement) => ({
+      ...movement,
+      at: localDateTime(new Date(movement.at), timeZone),
+      manifests: (manifests.get(movement.id) ?? []).map(({ id, name, url }) => ({ id, name, url })),
+    })),
     canManage: can(user, "stock.manage"),
   };
 }
@@ -215,6 +224,9 @@ export default function StockMovementsPage({ loaderData, actionData }: Route.Com
                     </Link>
                   ) : null}
                   {movement.eventId ? "" : [movement.reason, movement.reference].filter(Boolean).join(" · ")}
+                  {movement.kind === "disposed" ? (
+                    <ManifestCell movementId={movement.id} manifests={movement.manifests} />
+                  ) : null}
                 </td>
               </tr>
             ))}
@@ -222,6 +234,43 @@ export default function StockMovementsPage({ loaderData, actionData }: Route.Com
         </table>
         {movements.length === 0 ? <p className="mt-2">No movements yet.</p> : null}
       </section>
+    </div>
+  );
+}
+
+/**
+ * A disposal's manifests: their names as links, and (opened on demand, so a long list does not ask
+ * for every disposal's files at once) the attachments panel to add or remove one.
+ */
+function ManifestCell({
+  movementId,
+  manifests,
+}: {
+  movementId: number;
+  manifests: Array<{ id: number; name: string; url: string }>;
+}) {
+  const [open, setOpen] = useState(false);
+  return (
+    <div className="mt-1 text-sm" data-testid="disposal-manifests">
+      {manifests.length === 0 ? (
+        <span className="caution">No manifest attached</span>
+      ) : (
+        <span>
+          Manifest:{" "}
+          {manifests.map((manifest, index) => (
+            <span key={manifest.id}>
+              {index > 0 ? ", " : ""}
+              <a href={manifest.url} className="text-pond-700 underline" target="_blank" rel="noreferrer">
+                {manifest.name}
+              </a>
+            </span>
+          ))}
+        </span>
+      )}
+      <details className="mt-1" onToggle={(event) => setOpen(event.currentTarget.open)}>
+        <summary className="cursor-pointer underline">Manifest files</summary>
+        {open ? <DisposalManifests movementId={movementId} /> : null}
+      </details>
     </div>
   );
 }

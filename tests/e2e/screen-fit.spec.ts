@@ -91,6 +91,15 @@ async function firstValue(table: string, column: string): Promise<string | null>
   }
 }
 
+async function firstRow(table: string, columns: string[]): Promise<Record<string, unknown> | null> {
+  const knex = testKnex();
+  try {
+    return (await knex(table).orderBy("id").first(columns)) ?? null;
+  } finally {
+    await knex.destroy();
+  }
+}
+
 /** An earlier state to open: the first one stored, or one made now by revising an accepted report. */
 async function revision(browser: Browser): Promise<{ id: string; revision: string } | null> {
   const stored = async () => {
@@ -144,11 +153,17 @@ async function addressOf(key: string, principal: Principal | null, browser: Brow
         return { id: await firstValue("records_requests", "id") };
       case "foam-systems/:systemId":
         return { systemId: await firstValue("foam_systems", "id") };
-      case "apparatus/:apparatusId/foam-systems/:systemId":
+      case "apparatus/:apparatusId/foam-systems/:systemId": {
+        const system = await firstRow("foam_systems", ["id", "apparatus_id"]);
         return {
-          apparatusId: await firstValue("foam_systems", "apparatus_id"),
-          systemId: await firstValue("foam_systems", "id"),
+          apparatusId: system ? String(system.apparatus_id) : null,
+          systemId: system ? String(system.id) : null,
         };
+      }
+      case "foam-systems/:systemId/tests/:testId": {
+        const found = await firstRow("foam_accuracy_tests", ["id", "foam_system_id"]);
+        return { systemId: found ? String(found.foam_system_id) : null, testId: found ? String(found.id) : null };
+      }
       case "reset-password/:token":
         // A link that was never sent: the page that says so must fit too.
         return { token: "a-link-that-was-never-sent" };

@@ -17,7 +17,15 @@ const knex: Knex = knexFactory({
   ...knexConfig,
   connection: { ...(knexConfig.connection as object), database: name },
 });
-const SEEDS = ["01_agency_and_accounts.ts", "02_catalogue.ts", "03_events.ts", "08_demo_attachments.ts"];
+const SEEDS = [
+  "01_agency_and_accounts.ts",
+  "02_catalogue.ts",
+  "02_foam_systems.ts",
+  "03_events.ts",
+  "08_demo_attachments.ts",
+  "08_stock.ts",
+  "09_demo_test_and_disposal_files.ts",
+];
 const endpointBefore = process.env.S3_ENDPOINT;
 let closeFileStore: () => Promise<void>;
 
@@ -58,5 +66,17 @@ describe("the demo's attachments", () => {
         expect(body.toString("latin1")).toContain("DEMO DATA");
       }
     }
+  });
+
+  it("include a printout on an accuracy test and the hauler's manifest on the disposal", async () => {
+    const printout = await knex("attachments").where({ subject: "foam_test" }).first();
+    expect(printout).toMatchObject({ kind: "test_printout", file_name: "accuracy-test-printout-demo.pdf" });
+    expect(await knex("foam_accuracy_tests").where({ id: printout.subject_id }).first("id")).toBeTruthy();
+    const manifest = await knex("attachments").where({ subject: "stock_movement" }).first();
+    expect(manifest).toMatchObject({ kind: "disposal_manifest", file_name: "disposal-manifest-demo.pdf" });
+    expect(await knex("stock_movements").where({ id: manifest.subject_id }).first("kind")).toEqual({
+      kind: "disposed",
+    });
+    expect(Buffer.from((await getObject(manifest.storage_key)).body).toString("latin1")).toContain("DEMO DATA");
   });
 });
