@@ -163,7 +163,7 @@ export async function seed(knex: Knex): Promise<void> {
   );
 
   // December deliveries, then the tanks filled from the stores.
-  await receive(locations.s1, f3, "F3-2510-A07", "2025-10-15", "drum", 55, 6, "2025-12-03", "PO 26-0112 (demo)");
+  await receive(locations.s1, f3, "F3-2510-A07", "2025-10-15", "drum", 55, 8, "2025-12-03", "PO 26-0112 (demo)");
   const classALot = await receive(
     locations.s1,
     classA,
@@ -171,15 +171,16 @@ export async function seed(knex: Knex): Promise<void> {
     "2025-10-02",
     "pail",
     5,
-    24,
+    40,
     "2025-12-03",
     "PO 26-0112 (demo)",
   );
-  await receive(locations.s2, classA, "CA-2510-221", "2025-10-02", "pail", 5, 4, "2025-12-04", "PO 26-0112 (demo)");
+  await receive(locations.s2, classA, "CA-2510-221", "2025-10-02", "pail", 5, 30, "2025-12-04", "PO 26-0112 (demo)");
+  await receive(locations.s3, f3, "F3-2510-A07", "2025-10-15", "pail", 5, 24, "2025-12-04", "PO 26-0112 (demo)");
   await receive(cache, f3, "F3-2510-A07", "2025-10-15", "tote", 275, 1, "2025-12-05", "PO 26-0113 (demo)");
   await move("transferred", locations.s1, locations.e1, classA, 25, "2025-12-06", "Fill E1 Class A tank");
   await move("transferred", locations.s2, locations.e2, classA, 15, "2025-12-06", "Fill E2 Class A tank");
-  await move("transferred", locations.s1, locations.s3, classA, 30, "2025-12-07", "Stock South Fork");
+  await move("transferred", locations.s1, locations.s3, classA, 60, "2025-12-07", "Stock South Fork");
   // E3's one system tank holds 50 gal (its catalogue figure): 10 of Class A beside 40 of F3.
   await move("transferred", locations.s3, locations.e3, classA, 10, "2025-12-07", "Fill E3 Class A tank");
   await move("transferred", locations.s3, locations.br3, classA, 5, "2025-12-07", "Fill BR3 Class A tank");
@@ -201,16 +202,8 @@ export async function seed(knex: Knex): Promise<void> {
     classALot,
   );
 
-  // Every filed demo report's use and refills, as filing posts them.
-  const events = await knex("events")
-    .whereIn("status", ["filed", "returned", "accepted"])
-    .orderBy("started_at")
-    .pluck("id");
-  await knex.transaction(async (trx) => {
-    for (const id of events) await postReportStock(trx, id, actor);
-  });
-
-  // Tanks topped up from the stores after the year's calls, where the store holds enough.
+  // Every filed demo report's use and refills, as filing posts them; after each call the crew tops
+  // the apparatus tanks up from the station store where it holds enough.
   const tankFills: [number, number, number, number][] = [
     [locations.e1, locations.s1, classA, 25],
     [locations.e2, locations.s2, classA, 15],
@@ -219,20 +212,30 @@ export async function seed(knex: Knex): Promise<void> {
     [locations.e3, locations.s1, f3, 40],
     [locations.ft1, locations.s1, f3, 150],
   ];
-  for (const [tank, store, productId, full] of tankFills) {
-    const inTank = (await stockItems({ locationId: tank, productId }, knex)).reduce(
-      (sum, item) => sum + item.onHandGal,
-      0,
-    );
-    const inStore = (await stockItems({ locationId: store, productId }, knex))
-      .filter((item) => item.lot && item.onHandGal > 0)
-      .reduce((sum, item) => sum + item.onHandGal, 0);
-    // A transfer beyond the tank's capacity is refused: fill only the room left in it.
-    const fill = (await tankFill(knex)).find((row) => row.locationId === tank);
-    const room = fill?.capacityGal == null ? Infinity : Math.floor(fill.capacityGal - fill.onHandGal);
-    const wanted = Math.min(Math.round((full - inTank) * 100) / 100, Math.floor(inStore), room);
-    if (wanted >= 1)
-      await move("transferred", store, tank, productId, wanted, "2026-11-20", "Top-up after the year's calls");
+  const topUp = async (on: string) => {
+    for (const [tank, store, productId, full] of tankFills) {
+      const inTank = (await stockItems({ locationId: tank, productId }, knex)).reduce(
+        (sum, item) => sum + item.onHandGal,
+        0,
+      );
+      const inStore = (await stockItems({ locationId: store, productId }, knex))
+        .filter((item) => item.lot && item.onHandGal > 0)
+        .reduce((sum, item) => sum + item.onHandGal, 0);
+      // A transfer beyond the tank's capacity is refused: fill only the room left in it.
+      const fill = (await tankFill(knex)).find((row) => row.locationId === tank);
+      const room = fill?.capacityGal == null ? Infinity : Math.floor(fill.capacityGal - fill.onHandGal);
+      const wanted = Math.min(Math.round((full - inTank) * 100) / 100, Math.floor(inStore), room);
+      if (wanted >= 1) await move("transferred", store, tank, productId, wanted, on, "Top-up after the call");
+    }
+  };
+  const events: Array<{ id: number; cleared_at: Date | null; started_at: Date }> = await knex("events")
+    .whereIn("status", ["filed", "returned", "accepted"])
+    .orderBy("started_at")
+    .select("id", "started_at", "cleared_at");
+  for (const event of events) {
+    await knex.transaction((trx) => postReportStock(trx, event.id, actor));
+    const after = new Date((event.cleared_at ?? event.started_at).getTime() + 3_600_000);
+    await topUp(after.toISOString().slice(0, 10));
   }
 
   // The legacy AR-AFFF is held for disposal from now on; the first drums went to a licensed hauler.
