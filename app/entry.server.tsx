@@ -75,4 +75,4 @@ export function checkEnvironment() {
 export { requestBodyLimit } from "./lib/request-limits";
 export { isForeignOrigin, securityHeaderRecord } from "./lib/security.server";
 export { startMailWorker } from "./models/mail-outbox.server";
-export { startFoamSystemReminders } from "./models/foam-system-reminders.server";
+export { startScheduledChecks } from "./models/scheduled-checks.server";

@@ -87,8 +87,9 @@ const server = app.listen(port, host, () => {
   console.log(`Foamtally is serving on http://${host}:${port}`);
   // Sends queued mail (alerts, notices, workbooks) every 30 s and retries failed sends with backoff.
   entry.startMailWorker?.();
-  // Queues foam-system reminders (30 days ahead, and when overdue) shortly after start, then hourly.
-  entry.startFoamSystemReminders?.();
+  // Shortly after start, then hourly: foam-system reminders (30 days ahead, and when overdue) and
+  // stock alerts that fall due with time alone (shelf life, quality samples).
+  entry.startScheduledChecks?.();
 });
 
 function shutdown(signal) {

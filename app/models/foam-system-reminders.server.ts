@@ -67,20 +67,3 @@ export async function queueFoamSystemReminders(now = new Date()): Promise<number
     return queued;
   });
 }
-
-let timer: ReturnType<typeof setInterval> | undefined;
-
-/** The server process's reminder check: shortly after start, then hourly; started once by scripts/serve.js. */
-export function startFoamSystemReminders(intervalMs = 60 * 60_000): void {
-  if (timer) return;
-  const run = () => {
-    queueFoamSystemReminders().catch((error: unknown) => {
-      console.warn(
-        `Foam system reminders will be tried again: ${error instanceof Error ? error.message : String(error)}`,
-      );
-    });
-  };
-  timer = setInterval(run, intervalMs);
-  timer.unref();
-  setTimeout(run, 5_000).unref();
-}

@@ -115,8 +115,8 @@ async function stockAlertRecipients(connection: Db): Promise<string[]> {
 
 /**
  * Queues one mail listing the stock conditions not alerted before, and forgets reorder conditions
- * that cleared. Runs in the caller's transaction after every stock change, and when the stock
- * page is opened (shelf life and sample dates pass without any movement).
+ * that cleared. Runs in the caller's transaction after every stock change, when the stock page is
+ * opened, and hourly from `runScheduledChecks` (shelf life and sample dates pass without any movement).
  */
 export async function queueStockAlerts(trx: Knex.Transaction, today?: string): Promise<number> {
   const conditions = await currentStockConditions(trx, today);
