@@ -8,7 +8,7 @@ import { decimalOrZero } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
 import { readAgencySettings } from "./agency-settings.server";
-import { deliverPendingMailSoon, queueMail } from "./mail-outbox.server";
+import { queueMail } from "./mail-outbox.server";
 
 export type StockConditionKind = "reorder" | "expired" | "sample_due";
 export type StockCondition = { key: string; kind: StockConditionKind; message: string };
@@ -115,8 +115,8 @@ async function stockAlertRecipients(connection: Db): Promise<string[]> {
 
 /**
  * Queues one mail listing the stock conditions not alerted before, and forgets reorder conditions
- * that cleared. Runs in the caller's transaction after every stock change, when the stock page is
- * opened, and hourly from `runScheduledChecks` (shelf life and sample dates pass without any movement).
+ * that cleared. Runs in the caller's transaction after every stock change, and hourly from
+ * `runScheduledChecks` (shelf life and sample dates pass without any movement).
  */
 export async function queueStockAlerts(trx: Knex.Transaction, today?: string): Promise<number> {
   const conditions = await currentStockConditions(trx, today);
@@ -146,10 +146,4 @@ export async function queueStockAlerts(trx: Knex.Transaction, today?: string): P
     trx,
   );
   return fresh.length;
-}
-
-/** The sweep the stock page runs when it opens: dates pass without any movement. */
-export async function sweepStockAlerts(): Promise<void> {
-  const queued = await db.transaction((trx) => queueStockAlerts(trx));
-  if (queued) deliverPendingMailSoon();
 }

@@ -26,15 +26,13 @@ import {
   stockItems,
   tankFill,
 } from "~/models/stock.server";
-import { currentStockConditions, sweepStockAlerts } from "~/models/stock-alerts.server";
+import { currentStockConditions } from "~/models/stock-alerts.server";
 import { stockReadiness } from "~/models/stock-readiness.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Concentrate stock · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "stock.read");
-  // Shelf life and sample dates pass without any movement: opening the book alerts what became due.
-  await sweepStockAlerts();
   const [items, readiness, conditions, options, reorderPoints, tanks] = await Promise.all([
     stockItems(),
     stockReadiness(),
