@@ -65,7 +65,9 @@ app.use(
   "/assets",
   express.static(path.join(buildDirectory, "client/assets"), { immutable: true, maxAge: "1y", index: false }),
 );
-app.use(express.static(path.join(buildDirectory, "client"), { maxAge: "1h", index: false }));
+// Every file in public/ has an extension; a page or API address without one skips the disk lookup.
+const publicFiles = express.static(path.join(buildDirectory, "client"), { maxAge: "1h", index: false });
+app.use((req, res, next) => (/\.[^/]*$/.test(req.path) ? publicFiles(req, res, next) : next()));
 app.use((req, res, next) => {
   const url = `${req.protocol}://${req.get("host")}${req.originalUrl}`;
   const headers = { origin: req.get("origin") ?? "", referer: req.get("referer") ?? "" };

@@ -3,6 +3,7 @@ import {
   endOfLocalDay,
   formatInstantInZone,
   instantToWallClock,
+  keptZoneOffsetMinutes,
   localDateTime,
   startOfLocalDay,
   wallClockIn,
@@ -60,6 +61,8 @@ describe("time zones", () => {
       ["America/St_Johns", "2026-03-08T04:00:00Z"],
       ["America/St_Johns", "2026-11-01T03:00:00Z"],
       [zone, "2026-11-01T05:00:00Z"],
+      // Lord Howe Island moves its clocks by half an hour.
+      ["Australia/Lord_Howe", "2026-04-04T14:00:00Z"],
     ] as const) {
       const toWall = wallClockIn(timeZone);
       const start = new Date(from).getTime();
@@ -68,6 +71,12 @@ describe("time zones", () => {
         const instant = new Date(start + minute * 60_000 + 7_000);
         const expected = new Date(instant.getTime() + zoneOffsetMinutes(instant, timeZone) * 60_000);
         if (toWall(instant)?.getTime() !== expected.getTime()) mismatches.push(instant.toISOString());
+        if (keptZoneOffsetMinutes(instant, timeZone) !== zoneOffsetMinutes(instant, timeZone)) {
+          mismatches.push(`offset ${instant.toISOString()}`);
+        }
+        if (instantToWallClock(instant, timeZone) !== expected.toISOString().slice(0, 16)) {
+          mismatches.push(`wall clock ${instant.toISOString()}`);
+        }
       }
       expect(mismatches, timeZone).toEqual([]);
       // The change really is in the range: the first and last minute have different offsets.

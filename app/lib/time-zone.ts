@@ -48,12 +48,36 @@ export function wallClockToInstant(wallClock: string | null | undefined, timeZon
   return new Date(instant);
 }
 
+const HOUR = 3_600_000;
+const offsetsPerHour = new Map<string, Map<number, number | null>>();
+
+/**
+ * `zoneOffsetMinutes`, with the offset kept per zone and UTC hour: lists and exports convert every
+ * row, and asking Intl costs far more than the arithmetic. An hour is kept only when its first and
+ * last millisecond have the same offset, so an hour with a change in it (at :30 in a zone such as
+ * America/St_Johns) is asked per instant.
+ */
+export function keptZoneOffsetMinutes(instant: Date, timeZone: string): number {
+  let perHour = offsetsPerHour.get(timeZone);
+  if (!perHour) offsetsPerHour.set(timeZone, (perHour = new Map()));
+  const hour = Math.floor(instant.getTime() / HOUR);
+  let offset = perHour.get(hour);
+  if (offset === undefined) {
+    const first = zoneOffsetMinutes(new Date(hour * HOUR), timeZone);
+    const last = zoneOffsetMinutes(new Date(hour * HOUR + HOUR - 1), timeZone);
+    offset = first === last ? first : null;
+    if (perHour.size >= 100_000) perHour.clear();
+    perHour.set(hour, offset);
+  }
+  return offset ?? zoneOffsetMinutes(instant, timeZone);
+}
+
 /** How the agency's clocks showed `instant`, as "YYYY-MM-DDTHH:MM"; "" for no instant. */
 export function instantToWallClock(instant: Date | string | null | undefined, timeZone: string): string {
   if (!instant) return "";
   const date = instant instanceof Date ? instant : new Date(instant);
   if (Number.isNaN(date.getTime())) return "";
-  const shifted = new Date(date.getTime() + zoneOffsetMinutes(date, timeZone) * 60_000);
+  const shifted = new Date(date.getTime() + keptZoneOffsetMinutes(date, timeZone) * 60_000);
   return shifted.toISOString().slice(0, 16);
 }
 
@@ -82,26 +106,9 @@ export function localDateTime(instant: Date, timeZone: string): string {
  * as they are.
  */
 export function wallClockIn(timeZone: string): (instant: Date | null) => Date | null {
-  // An export converts every row, and asking Intl costs far more than the arithmetic: the offset is
-  // kept per UTC hour. An hour is kept only when its first and last millisecond have the same offset,
-  // so an hour with a change in it (at :30 in a zone such as America/St_Johns) is asked per instant.
-  const HOUR = 3_600_000;
-  const perHour = new Map<number, number | null>();
-  const offsetAt = (instant: Date): number => {
-    const hour = Math.floor(instant.getTime() / HOUR);
-    let offset = perHour.get(hour);
-    if (offset === undefined) {
-      const first = zoneOffsetMinutes(new Date(hour * HOUR), timeZone);
-      const last = zoneOffsetMinutes(new Date(hour * HOUR + HOUR - 1), timeZone);
-      offset = first === last ? first : null;
-      if (perHour.size >= 100_000) perHour.clear();
-      perHour.set(hour, offset);
-    }
-    return offset ?? zoneOffsetMinutes(instant, timeZone);
-  };
   return (instant) => {
     if (!instant) return null;
-    const shifted = instant.getTime() + offsetAt(instant) * 60_000;
+    const shifted = instant.getTime() + keptZoneOffsetMinutes(instant, timeZone) * 60_000;
     return new Date(Math.floor(shifted / 1000) * 1000);
   };
 }

@@ -18,6 +18,7 @@ import { DEFAULT_EVENT_NUMBER_PREFIX } from "~/lib/foam/event-number";
 import { db, type Db } from "~/lib/db.server";
 import { DEFAULT_ACCURACY_TEST_INTERVAL_MONTHS, DEFAULT_FLUSH_INTERVAL_DAYS } from "~/lib/foam/system-schedule";
 import { parseClosureDays } from "~/lib/records/due-date";
+import { VersionedCache } from "~/lib/versioned-cache";
 
 export const DEFAULT_TIME_ZONE = "America/Chicago";
 /** The version of settings that were never saved: the first save inserts the row. */
@@ -88,6 +89,17 @@ export async function readAgencySettings(
   const query = connection("agency_settings").where({ id: 1 });
   if (options.forUpdate) query.forUpdate();
   return settingsFrom(await query.first());
+}
+
+const keptSettings = new VersionedCache<AgencySettings>(1);
+
+/**
+ * The settings as `readAgencySettings` reads them, kept in this process while the catalogue's
+ * version stamp is `catalogueVersion` (every settings save gives it a new one): for read paths that
+ * already hold the current stamps, such as the events list.
+ */
+export function agencySettingsAt(catalogueVersion: string | null): Promise<AgencySettings> {
+  return keptSettings.get("settings", catalogueVersion, () => readAgencySettings());
 }
 
 /** The agency's name as workbooks and e-mails print it. */

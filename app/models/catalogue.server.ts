@@ -102,15 +102,12 @@ export async function listActiveApparatus(connection: Db = db): Promise<ActiveAp
 }
 
 /**
- * A subquery for `whereExists`: the event whose id is in `eventIdColumn` had a discharge of a
- * product of `foamClass`. The event list and the map filter by class with it.
+ * A `whereRaw` pair: the event in `eventTable` had a discharge of a product of `foamClass`, read from
+ * the classes kept on the event row (`foam_classes`, written with its lines). The event list and the
+ * map filter by class with it.
  */
-export function dischargedFoamClass(eventIdColumn: string, foamClass: FoamClass, connection: Db = db) {
-  return connection("discharges as class_d")
-    .join("foam_products as class_p", "class_p.id", "class_d.product_id")
-    .where("class_d.event_id", connection.ref(eventIdColumn))
-    .where("class_p.foam_class", foamClass)
-    .select(connection.raw("1"));
+export function usedFoamClass(eventTable: string, foamClass: FoamClass): [string, string[]] {
+  return ["FIND_IN_SET(?, ??) > 0", [foamClass, `${eventTable}.foam_classes`]];
 }
 
 const PRODUCT_FACT_COLUMNS = ["id", "name", "foam_class", "nominal_percents", "pfas_containing"];

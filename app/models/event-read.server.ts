@@ -21,8 +21,8 @@ import {
 } from "~/lib/foam/vocabulary";
 import { readStoredDraft } from "~/lib/foam/report-draft.server";
 import { endOfLocalDay, instantToWallClock, startOfLocalDay } from "~/lib/time-zone";
-import { readAgencySettings } from "./agency-settings.server";
-import { dischargedFoamClass } from "./catalogue.server";
+import { agencySettingsAt, readAgencySettings } from "./agency-settings.server";
+import { usedFoamClass } from "./catalogue.server";
 import { checksOfRow } from "./geography.server";
 import { VersionedCache } from "~/lib/versioned-cache";
 import { currentDataVersions } from "./data-version.server";
@@ -459,7 +459,7 @@ function filteredEvents(user: SessionUser, filters: EventFilters, timeZone: stri
   if (filters.status) query.where("events.status", filters.status);
   if (filters.stationId) query.where("events.station_id", filters.stationId);
   if (filters.mine) query.where("events.created_by", user.id);
-  if (filters.foamClass) query.whereExists(dischargedFoamClass("events.id", filters.foamClass));
+  if (filters.foamClass) query.whereRaw(...usedFoamClass("events", filters.foamClass));
   return query;
 }
 
@@ -517,15 +517,9 @@ const LIST_COLUMNS = [
   "events.solution_gal",
   "events.pfas_containing",
   "events.has_warnings",
+  "events.foam_classes",
   "stations.code as station_code",
 ];
-
-function classesSubquery() {
-  return db.raw(
-    `(SELECT GROUP_CONCAT(DISTINCT fp.foam_class ORDER BY fp.foam_class) FROM discharges d
-      JOIN foam_products fp ON fp.id = d.product_id WHERE d.event_id = events.id) as foam_classes`,
-  );
-}
 
 /** One page of events, with the count and the totals of everything the filters select. */
 export type EventPage = {
@@ -567,10 +561,11 @@ function listTotalsKey(user: SessionUser, filters: EventFilters, timeZone: strin
 }
 
 export async function listEvents(user: SessionUser, filters: EventFilters): Promise<EventPage> {
-  const [{ timeZone }, versions] = await Promise.all([readAgencySettings(), currentDataVersions(db)]);
+  const versions = await currentDataVersions(db);
+  const { timeZone } = await agencySettingsAt(versions.catalogue);
   const [rows, totals] = await Promise.all([
     filteredEvents(user, filters, timeZone)
-      .select(...LIST_COLUMNS, classesSubquery())
+      .select(...LIST_COLUMNS)
       .orderBy(SORTABLE[filters.sort], filters.direction)
       .orderBy("events.id", filters.direction)
       .limit(filters.pageSize)
@@ -588,7 +583,7 @@ export async function* eachEvent(user: SessionUser, filters: EventFilters): Asyn
   const { timeZone } = await readAgencySettings();
   for (let offset = 0; ; offset += batch) {
     const rows = await filteredEvents(user, filters, timeZone)
-      .select(...LIST_COLUMNS, classesSubquery())
+      .select(...LIST_COLUMNS)
       .orderBy(SORTABLE[filters.sort], filters.direction)
       .orderBy("events.id", filters.direction)
       .limit(batch)

@@ -8,6 +8,7 @@ import { db } from "~/lib/db.server";
 import type { FoamClass, FoamType, PfasContentUnit } from "~/lib/foam/vocabulary";
 import { deleteObjectQuietly, putObject } from "~/lib/storage.server";
 import { productColumns } from "./catalogue-rows.server";
+import { refreshFoamClassTotals } from "./report-rows.server";
 import { nominalPercentsOf } from "./catalogue.server";
 import { describeFile, recordNewVersion, type StoredFile } from "./file-versions.server";
 import { bumpDataVersion } from "./data-version.server";
@@ -139,6 +140,11 @@ export async function saveProduct(
         savedId = id;
       }
       await bumpDataVersion(trx, "catalogue");
+      if (current && current.foam_class !== columns.foam_class) {
+        // Events keep their concentrate by class: those that used this product are summed again.
+        await refreshFoamClassTotals(trx, { productId: savedId });
+        await bumpDataVersion(trx, "reports");
+      }
       const after = recordOf((await trx("foam_products").where({ id: savedId }).first())!);
       // Each sheet keeps its own key: the one replaced stays in the file store and is listed as earlier.
       const replacedSheet = sheetFile

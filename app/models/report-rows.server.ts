@@ -208,6 +208,10 @@ export async function insertReportLinesInBatches(
   await insert("discharges", discharges);
   await insert("runoff_dispositions", dispositions);
   await insert("tank_readings", tankReadings);
+  await refreshFoamClassTotals(
+    connection,
+    reports.map((report) => report.eventId),
+  );
   // Every write of a report's rows (saves, seeds, fixtures) makes kept list totals and map answers stale.
   await bumpDataVersion(connection, "reports");
   return { discharges: discharges.length, dispositions: dispositions.length, tankReadings: tankReadings.length };
@@ -255,6 +259,44 @@ export async function insertReportsInBatches(
     written.tankReadings += lines.tankReadings;
   }
   return written;
+}
+
+/**
+ * Sets each event's concentrate by foam class and its classes (`foam_classes`: "", "A", "B" or
+ * "A,B") from its discharges and their products' classes as they are now. Runs in the transaction
+ * that writes the lines, and in the one that changes a product's class (`productId`).
+ */
+export async function refreshFoamClassTotals(
+  connection: Knex | Knex.Transaction,
+  which: readonly number[] | { productId: number },
+): Promise<void> {
+  const eventIds = Array.isArray(which)
+    ? which
+    : (
+        await connection("discharges")
+          .where({ product_id: (which as { productId: number }).productId })
+          .distinct("event_id")
+      ).map((row: { event_id: number }) => row.event_id);
+  for (let start = 0; start < eventIds.length; start += 1000) {
+    const ids = eventIds.slice(start, start + 1000);
+    await connection.raw(
+      `UPDATE events e
+       LEFT JOIN (
+         SELECT d.event_id,
+           SUM(CASE WHEN p.foam_class = 'A' THEN d.concentrate_gal ELSE 0 END) AS class_a,
+           SUM(CASE WHEN p.foam_class = 'B' THEN d.concentrate_gal ELSE 0 END) AS class_b,
+           GROUP_CONCAT(DISTINCT p.foam_class ORDER BY p.foam_class) AS classes
+         FROM discharges d JOIN foam_products p ON p.id = d.product_id
+         WHERE d.event_id IN (${ids.map(() => "?").join(",")})
+         GROUP BY d.event_id
+       ) c ON c.event_id = e.id
+       SET e.class_a_concentrate_gal = COALESCE(c.class_a, 0),
+           e.class_b_concentrate_gal = COALESCE(c.class_b, 0),
+           e.foam_classes = COALESCE(c.classes, '')
+       WHERE e.id IN (${ids.map(() => "?").join(",")})`,
+      [...ids, ...ids],
+    );
+  }
 }
 
 /** Writes one event's lines (replacing any it had); its totals go on the event row as `totalsColumns`. */

@@ -16,7 +16,7 @@ import type { GeographyChecks } from "~/lib/geo/checks";
 import type { MapFilters } from "~/lib/geo/map-filters";
 import { startOfLocalDay } from "~/lib/time-zone";
 import { VersionedCache } from "~/lib/versioned-cache";
-import { dischargedFoamClass } from "./catalogue.server";
+import { usedFoamClass } from "./catalogue.server";
 import { currentDataVersions } from "./data-version.server";
 
 /** Reports still in draft are the officer's work in progress and stay off the map and totals. */
@@ -35,7 +35,7 @@ function filteredEvents(filters: MapFilters): Knex.QueryBuilder {
   }
   if (filters.kind) query.where("e.kind", filters.kind);
   if (filters.stationId) query.where("e.station_id", filters.stationId);
-  if (filters.foamClass) query.whereExists(dischargedFoamClass("e.id", filters.foamClass));
+  if (filters.foamClass) query.whereRaw(...usedFoamClass("e", filters.foamClass));
   return query;
 }
 
@@ -92,10 +92,9 @@ type MapEventRow = {
   nearest_waterway_m: string | null;
   within_waterway_buffer: number | boolean | null;
   station_code: string | null;
-  class_a_gal: string | null;
-  class_b_gal: string | null;
-  uses_a: number | string | null;
-  uses_b: number | string | null;
+  class_a_concentrate_gal: string;
+  class_b_concentrate_gal: string;
+  foam_classes: string;
 };
 
 /**
@@ -106,21 +105,6 @@ type MapEventRow = {
 export async function mapEvents(filters: MapFilters): Promise<MapEventCollection> {
   const rows: MapEventRow[] = await filteredEvents(filters)
     .leftJoin("stations as s", "s.id", "e.station_id")
-    .leftJoin(
-      db("discharges as d")
-        .join("foam_products as p", "p.id", "d.product_id")
-        .groupBy("d.event_id")
-        .select(
-          "d.event_id",
-          db.raw("SUM(CASE WHEN p.foam_class = 'A' THEN d.concentrate_gal ELSE 0 END) AS class_a_gal"),
-          db.raw("SUM(CASE WHEN p.foam_class = 'B' THEN d.concentrate_gal ELSE 0 END) AS class_b_gal"),
-          db.raw("MAX(p.foam_class = 'A') AS uses_a"),
-          db.raw("MAX(p.foam_class = 'B') AS uses_b"),
-        )
-        .as("c"),
-      "c.event_id",
-      "e.id",
-    )
     .orderBy("e.started_at")
     .select(
       "e.id",
@@ -140,16 +124,15 @@ export async function mapEvents(filters: MapFilters): Promise<MapEventCollection
       "e.nearest_waterway_m",
       "e.within_waterway_buffer",
       "s.code as station_code",
-      "c.class_a_gal",
-      "c.class_b_gal",
-      "c.uses_a",
-      "c.uses_b",
+      "e.class_a_concentrate_gal",
+      "e.class_b_concentrate_gal",
+      "e.foam_classes",
     );
   return {
     type: "FeatureCollection",
     features: rows.map((row) => {
-      const usesA = Number(row.uses_a) === 1;
-      const usesB = Number(row.uses_b) === 1;
+      const usesA = row.foam_classes.includes("A");
+      const usesB = row.foam_classes.includes("B");
       return {
         type: "Feature",
         geometry: { type: "Point", coordinates: [degrees(row.longitude), degrees(row.latitude)] },
@@ -166,8 +149,8 @@ export async function mapEvents(filters: MapFilters): Promise<MapEventCollection
           waterGal: gallons(row.water_gal),
           concentrateGal: gallons(row.concentrate_gal),
           solutionGal: gallons(row.solution_gal),
-          classAConcentrateGal: gallons(row.class_a_gal),
-          classBConcentrateGal: gallons(row.class_b_gal),
+          classAConcentrateGal: gallons(row.class_a_concentrate_gal),
+          classBConcentrateGal: gallons(row.class_b_concentrate_gal),
           drainageBasin: row.drainage_basin ?? null,
           nearestWaterway: row.nearest_waterway ?? null,
           nearestWaterwayM: metres(row.nearest_waterway_m),
@@ -232,6 +215,10 @@ function monthIndexSql(months: string[], timeZone: string, column: string): Knex
 
 type SqlRow = Record<string, unknown>;
 
+/** The event row's concentrate of one foam class, kept with its lines (`refreshFoamClassTotals`). */
+const classConcentrateColumn = (foamClass: FoamClass) =>
+  foamClass === "A" ? "e.class_a_concentrate_gal" : "e.class_b_concentrate_gal";
+
 type TotalsRow = {
   events: number | string;
   water_gal: unknown;
@@ -253,19 +240,8 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
   // Class B is shown under "Class B" with its Class B concentrate, not its Class A as well.
   const ofClass = (query: Knex.QueryBuilder) =>
     filters.foamClass ? query.where("p.foam_class", filters.foamClass) : query;
-  const events = () => {
-    const query = filteredEvents(filters).leftJoin("stations as s", "s.id", "e.station_id");
-    if (!filters.foamClass) return query;
-    return query.leftJoin(
-      ofClass(db("discharges as d").join("foam_products as p", "p.id", "d.product_id"))
-        .groupBy("d.event_id")
-        .select("d.event_id", db.raw("SUM(d.concentrate_gal) AS concentrate_gal"))
-        .as("cc"),
-      "cc.event_id",
-      "e.id",
-    );
-  };
-  const concentrate = filters.foamClass ? "COALESCE(cc.concentrate_gal, 0)" : "e.concentrate_gal";
+  const events = () => filteredEvents(filters).leftJoin("stations as s", "s.id", "e.station_id");
+  const concentrate = filters.foamClass ? classConcentrateColumn(filters.foamClass) : "e.concentrate_gal";
   const sums = [
     db.raw("COUNT(*) AS events"),
     db.raw("SUM(e.water_gal) AS water_gal"),
@@ -309,17 +285,12 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
         db.raw("SUM(d.solution_gal) AS solution_gal"),
         db.raw("COUNT(DISTINCT d.event_id) AS events"),
       ),
-    ofClass(
-      db("discharges as d")
-        .join("foam_products as p", "p.id", "d.product_id")
-        .join("events as me", "me.id", "d.event_id"),
-    )
-      .whereIn("d.event_id", ids())
-      .groupBy("month_index", "p.foam_class")
+    filteredEvents(filters)
+      .groupBy("month_index")
       .select(
-        db.raw(`${monthIndexSql(months, timeZone, "me.started_at").toQuery()} AS month_index`),
-        "p.foam_class",
-        db.raw("SUM(d.concentrate_gal) AS concentrate_gal"),
+        db.raw(`${monthIndexSql(months, timeZone, "e.started_at").toQuery()} AS month_index`),
+        db.raw(`SUM(${filters.foamClass === "B" ? "0" : "e.class_a_concentrate_gal"}) AS class_a_gal`),
+        db.raw(`SUM(${filters.foamClass === "A" ? "0" : "e.class_b_concentrate_gal"}) AS class_b_gal`),
       ),
     db("runoff_dispositions as r")
       .join("events as re", "re.id", "r.event_id")
@@ -336,7 +307,10 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
   const monthTotals = months.map(() => ({ a: 0, b: 0 }));
   for (const row of byMonth) {
     const month = monthTotals[Number(row.month_index)];
-    if (month) month[row.foam_class === "A" ? "a" : "b"] += decimalOrZero(row.concentrate_gal);
+    if (month) {
+      month.a += decimalOrZero(row.class_a_gal);
+      month.b += decimalOrZero(row.class_b_gal);
+    }
   }
   const byClass = new Map(classes.map((row) => [row.foam_class as string, row]));
 

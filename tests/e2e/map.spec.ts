@@ -1,4 +1,5 @@
 import type { Knex } from "knex";
+import { refreshFoamClassTotals } from "../../app/models/report-rows.server";
 import { testKnex } from "../support/test-database";
 import { expect, signInAs, test } from "../support/e2e";
 
@@ -56,6 +57,7 @@ test.beforeAll(async () => {
       concentrate_gal: event.concentrate,
       solution_gal: water + event.concentrate,
     });
+    await refreshFoamClassTotals(knex, [id]);
   }
 });
 

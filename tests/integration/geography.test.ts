@@ -6,6 +6,7 @@ import { db } from "~/lib/db.server";
 import type { LayerKind } from "~/lib/geo/layers";
 import { bumpDataVersion } from "~/models/data-version.server";
 import { recomputeEventGeography, replaceLayer } from "~/models/geography.server";
+import { refreshFoamClassTotals } from "~/models/report-rows.server";
 import { loader as checkLoader } from "~/routes/api.geo.check";
 import { loader as addressLoader } from "~/routes/api.geo.addresses";
 import { loader as layerLoader } from "~/routes/api.geo.layers";
@@ -109,6 +110,7 @@ beforeAll(async () => {
       concentrate_gal: discharge.concentrate,
       solution_gal: discharge.water + discharge.concentrate,
     });
+    await refreshFoamClassTotals(db, [id]);
     ids[key] = id;
   };
   await event(
