@@ -16,6 +16,7 @@ import type { GeographyChecks } from "~/lib/geo/checks";
 import type { MapFilters } from "~/lib/geo/map-filters";
 import { startOfLocalDay } from "~/lib/time-zone";
 import { VersionedCache } from "~/lib/versioned-cache";
+import { agencySettingsAt } from "./agency-settings.server";
 import { usedFoamClass } from "./catalogue.server";
 import { currentDataVersions } from "./data-version.server";
 
@@ -368,8 +369,16 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
 
 const gzipAsync = promisify(gzip);
 
-async function mapDataVersion(): Promise<string | null> {
-  const { reports, catalogue } = await currentDataVersions(db);
+type DataVersions = Awaited<ReturnType<typeof currentDataVersions>>;
+
+/** What every map read starts from, in one query: the data versions, and the agency's time zone kept per catalogue version. */
+export async function mapReadState(): Promise<{ versions: DataVersions; timeZone: string }> {
+  const versions = await currentDataVersions(db);
+  const { timeZone } = await agencySettingsAt(versions.catalogue);
+  return { versions, timeZone };
+}
+
+function mapDataVersion({ reports, catalogue }: DataVersions): string | null {
   return reports && catalogue ? `${reports}/${catalogue}` : null;
 }
 
@@ -396,8 +405,8 @@ const keptMapEvents = new VersionedCache<MapEventsBody>(24);
  * filter and data version. The tag names the version and the filters, so a browser that sends it
  * back gets `304` until a report or the catalogue changes.
  */
-export async function mapEventsBody(filters: MapFilters): Promise<MapEventsBody> {
-  const version = await mapDataVersion();
+export async function mapEventsBody(filters: MapFilters, versions: DataVersions): Promise<MapEventsBody> {
+  const version = mapDataVersion(versions);
   const key = filtersKey(filters);
   return keptMapEvents.get(key, version, async () => {
     const gzipped = await gzipAsync(Buffer.from(JSON.stringify(await mapEvents(filters)), "utf8"));
@@ -412,8 +421,12 @@ export async function mapEventsBody(filters: MapFilters): Promise<MapEventsBody>
 const keptSummaries = new VersionedCache<UsageSummary>(100);
 
 /** `usageSummary`, computed once per filter, time zone and data version. */
-export async function usageSummaryKept(filters: MapFilters, timeZone: string): Promise<UsageSummary> {
-  const version = await mapDataVersion();
+export async function usageSummaryKept(
+  filters: MapFilters,
+  timeZone: string,
+  versions: DataVersions,
+): Promise<UsageSummary> {
+  const version = mapDataVersion(versions);
   return keptSummaries.get(filtersKey(filters, timeZone), version, () => usageSummary(filters, timeZone));
 }
 

@@ -3,15 +3,15 @@ import type { Route } from "./+types/api.map.events";
 import { requireCapability } from "~/lib/access.server";
 import { parseMapFilters } from "~/lib/geo/map-filters";
 import { apiError } from "~/lib/http.server";
-import { readAgencySettings } from "~/models/agency-settings.server";
-import { mapEventsBody } from "~/models/usage-map.server";
+import { mapEventsBody, mapReadState } from "~/models/usage-map.server";
 
 /** GET /api/map/events.geojson?from=&to=&bbox=&class=&kind=&station= — filed events with their totals. */
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCapability(request, "usage.map");
-  const parsed = parseMapFilters(new URL(request.url).searchParams, (await readAgencySettings()).timeZone);
+  const { versions, timeZone } = await mapReadState();
+  const parsed = parseMapFilters(new URL(request.url).searchParams, timeZone);
   if (!parsed.ok) apiError(400, parsed.message, { errors: { [parsed.field]: [parsed.message] } });
-  const body = await mapEventsBody(parsed.filters);
+  const body = await mapEventsBody(parsed.filters, versions);
   // The browser keeps its copy and asks again each time; an unchanged answer is a bodiless 304.
   const headers = new Headers({ "Cache-Control": "private, no-cache", Vary: "Accept-Encoding, Cookie, Authorization" });
   if (body.etag) headers.set("ETag", body.etag);

@@ -26,8 +26,7 @@ import {
 import { mapQuery, parseMapFilters, type BoundingBox } from "~/lib/geo/map-filters";
 import { httpError } from "~/lib/http.server";
 import { localDateTime } from "~/lib/time-zone";
-import { readAgencySettings } from "~/models/agency-settings.server";
-import { listStations, usageSummaryKept, type UsageSummary } from "~/models/usage-map.server";
+import { listStations, mapReadState, usageSummaryKept, type UsageSummary } from "~/models/usage-map.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Usage map · Foamtally" }];
 
@@ -41,7 +40,7 @@ function defaultRange(timeZone: string) {
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCapability(request, "usage.map");
-  const timeZone = (await readAgencySettings()).timeZone;
+  const { versions, timeZone } = await mapReadState();
   const params = new URL(request.url).searchParams;
   const range = defaultRange(timeZone);
   if (!params.get("from")) params.set("from", range.from);
@@ -50,7 +49,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const parsed = parseMapFilters(params, timeZone);
   if (!parsed.ok) httpError(400, parsed.message);
   const { filters } = parsed;
-  const [stations, summary] = await Promise.all([listStations(), usageSummaryKept(filters, timeZone)]);
+  const [stations, summary] = await Promise.all([listStations(), usageSummaryKept(filters, timeZone, versions)]);
   return {
     filters: {
       from: filters.from,

@@ -13,6 +13,7 @@ import {
   type ReportRunoff,
   type ReportTankReading,
 } from "~/models/report-rows.server";
+import { bumpDataVersion } from "~/models/data-version.server";
 
 const unique = () => randomUUID().slice(0, 8);
 
@@ -28,6 +29,8 @@ export async function ensureAgency(connection: Knex = db, overrides: Record<stri
     .insert({ id: 1, ...values })
     .onConflict("id")
     .merge(Object.keys(values));
+  // As every settings save does: servers keep settings per catalogue version.
+  await bumpDataVersion(connection, "catalogue");
 }
 
 export async function makeStation(connection: Knex = db) {
