@@ -708,6 +708,17 @@ async function pfasRowsAround(
     pfoa: reportableQuantityAnswers(uses, "pfoa", thresholdLb),
     pfos: reportableQuantityAnswers(uses, "pfos", thresholdLb),
   };
+  // Filed and returned uses, found once: each row names those within a day of it.
+  const notYetAccepted = rows.flatMap((row, index) =>
+    row.status === "accepted"
+      ? []
+      : [
+          {
+            at: uses[index].at.getTime(),
+            label: `${row.number} (${EVENT_STATUS_LABELS[row.status as EventStatus] ?? String(row.status)})`,
+          },
+        ],
+  );
   const result: PfasRow[] = [];
   rows.forEach((row, index) => {
     const startedAt = row.started_at as Date | null;
@@ -720,12 +731,9 @@ async function pfasRowsAround(
     const gramsReleased = gramsInConcentrate === null ? null : gramsInConcentrate * use.netShare;
     const pfoa = substanceMass(use, "pfoa");
     const pfos = substanceMass(use, "pfos");
-    const unaccepted = rows
-      .filter(
-        (other, otherIndex) =>
-          other.status !== "accepted" && Math.abs(uses[otherIndex].at.getTime() - use.at.getTime()) < day,
-      )
-      .map((other) => `${other.number} (${EVENT_STATUS_LABELS[other.status as EventStatus] ?? String(other.status)})`);
+    const unaccepted = notYetAccepted
+      .filter((other) => Math.abs(other.at - use.at.getTime()) < day)
+      .map((other) => other.label);
     result.push({
       eventId: row.id,
       eventNumber: row.number,

@@ -286,7 +286,7 @@ export async function refreshFoamClassTotals(
            SUM(CASE WHEN p.foam_class = 'A' THEN d.concentrate_gal ELSE 0 END) AS class_a,
            SUM(CASE WHEN p.foam_class = 'B' THEN d.concentrate_gal ELSE 0 END) AS class_b,
            GROUP_CONCAT(DISTINCT p.foam_class ORDER BY p.foam_class) AS classes
-         FROM discharges d JOIN foam_products p ON p.id = d.product_id
+         FROM discharges d STRAIGHT_JOIN foam_products p ON p.id = d.product_id
          WHERE d.event_id IN (${ids.map(() => "?").join(",")})
          GROUP BY d.event_id
        ) c ON c.event_id = e.id

@@ -1,3 +1,4 @@
+import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import {
   pfasGrams,
@@ -117,5 +118,88 @@ describe("the reportable-quantity answer, PFOA and PFOS each (40 CFR 302.4 as am
     expect(pfasGramsPerLitre(1000, "mg_per_kg")).toBe(1); // 1,000 mg/kg at the assumed 1 kg/L
     expect(worseAnswer("no", "unknown")).toBe("unknown");
     expect(worseAnswer("unknown", "yes")).toBe("yes");
+  });
+});
+
+describe("the 24-hour reportable-quantity sweep", () => {
+  // The definition, span by span: every span starting at a use, and for each use the heaviest and the
+  // most unknown of the spans holding it. Quadratic and slow; the sweep must answer exactly the same.
+  function bySpans(uses: PfasUse[], substance: "pfoa" | "pfos", thresholdLb: number, hours = 24) {
+    const span = hours * 3_600_000;
+    const masses = uses.map((use) => substanceMass(use, substance).grossPounds);
+    const starts = uses.map((use) => use.at.getTime());
+    const spans = starts.map((start) => {
+      let pounds = 0;
+      let unknown = 0;
+      const members: number[] = [];
+      starts.forEach((at, index) => {
+        if (at >= start && at - start < span) {
+          members.push(index);
+          if (masses[index] === null) unknown++;
+          else pounds += masses[index]!;
+        }
+      });
+      return { pounds, unknown, members };
+    });
+    return uses.map((_use, index) => {
+      const holding = spans.filter((candidate) => candidate.members.includes(index));
+      const windowPounds = Math.max(0, ...holding.map((candidate) => candidate.pounds));
+      const unknownInWindow = Math.max(0, ...holding.map((candidate) => candidate.unknown));
+      const answer = windowPounds >= thresholdLb ? "yes" : unknownInWindow > 0 ? "unknown" : "no";
+      return { answer, windowPounds, unknownInWindow };
+    });
+  }
+
+  const content = fc.option(
+    fc.record({ content: fc.double({ min: 0, max: 20, noNaN: true }), unit: fc.constant("g_per_l" as const) }),
+    { nil: null },
+  );
+  const someUse = fc.record({
+    // Within three days, to the minute and on the hour, so that spans overlap, touch and tie.
+    minute: fc.oneof(
+      fc.integer({ min: 0, max: 3 * 24 * 60 }),
+      fc.integer({ min: 0, max: 72 }).map((hour) => hour * 60),
+    ),
+    concentrateGal: fc.double({ min: 0, max: 50, noNaN: true }),
+    pfoa: content,
+    pfos: content,
+  });
+
+  it("answers what checking every span answers, for uses in any order, at the same instant or a span apart", () => {
+    fc.assert(
+      fc.property(fc.array(someUse, { maxLength: 40 }), fc.constantFrom(0.01, 0.5, 1), (drawn, thresholdLb) => {
+        const uses: PfasUse[] = drawn.map((use) => ({
+          at: new Date(Date.UTC(2026, 4, 1) + use.minute * 60_000),
+          concentrateGal: use.concentrateGal,
+          solutionGal: use.concentrateGal * 33,
+          grossShare: 1,
+          netShare: 0.5,
+          content: { pfoa: use.pfoa, pfos: use.pfos },
+        }));
+        for (const substance of ["pfoa", "pfos"] as const) {
+          expect(reportableQuantityAnswers(uses, substance, thresholdLb)).toEqual(
+            bySpans(uses, substance, thresholdLb),
+          );
+        }
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it("answers a busy quarter without comparing every span with every use", () => {
+    // 6,000 uses a quarter apart by about 20 minutes: the span-by-span check takes minutes here.
+    const uses: PfasUse[] = Array.from({ length: 6000 }, (_unused, index) => ({
+      at: new Date(Date.UTC(2026, 0, 1) + index * 1_300_000),
+      concentrateGal: 1,
+      solutionGal: 33,
+      grossShare: 1,
+      netShare: 1,
+      content: { pfoa: null, pfos: { content: 0.1, unit: "g_per_l" } },
+    }));
+    const answers = reportableQuantityAnswers(uses, "pfos", 1);
+    // 1 gal × 3.785411784 L/gal × 0.1 g/L = 0.3785 g (NIST Handbook 44); a 24 h span holds 67 uses.
+    const perUse = 0.3785411784 / GRAMS_PER_POUND;
+    expect(answers[3000].windowPounds).toBeCloseTo(67 * perUse, 9);
+    expect(answers.every((answer) => answer.answer === "no")).toBe(true);
   });
 });

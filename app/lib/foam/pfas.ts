@@ -128,27 +128,60 @@ export function reportableQuantityAnswers(
   const span = hours * 3_600_000;
   const masses = uses.map((use) => substanceMass(use, substance).grossPounds);
   const starts = uses.map((use) => use.at.getTime());
-  // Every 24-hour span worth checking starts at a use: its known pounds and its unknown uses.
-  const windows = starts.map((start) => {
-    let pounds = 0;
-    let unknown = 0;
-    const members: number[] = [];
-    starts.forEach((at, index) => {
-      if (at >= start && at - start < span) {
-        members.push(index);
-        if (masses[index] === null) unknown++;
-        else pounds += masses[index]!;
-      }
-    });
-    return { pounds, unknown, members };
-  });
-  return uses.map((_use, index) => {
-    const holding = windows.filter((window) => window.members.includes(index));
-    const windowPounds = Math.max(0, ...holding.map((window) => window.pounds));
-    const unknownInWindow = Math.max(0, ...holding.map((window) => window.unknown));
+  // Uses in time order. Every 24-hour span worth checking starts at a use and holds the uses from
+  // the first at its start up to the first a full span later; uses at the same instant share it.
+  const order = starts.map((_at, index) => index).sort((a, b) => starts[a] - starts[b] || a - b);
+  const pounds = new Array<number>(order.length);
+  const unknown = new Array<number>(order.length);
+  let first = 0;
+  let end = 0;
+  for (let position = 0; position < order.length; position++) {
+    const start = starts[order[position]];
+    while (starts[order[first]] < start) first++;
+    while (end < order.length && starts[order[end]] - start < span) end++;
+    // Summed in the uses' own order, as the answer has always added them.
+    const members = order.slice(first, end).sort((a, b) => a - b);
+    let known = 0;
+    let unknowns = 0;
+    for (const member of members) {
+      if (masses[member] === null) unknowns++;
+      else known += masses[member]!;
+    }
+    pounds[position] = known;
+    unknown[position] = unknowns;
+  }
+  // A use lies in every span that starts at most a span before it and no later than it: a run of
+  // positions whose both ends only move forward, so the heaviest is kept with two sliding maxima.
+  const heaviestPounds = slidingMaxima(order, starts, span, pounds);
+  const mostUnknown = slidingMaxima(order, starts, span, unknown);
+  const answers = new Array<WindowAnswer>(uses.length);
+  order.forEach((useIndex, position) => {
+    const windowPounds = Math.max(0, heaviestPounds[position]);
+    const unknownInWindow = Math.max(0, mostUnknown[position]);
     const answer: RqAnswer = windowPounds >= thresholdLb ? "yes" : unknownInWindow > 0 ? "unknown" : "no";
-    return { answer, windowPounds, unknownInWindow };
+    answers[useIndex] = { answer, windowPounds, unknownInWindow };
   });
+  return answers;
+}
+
+/**
+ * For each position in time order, the largest `values[p]` over the spans p that hold it: those
+ * starting after `span` before it and at or before it (uses at the same instant included).
+ */
+function slidingMaxima(order: number[], starts: number[], span: number, values: number[]): number[] {
+  const maxima = new Array<number>(order.length);
+  const kept: number[] = [];
+  let next = 0;
+  for (let position = 0; position < order.length; position++) {
+    const at = starts[order[position]];
+    while (next < order.length && starts[order[next]] <= at) {
+      while (kept.length && values[kept[kept.length - 1]] <= values[next]) kept.pop();
+      kept.push(next++);
+    }
+    while (starts[order[kept[0]]] <= at - span) kept.shift();
+    maxima[position] = values[kept[0]];
+  }
+  return maxima;
 }
 
 /** The worse of two answers: yes before unknown before no. */
