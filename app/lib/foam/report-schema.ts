@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { wallClockToInstant } from "../time-zone";
+import { isWallClock, wallClockToInstant } from "../time-zone";
 import { FLOW_UNITS } from "./units";
 import {
   APPLICATION_METHODS,
@@ -89,7 +89,7 @@ const localDateTime = (label: string) =>
   z
     .string()
     .regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2})?$/, `Enter the ${label} as a date and time.`)
-    .refine((value) => !Number.isNaN(Date.parse(`${value}Z`)), `Enter a real date and time for the ${label}.`)
+    .refine(isWallClock, `Enter a real date and time for the ${label}.`)
     .optional();
 
 /**
