@@ -188,7 +188,7 @@ async function eventsWorkbook(
     for (const line of report.discharges) {
       discharges.addRow([
         report.number,
-        line.position + 1,
+        line.position,
         dischargeUnitLabel(line),
         line.outlet,
         line.product,

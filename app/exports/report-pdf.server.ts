@@ -159,7 +159,7 @@ export async function usageReportPdf(
   writer.heading("Discharges");
   for (const line of report.discharges) {
     writer.text(
-      `${line.position + 1}. ${dischargeUnitLabel(line) ?? "—"} ${line.outlet} · ${line.product ?? "water only"}${line.foamClass ? ` (${FOAM_CLASS_LABELS[line.foamClass]})` : ""} · ` +
+      `${line.position}. ${dischargeUnitLabel(line) ?? "—"} ${line.outlet} · ${line.product ?? "water only"}${line.foamClass ? ` (${FOAM_CLASS_LABELS[line.foamClass]})` : ""} · ` +
         `${line.flow} ${line.flowUnit} on ${line.basis} for ${line.minutes} min at ${line.percent ?? 0} % (effective ${line.effectivePercent ?? "—"} %) → ` +
         `water ${gallons(line.water)}, concentrate ${gallons(line.concentrate)}, solution ${gallons(line.solution)}`,
     );

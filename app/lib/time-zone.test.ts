@@ -3,6 +3,8 @@ import {
   endOfLocalDay,
   formatInstantInZone,
   instantToWallClock,
+  isCalendarDay,
+  isWallClock,
   keptZoneOffsetMinutes,
   localDateTime,
   startOfLocalDay,
@@ -37,6 +39,23 @@ describe("time zones", () => {
     expect(wallClockToInstant("yesterday", zone)).toBeNull();
     expect(wallClockToInstant("", zone)).toBeNull();
     expect(instantToWallClock(null, zone)).toBe("");
+  });
+
+  it("refuses days the calendar does not have and years no record falls in, never rolling them over", () => {
+    for (const wallClock of ["2026-02-30T10:00", "2026-04-31T08:00", "2026-13-01T00:00", "2026-06-01T24:00"]) {
+      expect(isWallClock(wallClock), wallClock).toBe(false);
+      expect(wallClockToInstant(wallClock, zone), wallClock).toBeNull();
+    }
+    // 9999-12-31 23:59 in Chicago is past the end of a DATETIME column once in UTC; year 0099 would be read as 1999.
+    for (const wallClock of ["9999-12-31T23:59", "0099-01-01T00:00", "1899-12-31T23:59", "2200-01-01T00:00"]) {
+      expect(wallClockToInstant(wallClock, zone), wallClock).toBeNull();
+    }
+    expect(isWallClock("2028-02-29T23:59:59")).toBe(true);
+    expect(isWallClock("2026-02-28T23:59")).toBe(true);
+    expect(isCalendarDay("2028-02-29")).toBe(true);
+    for (const day of ["2027-02-29", "2026-02-30", "2026-00-10", "0999-12-31", "9999-12-31", "2026-2-3"]) {
+      expect(isCalendarDay(day), day).toBe(false);
+    }
   });
 
   it("gives a day's first instant and the first instant after it, across a clock change", () => {

@@ -34,14 +34,44 @@ export function zoneOffsetMinutes(instant: Date, timeZone: string): number {
 }
 
 const WALL_CLOCK = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2}))?$/;
+const CALENDAR_DAY = /^(\d{4})-(\d{2})-(\d{2})$/;
 
-/** The instant at which the agency's clocks showed `wallClock`, or null for text that is not a time. */
+/**
+ * The years a record's dates may fall in. `Date.UTC` reads years 0–99 as 1900–1999, and MariaDB's
+ * DATE and DATETIME columns end at 9999-12-31, which a late hour west of Greenwich passes once it
+ * is turned into UTC; no record of foam use is older than 1900 or centuries ahead.
+ */
+export const RECORD_YEARS = { first: 1900, last: 2199 } as const;
+
+function isDayOfCalendar(year: number, month: number, day: number): boolean {
+  if (year < RECORD_YEARS.first || year > RECORD_YEARS.last || month < 1 || month > 12 || day < 1) return false;
+  // Day 0 of the next month is the last day of this one.
+  return day <= new Date(Date.UTC(year, month, 0)).getUTCDate();
+}
+
+/** Whether "YYYY-MM-DD" is a day the calendar has (not 30 February) within `RECORD_YEARS`. */
+export function isCalendarDay(text: string): boolean {
+  const match = CALENDAR_DAY.exec(text);
+  return match !== null && isDayOfCalendar(Number(match[1]), Number(match[2]), Number(match[3]));
+}
+
+/** Whether "YYYY-MM-DDTHH:MM" (seconds optional) is a time of a calendar day within `RECORD_YEARS`. */
+export function isWallClock(text: string): boolean {
+  const match = WALL_CLOCK.exec(text);
+  if (!match) return false;
+  const [, year, month, day, hour, minute, second] = match.map(Number);
+  return isDayOfCalendar(year, month, day) && hour <= 23 && minute <= 59 && (second || 0) <= 59;
+}
+
+/**
+ * The instant at which the agency's clocks showed `wallClock`, or null for text that is not a time
+ * of a calendar day (`isWallClock`): 30 February is refused, never read as 2 March.
+ */
 export function wallClockToInstant(wallClock: string | null | undefined, timeZone: string): Date | null {
-  const match = wallClock ? WALL_CLOCK.exec(wallClock) : null;
+  const match = wallClock && isWallClock(wallClock) ? WALL_CLOCK.exec(wallClock) : null;
   if (!match) return null;
   const [, year, month, day, hour, minute, second] = match.map(Number);
   const guess = Date.UTC(year, month - 1, day, hour, minute, second || 0);
-  if (Number.isNaN(guess)) return null;
   let instant = guess - zoneOffsetMinutes(new Date(guess), timeZone) * 60_000;
   // Once more, in case the first guess fell on the other side of a daylight-saving change.
   instant = guess - zoneOffsetMinutes(new Date(instant), timeZone) * 60_000;

@@ -18,6 +18,7 @@ import {
 import { conflict, RefusalError, refused, type Refusal } from "~/lib/refusal";
 import {
   planMovement,
+  quantityError,
   roundGal,
   usedByEvent,
   type BookEntry,
@@ -316,6 +317,9 @@ export async function receiveStock(
     checkVersion(locations.get(input.locationId), "locationId", input.version);
     if (!(await productExists(trx, input.productId))) refuseAt("productId", "Choose a product from the catalogue.");
     const gal = roundGal(input.containerGal * input.containerCount);
+    // The lot is written before its movement is planned, so its quantity passes the movement's limit first.
+    const tooMuch = quantityError(gal);
+    if (tooMuch) refuseAt("containerCount", tooMuch);
     const existing = await trx("stock_lots")
       .where({ product_id: input.productId, lot_number: input.lotNumber })
       .first("id");

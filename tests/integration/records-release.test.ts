@@ -14,7 +14,7 @@ import { usageReportPdf } from "~/exports/report-pdf.server";
 import { getReport } from "~/models/event-read.server";
 import { createRecordsRequest, publicStatusOf } from "~/models/records-request.server";
 import { makeUser } from "../support/factories";
-import { ensureAgency, makeEvent } from "../support/usage-fixtures";
+import { ensureAgency, makeApparatus, makeEvent } from "../support/usage-fixtures";
 
 let s3: S3rver;
 beforeAll(async () => {
@@ -46,7 +46,7 @@ const REVIEWER = "Ysolde Fenwright";
 const NOTE = "Crew noted the homeowner's side gate code";
 const EXACT = { lat: 38.712345, lon: -98.204567, address: "1234 Larkspur Lane" };
 
-async function seededEvent() {
+async function seededEvent(discharges: Parameters<typeof makeEvent>[0]["discharges"] = []) {
   await ensureAgency();
   const author = await makeUser(["officer"], PERSON);
   const reviewer = await makeUser(["chief"], REVIEWER);
@@ -55,6 +55,7 @@ async function seededEvent() {
     status: "accepted",
     startedAt: new Date("2026-03-10T15:00:00Z"),
     drainageBasin: "Willow Creek",
+    discharges,
   });
   await db("events").where({ id: event.id }).update({
     narrative: NOTE,
@@ -172,5 +173,59 @@ describe("redaction in what goes out", () => {
     const log = await db("records_request_log").where({ request_id: request.id }).orderBy("id").pluck("action");
     expect(log).toEqual(["received", "package-built", "package-sent"]);
     await expect(sendReleasePackage(request.id, packageId, clerk.id, "fulfilled")).rejects.toThrow("sent already");
+  });
+});
+
+describe("discharge line numbers in what goes out", () => {
+  async function twoLineEvent() {
+    const first = await makeApparatus(null);
+    const second = await makeApparatus(null);
+    const event = await seededEvent([
+      { apparatusId: first.id, water: 1000, concentrate: 0 },
+      { apparatusId: second.id, water: 500, concentrate: 0 },
+    ]);
+    return { event, units: [first.unitId, second.unitId] };
+  }
+
+  /** The numbers that open the lines of the PDF's Discharges section. */
+  function dischargeNumbers(text: string): string[] {
+    const section = text.slice(text.indexOf("Discharges"), text.indexOf("Runoff"));
+    return [...section.matchAll(/^(\d+)\. (\S+)/gm)].map((match) => `${match[1]} ${match[2]}`);
+  }
+
+  it("numbers the report PDF's lines from 1", async () => {
+    const { event, units } = await twoLineEvent();
+    const report = (await getReport(event.id))!;
+    expect(report.discharges.map((line) => line.position)).toEqual([1, 2]);
+    for (const redactions of [null, DEFAULT_REDACTIONS]) {
+      const text = await pdfText(await usageReportPdf(report, "Alder Bend (demo)", redactions, []));
+      expect(dischargeNumbers(text)).toEqual([`1 ${units[0]}`, `2 ${units[1]}`]);
+    }
+  });
+
+  it("numbers the package's discharge rows and its report PDF's lines from 1", async () => {
+    const { event, units } = await twoLineEvent();
+    const clerk = await makeUser(["records"], "Release Clerk");
+    const request = await createRecordsRequest({
+      name: "Demo Reporter",
+      email: "reporter@example.org",
+      description: "Foam use along Willow Creek in March 2026",
+    });
+    const selection = { from: "2026-03-10", to: "2026-03-10", basin: "Willow Creek", redactions: DEFAULT_REDACTIONS };
+    const packageId = await buildReleasePackage(request.id, clerk.id, selection);
+    const files = await db("records_package_files").where({ package_id: packageId });
+    const stored = async (name: string) =>
+      (await getObject(files.find((file) => file.file_name === name).storage_key)).body;
+
+    const book = XLSX.read(await stored("events.xlsx"), { type: "array" });
+    const rows = XLSX.utils.sheet_to_json<Record<string, unknown>>(book.Sheets.Discharges);
+    const lines = rows.filter((row) => row.Event === event.number).map((row) => [row.Line, row.Apparatus]);
+    expect(lines).toEqual([
+      [1, units[0]],
+      [2, units[1]],
+    ]);
+
+    const text = await pdfText(await stored(`report-${event.number}.pdf`));
+    expect(dischargeNumbers(text)).toEqual([`1 ${units[0]}`, `2 ${units[1]}`]);
   });
 });

@@ -15,6 +15,7 @@ import { action as updateAction } from "~/routes/api.events.$id";
 import { action as createAction } from "~/routes/api.events";
 import { loader as stockLoader } from "~/routes/api.stock";
 import { loader as movementsLoader } from "~/routes/api.stock.movements";
+import { action as stockAction } from "~/routes/stock";
 import { action as moveAction } from "~/routes/stock.movements";
 import { signIn } from "../support/session";
 import { makeUser, TEST_PASSWORD } from "../support/factories";
@@ -296,6 +297,39 @@ describe("moving and counting stock", () => {
     });
     expect(stale).toMatchObject({ kind: "conflict" });
     expect(await count()).toBe(before);
+  });
+
+  it("answers a delivery larger than a movement may be with 400 at the container count, writing no lot", async () => {
+    const cookie = await signIn(keeper.email, TEST_PASSWORD, "10.15.0.2");
+    const lots = async () => Number((await db("stock_lots").count({ n: "*" }).first())!.n);
+    const before = await lots();
+    // 1,000,000 gal × 10,000 is past the lot's DECIMAL(14,4) quantity as well as the movement limit.
+    for (const containerCount of ["10000", "2"]) {
+      const { value } = await settle(() =>
+        stockAction(
+          routeArgs(
+            formRequest(
+              "/stock",
+              {
+                intent: "receive",
+                locationId: String(storeId),
+                productId: String(classB),
+                lotNumber: `L-${randomUUID().slice(0, 6)}`,
+                container: "tote",
+                containerGal: "1000000",
+                containerCount,
+                receivedOn: "2026-03-01",
+              },
+              { Cookie: cookie },
+            ),
+          ),
+        ),
+      );
+      const answer = value as { init: { status: number }; data: { result: { error: Record<string, string[]> } } };
+      expect(answer.init?.status, containerCount).toBe(400);
+      expect(answer.data.result.error.containerCount?.[0]).toMatch(/at most 1,000,000 gallons/);
+    }
+    expect(await lots()).toBe(before);
   });
 
   it("answers the move form's negative or non-numeric quantity with 400 at the field", async () => {

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { isWallClock } from "../time-zone";
 import { NOTIFIED_PARTIES } from "./vocabulary";
 
 /** A notification of a release as recorded on the event page. */
@@ -9,7 +10,7 @@ export const ReleaseNotificationSchema = z
     notifiedAt: z
       .string({ error: "Enter when they were notified." })
       .regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2})?$/, "Enter the date and time they were notified.")
-      .refine((value) => !Number.isNaN(Date.parse(`${value}Z`)), "Enter a real date and time."),
+      .refine(isWallClock, "Enter a real date and time."),
     notifiedBy: z
       .string({ error: "Enter who made the notification." })
       .trim()

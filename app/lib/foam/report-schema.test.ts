@@ -56,3 +56,18 @@ describe("the first filing attempt", () => {
     expect(result.error!.issues.some((issue) => issue.path.join(".") === "dispositions.1.sharePercent")).toBe(true);
   });
 });
+
+describe("a line that is not an object", () => {
+  it("is refused at the line, not thrown on, when the JSON API sends null or a number for it", () => {
+    const result = FiledReportSchema.safeParse({
+      kind: "incident",
+      startedAt: "2026-11-20T14:05",
+      discharges: [null, 7],
+      dispositions: [null],
+      tankReadings: [null],
+    });
+    expect(result.success).toBe(false);
+    const paths = result.error?.issues.map((issue) => issue.path.join(".")) ?? [];
+    expect(paths).toEqual(expect.arrayContaining(["discharges.0", "discharges.1", "dispositions.0", "tankReadings.0"]));
+  });
+});

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { wallClockToInstant } from "../time-zone";
+import { isWallClock, wallClockToInstant } from "../time-zone";
 import { FLOW_UNITS } from "./units";
 import {
   APPLICATION_METHODS,
@@ -48,6 +48,11 @@ const id = z.number().int().positive();
  * check looks only at values of the type it needs.
  */
 const everyCheck = { when: () => true };
+/**
+ * A line's own checks run even when its fields failed (`everyCheck`), so through the JSON API they
+ * may be handed a line that is null; the object check has refused it at the line already.
+ */
+const isMissing = (line: unknown): line is null | undefined => line == null;
 const isNumber = (value: unknown): value is number => typeof value === "number" && Number.isFinite(value);
 
 /** One discharge as the totals API takes it. */
@@ -89,7 +94,7 @@ const localDateTime = (label: string) =>
   z
     .string()
     .regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2})?$/, `Enter the ${label} as a date and time.`)
-    .refine((value) => !Number.isNaN(Date.parse(`${value}Z`)), `Enter a real date and time for the ${label}.`)
+    .refine(isWallClock, `Enter a real date and time for the ${label}.`)
     .optional();
 
 /**
@@ -155,6 +160,7 @@ export const DischargeLineSchema = z
     heldUseReason: text(500, "reason for using foam held for disposal"),
   })
   .superRefine((line, ctx) => {
+    if (isMissing(line)) return;
     mutualAidIssues(line).forEach((issue) => ctx.addIssue({ code: "custom", ...issue }));
     if (line.productId && line.percent == null) {
       ctx.addIssue({ code: "custom", path: ["percent"], message: "Enter the percent for a foam line." });
@@ -191,6 +197,7 @@ export const DispositionLineSchema = z
     sewerNotice: text(200, "treatment-works notice"),
   })
   .superRefine((line, ctx) => {
+    if (isMissing(line)) return;
     if (line.sharePercent == null && line.volumeGal == null) {
       ctx.addIssue({ code: "custom", path: ["sharePercent"], message: "Enter a share in % or a volume in gallons." });
     }
@@ -229,6 +236,7 @@ export const TankReadingLineSchema = z
     levelAfterGal: optionalNonNegative("level after", 100_000),
   })
   .superRefine((line, ctx) => {
+    if (isMissing(line)) return;
     const levels = isNumber(line.levelBeforeGal) && isNumber(line.levelAfterGal);
     if (line.refillGal == null && !levels) {
       ctx.addIssue({ code: "custom", path: ["refillGal"], message: "Enter the refill amount, or both tank levels." });

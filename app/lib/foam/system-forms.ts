@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { isWallClock } from "../time-zone";
 import { AccuracyTestInputSchema, MAX_CALIBRATION_POINTS, type AccuracyTestInput } from "./accuracy-test";
 import {
   ACCURACY_TEST_METHODS,
@@ -15,7 +16,7 @@ const localDateTime = (label: string) =>
   z
     .string({ error: `Enter the ${label}.` })
     .regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2})?$/, `Enter the ${label} as a date and time.`)
-    .refine((value) => !Number.isNaN(Date.parse(`${value}Z`)), `Enter a real date and time for the ${label}.`);
+    .refine(isWallClock, `Enter a real date and time for the ${label}.`);
 
 const text = (max: number, label: string) =>
   z.string().trim().max(max, `The ${label} has at most ${max} characters.`).optional();

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { isCalendarDay } from "../time-zone";
 
 /** The longest description a request may carry. */
 export const DESCRIPTION_MAX = 4_000;
@@ -16,7 +17,7 @@ const isoDate = (label: string) =>
     .string()
     .trim()
     .regex(/^\d{4}-\d{2}-\d{2}$/, `${label}: give a date as YYYY-MM-DD.`)
-    .refine((text) => !Number.isNaN(new Date(`${text}T00:00:00Z`).getTime()), `${label}: not a real date.`)
+    .refine(isCalendarDay, `${label}: not a real date.`)
     .optional();
 
 const coordinate = (min: number, max: number, label: string) =>

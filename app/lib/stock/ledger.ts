@@ -193,7 +193,8 @@ function takenByEvent(
   return taken;
 }
 
-function quantityError(gal: number): string | null {
+/** Why a movement of `gal` cannot be booked, or null when it can. */
+export function quantityError(gal: number): string | null {
   if (!Number.isFinite(gal)) return "Enter the quantity in gallons as a number.";
   if (gal <= 0) return "Enter a quantity of more than 0 gallons.";
   if (gal > MAX_MOVEMENT_GAL) return `A movement is at most ${MAX_MOVEMENT_GAL.toLocaleString("en-US")} gallons.`;

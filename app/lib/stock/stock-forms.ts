@@ -3,6 +3,7 @@
 import { z } from "zod";
 import { STOCK_CONTAINERS, STOCK_LOCATION_KINDS, STOCK_MOVEMENT_KINDS } from "../foam/vocabulary";
 import { MAX_RECORD_ID, recordIdOf } from "../record-id";
+import { isCalendarDay, isWallClock } from "../time-zone";
 import { MAX_MOVEMENT_GAL } from "./ledger";
 
 const id = (what: string) =>
@@ -25,13 +26,13 @@ const isoDay = (label: string) =>
   z
     .string({ error: `Enter the ${label} as a date.` })
     .regex(/^\d{4}-\d{2}-\d{2}$/, `Enter the ${label} as a date (YYYY-MM-DD).`)
-    .refine((value) => !Number.isNaN(Date.parse(`${value}T00:00:00Z`)), `Enter a real date for the ${label}.`);
+    .refine(isCalendarDay, `Enter a real date for the ${label}.`);
 
 const wallClock = (label: string) =>
   z
     .string({ error: `Enter the ${label} as a date and time.` })
     .regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/, `Enter the ${label} as a date and time.`)
-    .refine((value) => !Number.isNaN(Date.parse(`${value}:00Z`)), `Enter a real date and time for the ${label}.`);
+    .refine(isWallClock, `Enter a real date and time for the ${label}.`);
 
 /** The version of the location the form was opened with (a stale one is refused). */
 const version = z.number({ error: "Reload the page and try again." }).int().positive().max(MAX_RECORD_ID);
