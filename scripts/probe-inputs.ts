@@ -891,18 +891,58 @@ async function signIn(base: string, email: string): Promise<string> {
 async function probeTargets(
   knex: Knex,
   base: string,
-  adminCookie: string,
+  cookies: Map<ProbeRole | null, string>,
   draftId: number,
   filedId: number,
-): Promise<Targets> {
+): Promise<Targets & { ownUploads: { path: string; role: ProbeRole }[] }> {
   const firstAttachment = async (subject: string) =>
     (await knex("attachments").where({ subject }).whereNull("removed_at").orderBy("id").first("id", "subject_id")) as
       { id: number; subject_id: number } | undefined;
-  const [eventAttachment, testAttachment, movementAttachment] = await Promise.all(
-    ["event", "foam_test", "stock_movement"].map(firstAttachment),
+  const ownUploads: { path: string; role: ProbeRole }[] = [];
+  // Where the seed attached nothing (its file store was down), the probe aims at a file of its own,
+  // removed again when it ends.
+  const attachmentOf = async (subject: string, role: ProbeRole, ownerId: () => Promise<number>, upload: string) => {
+    const found = await firstAttachment(subject);
+    if (found) return found;
+    const subjectId = await ownerId();
+    const id = (await attachPdf(base, cookies.get(role)!, upload.replace(":id", String(subjectId)))).id;
+    return { id, subject_id: subjectId, own: role };
+  };
+  const firstId = async (table: string) => {
+    const row = await knex(table).orderBy("id").first("id");
+    if (!row) throw new Error(`the database has no ${table}: seed the demo data first`);
+    return row.id as number;
+  };
+  const eventAttachment = await attachmentOf("event", "officer", async () => draftId, "/api/events/:id/attachments");
+  const testAttachment = await attachmentOf(
+    "foam_test",
+    "chief",
+    () => firstId("foam_accuracy_tests"),
+    "/api/foam-tests/:id/attachments",
   );
-  if (!eventAttachment || !testAttachment || !movementAttachment) {
-    throw new Error("the demo's attachments on events, accuracy tests and stock movements are missing: seed first");
+  const movementAttachment = await attachmentOf(
+    "stock_movement",
+    "environmental",
+    // Only a disposal takes a file (the hauler's manifest).
+    async () => {
+      const row = await knex("stock_movements").where({ kind: "disposed" }).orderBy("id").first("id");
+      if (!row) throw new Error("the database has no disposal in its stock book: seed the demo data first");
+      return row.id as number;
+    },
+    "/api/stock/movements/:id/attachments",
+  );
+  if ("own" in eventAttachment) ownUploads.push({ path: `/attachments/${eventAttachment.id}`, role: "officer" });
+  if ("own" in testAttachment) {
+    ownUploads.push({
+      path: `/foam-tests/${testAttachment.subject_id}/attachments/${testAttachment.id}`,
+      role: "chief",
+    });
+  }
+  if ("own" in movementAttachment) {
+    ownUploads.push({
+      path: `/stock/movements/${movementAttachment.subject_id}/attachments/${movementAttachment.id}`,
+      role: "environmental",
+    });
   }
   const test = await knex("foam_accuracy_tests").where({ id: testAttachment.subject_id }).first("foam_system_id");
   const system = await knex("foam_systems").where({ id: test.foam_system_id }).first("id", "apparatus_id");
@@ -913,7 +953,8 @@ async function probeTargets(
     (await knex("attachments")
       .where({ subject: "records_request", subject_id: request.id })
       .whereNull("removed_at")
-      .first("id")) ?? (await attachToRecordsRequest(base, adminCookie, request.id));
+      .first("id")) ??
+    (await attachPdf(base, cookies.get("admin")!, `/api/records-requests/${request.id}/attachments`));
   return {
     draftId,
     filedId,
@@ -928,6 +969,7 @@ async function probeTargets(
       movement: movementAttachment.id,
       recordsRequest: requestAttachment.id,
     },
+    ownUploads,
   };
 }
 
@@ -952,16 +994,12 @@ async function fileRecordsRequest(knex: Knex, base: string): Promise<{ id: numbe
   return request;
 }
 
-/** A one-page PDF of the probe's own on its own request, for the remove endpoint to aim at. */
-async function attachToRecordsRequest(base: string, adminCookie: string, requestId: number): Promise<{ id: number }> {
+/** Attaches a one-page PDF of the probe's own, for a remove endpoint to aim at. */
+async function attachPdf(base: string, cookie: string, path: string): Promise<{ id: number }> {
   const upload = new FormData();
   upload.append("file", new File([MINIMAL_PDF], "probe.pdf", { type: "application/pdf" }));
-  const attached = await fetch(`${base}/api/records-requests/${requestId}/attachments`, {
-    method: "POST",
-    headers: { Cookie: adminCookie },
-    body: upload,
-  });
-  if (attached.status !== 201) throw new Error(`could not attach to the probe's records request (${attached.status})`);
+  const attached = await fetch(`${base}${path}`, { method: "POST", headers: { Cookie: cookie }, body: upload });
+  if (attached.status !== 201) throw new Error(`could not attach the probe's file at ${path} (${attached.status})`);
   return (await attached.json()) as { id: number };
 }
 
@@ -1034,7 +1072,7 @@ export async function probeInputs(options: {
     if (!draftId) throw new Error(`could not save the probe's draft (${draft.status})`);
     const filed = await knex("events").where({ status: "filed" }).first("id");
     if (!filed) throw new Error("the database has no filed report to review: seed the demo data first");
-    const targets = await probeTargets(knex, options.base, cookies.get("admin")!, draftId, filed.id);
+    const targets = await probeTargets(knex, options.base, cookies, draftId, filed.id);
 
     const summaries: ProbeSummary[] = [];
     const batches: { label: string; requests: ProbeRequest[] }[] = endpoints(targets).map((endpoint, position) => ({
@@ -1095,6 +1133,13 @@ export async function probeInputs(options: {
           `  5xx: ${summary.serverErrors.length}  rows left by refusals: ${summary.partialRows.length}`,
       );
       summaries.push(summary);
+    }
+    for (const { path, role } of targets.ownUploads) {
+      await fetch(`${options.base}${path}`, {
+        method: "POST",
+        headers: { Cookie: cookies.get(role)!, "Content-Type": "application/x-www-form-urlencoded" },
+        body: "intent=remove",
+      });
     }
     const halfWritten = await halfWrittenReports(knex);
     if (halfWritten > 0) {
