@@ -48,9 +48,22 @@ export function sessionCookie() {
   return cookie;
 }
 
+// The data versions (`data_versions`, see app/models/data-version.server.ts) ride along with the
+// session's query, so a read that keeps answers per version spends no round trip of its own on them.
+const dataVersionsOfRequests = new WeakMap<Request, string>();
+
+/**
+ * The `name:stamp` list of data versions read in the same query as this request's session, or
+ * undefined when no session was read for it (no cookie, a bearer token, an ended session).
+ */
+export function dataVersionsReadWithSession(request: Request): string | undefined {
+  return dataVersionsOfRequests.get(request);
+}
+
 /**
  * The person a request's session cookie names, with their roles, in one query (session, person
- * and roles together); null for no cookie, a bad signature, or an ended or expired session.
+ * and roles together, and the data versions beside them); null for no cookie, a bad signature, or
+ * an ended or expired session.
  */
 export async function sessionPersonRow(request: Request): Promise<{
   id: number;
@@ -59,6 +72,7 @@ export async function sessionPersonRow(request: Request): Promise<{
   station_id: number | null;
   active: number | boolean;
   roles: string | null;
+  data_versions: string | null;
 } | null> {
   const id = await sessionCookie().parse(request.headers.get("Cookie"));
   if (typeof id !== "string" || id === "") return null;
@@ -75,8 +89,11 @@ export async function sessionPersonRow(request: Request): Promise<{
       "u.station_id",
       "u.active",
       db.raw("GROUP_CONCAT(r.role ORDER BY r.role) AS roles"),
+      db.raw("(SELECT GROUP_CONCAT(name, ':', stamp) FROM data_versions) AS data_versions"),
     );
-  return row ?? null;
+  if (!row) return null;
+  dataVersionsOfRequests.set(request, String(row.data_versions ?? ""));
+  return row;
 }
 
 let storage: ReturnType<typeof createSessionStorage<SessionData, SessionFlash>> | undefined;

@@ -23,9 +23,20 @@ export async function bumpDataVersion(connection: Connection, kind: DataKind): P
   );
 }
 
-/** The current stamp of each kind, in one query; a kind without a row is `null` (nothing is kept). */
-export async function currentDataVersions(connection: Connection): Promise<Record<DataKind, string | null>> {
-  const rows: { name: string; stamp: string }[] = await connection("data_versions").select("name", "stamp");
-  const stamps = new Map(rows.map((row) => [row.name, row.stamp]));
+export type DataVersions = Record<DataKind, string | null>;
+
+function versionsOf(stamps: Map<string, string>): DataVersions {
   return { reports: stamps.get("reports") ?? null, catalogue: stamps.get("catalogue") ?? null };
+}
+
+/** The current stamp of each kind, in one query; a kind without a row is `null` (nothing is kept). */
+export async function currentDataVersions(connection: Connection): Promise<DataVersions> {
+  const rows: { name: string; stamp: string }[] = await connection("data_versions").select("name", "stamp");
+  return versionsOf(new Map(rows.map((row) => [row.name, row.stamp])));
+}
+
+/** Reads `GROUP_CONCAT(name, ':', stamp)` of `data_versions` (names and UUID stamps hold neither `:` nor `,`). */
+export function parseDataVersions(list: string): DataVersions {
+  const pairs = list === "" ? [] : list.split(",").map((pair) => pair.split(":") as [string, string]);
+  return versionsOf(new Map(pairs));
 }

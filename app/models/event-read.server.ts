@@ -25,7 +25,7 @@ import { agencySettingsAt, readAgencySettings } from "./agency-settings.server";
 import { usedFoamClass } from "./catalogue.server";
 import { checksOfRow } from "./geography.server";
 import { VersionedCache } from "~/lib/versioned-cache";
-import { currentDataVersions } from "./data-version.server";
+import type { DataVersions } from "./data-version.server";
 
 export function apiVolume(gallons: number): Volume {
   const volume = volumeFromGallons(gallons);
@@ -560,8 +560,8 @@ function listTotalsKey(user: SessionUser, filters: EventFilters, timeZone: strin
   return JSON.stringify([user.id, timeZone, selection]);
 }
 
-export async function listEvents(user: SessionUser, filters: EventFilters): Promise<EventPage> {
-  const versions = await currentDataVersions(db);
+/** A page of the list; `versions` are the data versions its kept count and totals are checked against. */
+export async function listEvents(user: SessionUser, filters: EventFilters, versions: DataVersions): Promise<EventPage> {
   const { timeZone } = await agencySettingsAt(versions.catalogue);
   const [rows, totals] = await Promise.all([
     filteredEvents(user, filters, timeZone)

@@ -3,8 +3,8 @@ import { computeUsage, type DischargeInput, type UsageResult } from "~/lib/foam/
 import { VersionedCache } from "~/lib/versioned-cache";
 import { readAgencySettings } from "./agency-settings.server";
 import { allCatalogueFacts } from "./catalogue.server";
-import { currentDataVersions } from "./data-version.server";
 import { foamSystemFactsMap } from "./foam-system-facts.server";
+import { dataVersionsForRead } from "./read-versions.server";
 
 type KeptFacts = Awaited<ReturnType<typeof allCatalogueFacts>> & {
   foamSystems: Awaited<ReturnType<typeof foamSystemFactsMap>>;
@@ -16,10 +16,11 @@ const keptFacts = new VersionedCache<KeptFacts>(1);
 /**
  * Every product's and apparatus's facts and the drawdown tolerance, kept in this process while
  * the catalogue's version stamp is unchanged (any save of a product, apparatus, foam system, station or the
- * settings on any server gives it a new one). One small query per call checks the stamp.
+ * settings on any server gives it a new one), checked against the stamp read with the request's
+ * session.
  */
-export async function catalogueFactsKept(): Promise<KeptFacts> {
-  const { catalogue } = await currentDataVersions(db);
+export async function catalogueFactsKept(request: Request): Promise<KeptFacts> {
+  const { catalogue } = await dataVersionsForRead(request);
   return keptFacts.get("catalogue", catalogue, async () => {
     const [facts, settings, foamSystems] = await Promise.all([
       allCatalogueFacts(db),
@@ -35,8 +36,8 @@ export async function catalogueFactsKept(): Promise<KeptFacts> {
  * form's live totals, `POST /api/totals`), from the kept catalogue facts. Saves never use it: they
  * read the facts inside their own transaction.
  */
-export async function computeWithKeptFacts(inputs: DischargeInput[]): Promise<UsageResult> {
-  const facts = await catalogueFactsKept();
+export async function computeWithKeptFacts(request: Request, inputs: DischargeInput[]): Promise<UsageResult> {
+  const facts = await catalogueFactsKept(request);
   return computeUsage(inputs, {
     products: facts.products,
     apparatus: facts.apparatus,

@@ -1,6 +1,4 @@
 import { createHash } from "node:crypto";
-import { promisify } from "node:util";
-import { gzip } from "node:zlib";
 import type { Knex } from "knex";
 import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db } from "~/lib/db.server";
@@ -15,10 +13,12 @@ import {
 import type { GeographyChecks } from "~/lib/geo/checks";
 import type { MapFilters } from "~/lib/geo/map-filters";
 import { startOfLocalDay } from "~/lib/time-zone";
+import { PiecewiseGzip } from "~/lib/piecewise-gzip.server";
 import { VersionedCache } from "~/lib/versioned-cache";
 import { agencySettingsAt } from "./agency-settings.server";
 import { usedFoamClass } from "./catalogue.server";
-import { currentDataVersions } from "./data-version.server";
+import type { DataVersions } from "./data-version.server";
+import { dataVersionsForRead } from "./read-versions.server";
 
 /** Reports still in draft are the officer's work in progress and stay off the map and totals. */
 const MAPPED_STATUSES = ["filed", "returned", "accepted"];
@@ -367,13 +367,12 @@ export async function usageSummary(filters: MapFilters, timeZone: string): Promi
 // Kept answers: the map's events and summaries change only when reports or the catalogue do, so
 // each is computed once per filter and data version, on each server, and kept (the events gzipped).
 
-const gzipAsync = promisify(gzip);
-
-type DataVersions = Awaited<ReturnType<typeof currentDataVersions>>;
-
-/** What every map read starts from, in one query: the data versions, and the agency's time zone kept per catalogue version. */
-export async function mapReadState(): Promise<{ versions: DataVersions; timeZone: string }> {
-  const versions = await currentDataVersions(db);
+/**
+ * What every map read starts from: the data versions (read with the session), and the agency's
+ * time zone kept per catalogue version.
+ */
+export async function mapReadState(request: Request): Promise<{ versions: DataVersions; timeZone: string }> {
+  const versions = await dataVersionsForRead(request);
   const { timeZone } = await agencySettingsAt(versions.catalogue);
   return { versions, timeZone };
 }
@@ -398,6 +397,29 @@ function filtersKey(filters: MapFilters, extra = ""): string {
 
 export type MapEventsBody = { etag: string | null; gzipped: Buffer };
 
+// Compressed pieces of the map's events, kept by content across filters and versions: after a
+// report changes, only the pieces that hold changed events are compressed again.
+const mapEventPieces = new PiecewiseGzip(32 * 1024 * 1024);
+
+/**
+ * `JSON.stringify(collection)` cut into pieces. A piece ends after an event whose id falls on a
+ * boundary (about one in 64 by a hash of the id), not after a count, so an event added or removed
+ * changes only its own piece, wherever it sorts.
+ */
+export function geoJsonPieces(collection: MapEventCollection): string[] {
+  const pieces = ['{"type":"FeatureCollection","features":['];
+  let piece: string[] = [];
+  collection.features.forEach((feature, index) => {
+    piece.push((index === 0 ? "" : ",") + JSON.stringify(feature));
+    if (Math.imul(feature.properties.id, 0x9e3779b1) >>> 26 === 0) {
+      pieces.push(piece.join(""));
+      piece = [];
+    }
+  });
+  pieces.push(piece.join(""), "]}");
+  return pieces;
+}
+
 const keptMapEvents = new VersionedCache<MapEventsBody>(24);
 
 /**
@@ -409,7 +431,7 @@ export async function mapEventsBody(filters: MapFilters, versions: DataVersions)
   const version = mapDataVersion(versions);
   const key = filtersKey(filters);
   return keptMapEvents.get(key, version, async () => {
-    const gzipped = await gzipAsync(Buffer.from(JSON.stringify(await mapEvents(filters)), "utf8"));
+    const gzipped = await mapEventPieces.gzip(geoJsonPieces(await mapEvents(filters)));
     const tag = createHash("sha256")
       .update(`${version ?? "unversioned"} ${key}`)
       .digest("base64url")

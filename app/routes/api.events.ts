@@ -2,6 +2,7 @@ import type { Route } from "./+types/api.events";
 import { requireCapability } from "~/lib/access.server";
 import { apiError } from "~/lib/http.server";
 import { apiVolume, listEvents, parseEventFilters } from "~/models/event-read.server";
+import { dataVersionsForRead } from "~/models/read-versions.server";
 import { handleReportApi } from "~/models/report-form.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -9,7 +10,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const url = new URL(request.url);
   const { filters, errors } = parseEventFilters(url.searchParams);
   if (Object.keys(errors).length) apiError(400, "Some filters cannot be used.", { errors });
-  const page = await listEvents(user, filters);
+  const page = await listEvents(user, filters, await dataVersionsForRead(request));
   return Response.json({
     page: filters.page,
     pageSize: filters.pageSize,

@@ -8,7 +8,7 @@ import { mapEventsBody, mapReadState } from "~/models/usage-map.server";
 /** GET /api/map/events.geojson?from=&to=&bbox=&class=&kind=&station= — filed events with their totals. */
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCapability(request, "usage.map");
-  const { versions, timeZone } = await mapReadState();
+  const { versions, timeZone } = await mapReadState(request);
   const parsed = parseMapFilters(new URL(request.url).searchParams, timeZone);
   if (!parsed.ok) apiError(400, parsed.message, { errors: { [parsed.field]: [parsed.message] } });
   const body = await mapEventsBody(parsed.filters, versions);

@@ -20,6 +20,7 @@ export async function action({ request }: Route.ActionArgs) {
     return Response.json({ error: "Some values cannot be used.", errors: fieldErrors(parsed.error) }, { status: 400 });
   }
   const usage = await computeWithKeptFacts(
+    request,
     parsed.data.discharges.map((line) => ({
       ...line,
       percent: line.percent ?? null,

@@ -16,13 +16,17 @@ import {
 import { can } from "~/lib/access";
 import { listStationOptions } from "~/models/catalogue.server";
 import { listEvents, parseEventFilters, type SortKey } from "~/models/event-read.server";
+import { dataVersionsForRead } from "~/models/read-versions.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Events · Foamtally" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "report.read");
   const { filters, errors } = parseEventFilters(new URL(request.url).searchParams);
-  const [page, stations] = await Promise.all([listEvents(user, filters), listStationOptions()]);
+  const [page, stations] = await Promise.all([
+    listEvents(user, filters, await dataVersionsForRead(request)),
+    listStationOptions(),
+  ]);
   return { ...page, filters, errors, stations, canFile: can(user, "report.create") };
 }
 

@@ -40,7 +40,7 @@ function defaultRange(timeZone: string) {
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCapability(request, "usage.map");
-  const { versions, timeZone } = await mapReadState();
+  const { versions, timeZone } = await mapReadState(request);
   const params = new URL(request.url).searchParams;
   const range = defaultRange(timeZone);
   if (!params.get("from")) params.set("from", range.from);

@@ -301,6 +301,24 @@ describe("GET /api/map/events.geojson", () => {
     expect(await afterWrite.text()).toBe(plainText);
   });
 
+  it("sends an event's new address after its report changes, the rest of the body as it was", async () => {
+    const before = await ((await load(PERIOD)) as Response).text();
+    const row = await db("events").where({ id: ids.onPond }).first("address");
+    try {
+      await db("events").where({ id: ids.onPond }).update({ address: "1 Changed Lane, Alder Bend (demo)" });
+      await bumpDataVersion(db, "reports");
+      const after = await ((await load(PERIOD)) as Response).text();
+      const expected = JSON.parse(before) as { features: { properties: { id: number; address: string } }[] };
+      for (const feature of expected.features) {
+        if (feature.properties.id === ids.onPond) feature.properties.address = "1 Changed Lane, Alder Bend (demo)";
+      }
+      expect(after).toBe(JSON.stringify(expected));
+    } finally {
+      await db("events").where({ id: ids.onPond }).update({ address: row.address });
+      await bumpDataVersion(db, "reports");
+    }
+  });
+
   it("filters by foam class, kind and bounding box", async () => {
     const ofQuery = async (query: string) =>
       (

@@ -6,6 +6,7 @@ import { currentDataVersions } from "~/models/data-version.server";
 import { listTotals, parseEventFilters } from "~/models/event-read.server";
 import { computeForInputs } from "~/models/event.server";
 import { saveProduct } from "~/models/product.server";
+import { dataVersionsForRead } from "~/models/read-versions.server";
 import { loader as eventsApiLoader } from "~/routes/api.events";
 import { action as totalsAction } from "~/routes/api.totals";
 import { makeUser, TEST_PASSWORD } from "../support/factories";
@@ -105,5 +106,38 @@ describe("POST /api/totals with the catalogue facts kept", () => {
     const after = await post();
     // A Class A product at 3 % and 6 % is outside the Class A range: the warnings change with the class.
     expect(after.discharges.map((line) => line.warnings)).not.toEqual(before.discharges.map((line) => line.warnings));
+  });
+});
+
+describe("the data versions read with the session", () => {
+  // Every statement the app sends through the one Knex instance, while `run` runs.
+  const statementsDuring = async (run: () => Promise<unknown>) => {
+    const statements: string[] = [];
+    const record = (query: { sql: string }) => statements.push(query.sql);
+    db.on("query", record);
+    try {
+      await run();
+    } finally {
+      db.off("query", record);
+    }
+    return statements;
+  };
+
+  it("spare a page of /api/events its own version query", async () => {
+    const statements = await statementsDuring(() => page(1));
+    expect(statements.filter((sql) => sql.includes("data_versions"))).toHaveLength(1);
+    expect(statements.find((sql) => sql.includes("data_versions"))).toContain("`sessions`");
+  });
+
+  it("are the stamps a separate query reads", async () => {
+    const request = getRequest(`/api/events?${QUERY}`, { Cookie: cookie });
+    await eventsApiLoader(routeArgs(request));
+    expect(await dataVersionsForRead(request)).toEqual(await currentDataVersions(db));
+  });
+
+  it("are read afresh for a request that brought no session", async () => {
+    const statements = await statementsDuring(() => dataVersionsForRead(getRequest("/api/events")));
+    expect(statements).toHaveLength(1);
+    expect(statements[0]).toContain("data_versions");
   });
 });
