@@ -1,4 +1,4 @@
-import { gunzipSync } from "node:zlib";
+import { gunzipSync, gzipSync } from "node:zlib";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { PiecewiseGzip } from "./piecewise-gzip.server";
@@ -22,15 +22,24 @@ describe("PiecewiseGzip", () => {
     expect(body.length).toBeLessThan(pieces.join("").length / 50);
   });
 
-  it("compresses only the pieces it has not kept", async () => {
+  it("compresses only the pieces it has not kept and the ones that follow a changed piece", async () => {
     const gzip = new PiecewiseGzip(1_000_000);
     const pieces = Array.from({ length: 20 }, (_, index) => `feature ${index} `.repeat(200));
     await gzip.gzip(pieces);
     expect(gzip.compressedPieces).toBe(20);
     const changed = [...pieces.slice(0, 7), "a changed feature", ...pieces.slice(8)];
     const body = await gzip.gzip(changed);
-    expect(gzip.compressedPieces).toBe(21);
+    expect(gzip.compressedPieces).toBe(22);
     expect(gunzipSync(body).toString("utf8")).toBe(changed.join(""));
+  });
+
+  it("lets a piece refer back into the piece before it, at nearly the size of one whole gzip", async () => {
+    // Each piece alone repeats nothing; together they repeat one another.
+    const shared = Array.from({ length: 400 }, (_, index) => `"line ${(index * 7919) % 10007}"`).join(",");
+    const pieces = Array.from({ length: 10 }, (_, index) => `[${index},${shared}],`);
+    const body = await new PiecewiseGzip(1_000_000).gzip(pieces);
+    expect(gunzipSync(body).toString("utf8")).toBe(pieces.join(""));
+    expect(body.length).toBeLessThan(gzipSync(pieces.join("")).length * 1.1);
   });
 
   it("keeps no more compressed bytes than its budget, oldest out first", async () => {

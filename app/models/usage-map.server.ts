@@ -398,8 +398,9 @@ function filtersKey(filters: MapFilters, extra = ""): string {
 export type MapEventsBody = { etag: string | null; gzipped: Buffer };
 
 // Compressed pieces of the map's events, kept by content across filters and versions: after a
-// report changes, only the pieces that hold changed events are compressed again.
-const mapEventPieces = new PiecewiseGzip(32 * 1024 * 1024);
+// report changes, only the pieces that hold changed events (and the pieces after them) are
+// compressed again. So few are compressed at a time that the slowest, smallest level is worth it.
+const mapEventPieces = new PiecewiseGzip(32 * 1024 * 1024, 9);
 
 /**
  * `JSON.stringify(collection)` cut into pieces. A piece ends after an event whose id falls on a
