@@ -409,15 +409,20 @@ const mapEventPieces = new PiecewiseGzip(32 * 1024 * 1024, 9);
  */
 export function geoJsonPieces(collection: MapEventCollection): string[] {
   const pieces = ['{"type":"FeatureCollection","features":['];
-  let piece: string[] = [];
-  collection.features.forEach((feature, index) => {
-    piece.push((index === 0 ? "" : ",") + JSON.stringify(feature));
-    if (Math.imul(feature.properties.id, 0x9e3779b1) >>> 26 === 0) {
-      pieces.push(piece.join(""));
-      piece = [];
-    }
+  const { features } = collection;
+  let start = 0;
+  const cut = (end: number) => {
+    if (end === start) return;
+    // One JSON.stringify per piece, its brackets dropped: much quicker than one per feature.
+    const text = JSON.stringify(features.slice(start, end));
+    pieces.push((start === 0 ? "" : ",") + text.slice(1, -1));
+    start = end;
+  };
+  features.forEach((feature, index) => {
+    if (Math.imul(feature.properties.id, 0x9e3779b1) >>> 26 === 0) cut(index + 1);
   });
-  pieces.push(piece.join(""), "]}");
+  cut(features.length);
+  pieces.push("]}");
   return pieces;
 }
 
