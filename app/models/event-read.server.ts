@@ -560,21 +560,41 @@ function listTotalsKey(user: SessionUser, filters: EventFilters, timeZone: strin
   return JSON.stringify([user.id, timeZone, selection]);
 }
 
-/** A page of the list; `versions` are the data versions its kept count and totals are checked against. */
+// A page's rows change when reports do, and its station codes when the catalogue does: kept per
+// person and page while both stamps stand, so a list many people have open is read once per change.
+// Pages of up to 100 rows only, so what is kept stays within a few megabytes.
+const keptListPages = new VersionedCache<readonly EventListItem[]>(200);
+const KEPT_PAGE_ROWS = 100;
+
+async function listPage(user: SessionUser, filters: EventFilters, timeZone: string): Promise<EventListItem[]> {
+  const rows = await filteredEvents(user, filters, timeZone)
+    .select(...LIST_COLUMNS)
+    .orderBy(SORTABLE[filters.sort], filters.direction)
+    .orderBy("events.id", filters.direction)
+    .limit(filters.pageSize)
+    .offset((filters.page - 1) * filters.pageSize);
+  return rows.map((row: Record<string, unknown>) => listItem(row, timeZone));
+}
+
+/**
+ * A page of the list; `versions` are the data versions its kept rows, count and totals are checked
+ * against. The items may be shared with other requests: read them, do not change them.
+ */
 export async function listEvents(user: SessionUser, filters: EventFilters, versions: DataVersions): Promise<EventPage> {
   const { timeZone } = await agencySettingsAt(versions.catalogue);
-  const [rows, totals] = await Promise.all([
-    filteredEvents(user, filters, timeZone)
-      .select(...LIST_COLUMNS)
-      .orderBy(SORTABLE[filters.sort], filters.direction)
-      .orderBy("events.id", filters.direction)
-      .limit(filters.pageSize)
-      .offset((filters.page - 1) * filters.pageSize),
+  const pageVersion =
+    versions.reports && versions.catalogue && filters.pageSize <= KEPT_PAGE_ROWS
+      ? `${versions.reports}`
+      : null;
+  const [items, totals] = await Promise.all([
+    keptListPages.get(JSON.stringify([user.id, timeZone, filters]), pageVersion, () =>
+      listPage(user, filters, timeZone),
+    ),
     keptListTotals.get(listTotalsKey(user, filters, timeZone), versions.reports, () =>
       listTotals(user, filters, timeZone),
     ),
   ]);
-  return { items: rows.map((row: Record<string, unknown>) => listItem(row, timeZone)), ...totals };
+  return { items: [...items], ...totals };
 }
 
 /** Every event the filters select, streamed in the list's order (for CSV downloads). */

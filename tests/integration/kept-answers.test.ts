@@ -5,6 +5,7 @@ import type { SessionUser } from "~/lib/auth.server";
 import { currentDataVersions } from "~/models/data-version.server";
 import { listTotals, parseEventFilters } from "~/models/event-read.server";
 import { computeForInputs } from "~/models/event.server";
+import { saveStation } from "~/models/apparatus.server";
 import { saveProduct } from "~/models/product.server";
 import { dataVersionsForRead } from "~/models/read-versions.server";
 import { loader as eventsApiLoader } from "~/routes/api.events";
@@ -12,7 +13,7 @@ import { action as totalsAction } from "~/routes/api.totals";
 import { makeUser, TEST_PASSWORD } from "../support/factories";
 import { getRequest, jsonRequest, routeArgs } from "../support/requests";
 import { signIn } from "../support/session";
-import { ensureAgency, makeEvent, makeProduct } from "../support/usage-fixtures";
+import { ensureAgency, makeEvent, makeProduct, makeStation } from "../support/usage-fixtures";
 
 // Answers kept in memory (list totals, /api/totals' catalogue facts) must equal what the
 // straightforward queries give, and be recomputed after any write of the data they came from.
@@ -68,6 +69,47 @@ describe("GET /api/events with its totals kept per filter and data version", () 
     const after = await page(1);
     expect(after.count).toBe(before.count + 1);
     expect(after.totals.water.gal).toBeCloseTo(before.totals.water.gal + 1000, 6);
+  });
+});
+
+describe("GET /api/events with its page kept per person, filter and data versions", () => {
+  const STATION_QUERY = "from=2044-03-01&to=2044-03-31&size=5";
+  const stationPage = async () =>
+    (await (
+      (await eventsApiLoader(routeArgs(getRequest(`/api/events?${STATION_QUERY}`, { Cookie: cookie })))) as Response
+    ).json()) as { items: { id: number; station: string | null; totals: { water: { gal: number } } }[] };
+
+  it("shows a report written after the page was kept, and a station's new code", async () => {
+    const { id: stationId } = await makeStation();
+    const { id: first } = await makeEvent({
+      createdBy: officer.id,
+      stationId,
+      startedAt: new Date(Date.UTC(2044, 2, 3, 15)),
+      discharges: [{ productId, percent: 3, water: 250, concentrate: 7.5 }],
+    });
+    const kept = await stationPage();
+    expect(kept.items.map((item) => item.id)).toEqual([first]);
+    expect(await stationPage()).toEqual(kept);
+
+    const { id: later } = await makeEvent({
+      createdBy: officer.id,
+      stationId,
+      startedAt: new Date(Date.UTC(2044, 2, 9, 15)),
+      discharges: [{ productId, percent: 3, water: 400, concentrate: 12 }],
+    });
+    const afterReport = await stationPage();
+    expect(afterReport.items.map((item) => item.id)).toEqual([later, first]);
+    expect(afterReport.items.map((item) => item.totals.water.gal)).toEqual([400, 250]);
+
+    const station = await db("stations").where({ id: stationId }).first();
+    await saveStation(
+      stationId,
+      Number(station.version),
+      { code: `${station.code}R`, name: station.name, address: "", latitude: null, longitude: null, active: true },
+      officer,
+    );
+    const afterRename = await stationPage();
+    expect(afterRename.items.map((item) => item.station)).toEqual([`${station.code}R`, `${station.code}R`]);
   });
 });
 
