@@ -5,8 +5,13 @@ import { tasksFor } from "./role-home";
 describe("the menu and the home page follow the access table", () => {
   it("gives the administrator accounts and settings but no reports", () => {
     const menu = navFor(["admin"]).map((item) => item.to);
-    expect(menu).toEqual(["/", "/admin/users", "/admin/settings", "/apparatus"]);
+    expect(menu).toEqual(["/", "/admin/users", "/admin/settings", "/apparatus", "/records"]);
     expect(tasksFor("admin").some((task) => task.to?.startsWith("/events"))).toBe(false);
+  });
+
+  it("takes the records clerk to the public-records queue from the menu", () => {
+    expect(navFor(["records"]).map((item) => item.to)).toEqual(["/", "/events", "/records"]);
+    expect(navFor(["officer"]).map((item) => item.to)).not.toContain("/records");
   });
 
   it("links the mail outbox for the administrator where it exists, in demo mode", () => {

@@ -19,6 +19,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: "/environmental", label: "Quarterly summaries", capability: "exports.quarterly" },
   { to: "/admin/outbox", label: "Mail outbox", capability: "outbox.view", demoOnly: true },
   { to: "/stock", label: "Concentrate stock", capability: "stock.read" },
+  { to: "/records", label: "Public-records requests", capability: "records.manage" },
 ];
 
 export function navFor(roles: readonly Role[], demoMode = false): NavItem[] {
