@@ -42,7 +42,21 @@ describe("PiecewiseGzip", () => {
     expect(body.length).toBeLessThan(gzipSync(pieces.join("")).length * 1.1);
   });
 
-  it("keeps no more compressed bytes than its budget, oldest out first", async () => {
+  it("keeps a piece once for each piece it has followed, and reuses each where it fits", async () => {
+    const gzip = new PiecewiseGzip(10_000_000);
+    const [first, other, shared] = ["alpha ".repeat(9000), "omega ".repeat(9000), "shared tail text ".repeat(500)];
+    for (const pieces of [
+      [first, shared],
+      [other, shared],
+      [first, shared],
+      [other, shared],
+    ]) {
+      expect(gunzipSync(await gzip.gzip(pieces)).toString("utf8")).toBe(pieces.join(""));
+    }
+    expect(gzip.compressedPieces).toBe(4);
+  });
+
+  it("keeps no more than its budget of texts and compressed bytes, oldest out first", async () => {
     const gzip = new PiecewiseGzip(1);
     const pieces = ["first piece ".repeat(100), "second piece ".repeat(100)];
     await gzip.gzip(pieces);
