@@ -67,6 +67,11 @@ try {
         reviewer: ids.reviewer,
         status,
       });
+      // A share of the Class B lines draw the demo's PFAS-containing legacy concentrate, so that the
+      // PFAS sheet and its 24-hour check have work at size.
+      for (const discharge of spec.discharges) {
+        if (discharge.productId === ids.products.f3 && random.chance(0.5)) discharge.productId = ids.products.legacy;
+      }
       const line = spec.discharges[0];
       if (line.productId != null && random.chance(0.2)) {
         // A refill reading near the computed drawdown, as a crew would log it.
@@ -91,12 +96,21 @@ try {
     });
     if (process.stdout.isTTY) process.stdout.write(`\r${Math.min(eventCount, offset + BATCH)} / ${eventCount} events`);
   }
+  const inserted = (performance.now() - started) / 1000;
+  // The demo's drainage basins, waterways, inlets and boundary (loaded when missing), and every
+  // event's checks against them, as the demo seed does: the geography sheets then have work at size.
+  await knex.seed.run({ specific: "04_geography.ts" });
   const seconds = (performance.now() - started) / 1000;
-  const total = Number((await knex("events").count({ n: "*" }).first())!.n);
+  const count = async (query: Knex.QueryBuilder) => Number((await query.count({ n: "*" }).first())!.n);
+  const total = await count(knex("events"));
+  const pfas = await count(knex("events").where({ pfas_containing: true }));
+  const inBasins = await count(knex("events").whereNotNull("drainage_basin"));
   console.log(
     `\nInserted ${eventCount} events, ${discharges} discharges, ${dispositions} runoff dispositions and ` +
-      `${readings} tank readings into ${database} in ${seconds.toFixed(1)} s ` +
-      `(${Math.round(eventCount / seconds)} events/s). The database now holds ${total} events.`,
+      `${readings} tank readings into ${database} in ${inserted.toFixed(1)} s ` +
+      `(${Math.round(eventCount / inserted)} events/s), and checked them against the demo's drainage layers: ` +
+      `${seconds.toFixed(1)} s in all. The database now holds ${total} events, ${pfas} with PFAS-containing ` +
+      `foam and ${inBasins} inside a drainage basin.`,
   );
 } finally {
   await knex.destroy();

@@ -47,6 +47,7 @@ describe("npm run seed:large", () => {
     expect(outcome.stdout).toMatch(
       /Inserted 1203 events, \d+ discharges, \d+ runoff dispositions and \d+ tank readings/,
     );
+    expect(outcome.stdout).toMatch(/checked them against the demo's drainage layers/);
     const knex = connect(name);
     try {
       expect(Number((await knex("events").count({ n: "*" }).first())!.n)).toBe(1203);
@@ -64,6 +65,13 @@ describe("npm run seed:large", () => {
         .count({ n: "*" })
         .first();
       expect(Number(orphans!.n)).toBe(0);
+      // The PFAS and geography sheets have rows to work on: PFAS-containing lines, and events checked
+      // against the demo's layers, inside a basin and near a waterway.
+      const share = async (query: Knex.QueryBuilder) => Number((await query.count({ n: "*" }).first())!.n) / 1203;
+      expect(await share(knex("events").where({ pfas_containing: true }))).toBeGreaterThan(0.005);
+      expect(await share(knex("events").whereNotNull("geo_checked_at"))).toBe(1);
+      expect(await share(knex("events").whereNotNull("drainage_basin"))).toBeGreaterThan(0.5);
+      expect(await share(knex("events").whereNotNull("nearest_waterway"))).toBeGreaterThan(0.5);
     } finally {
       await knex.destroy();
     }
