@@ -211,6 +211,7 @@ describe("a system's records, its tolerance and the fleet", () => {
     const saved = await saveFoamSystem(
       apparatusId,
       null,
+      null,
       {
         name: "Class B around-the-pump",
         systemType: "around_the_pump",

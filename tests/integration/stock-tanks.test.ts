@@ -138,6 +138,7 @@ describe("stock in foam system tanks", () => {
       const saved = await saveFoamSystem(
         apparatusId,
         null,
+        null,
         {
           name,
           systemType: name.includes("injection") ? "direct_injection" : "around_the_pump",
