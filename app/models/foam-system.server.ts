@@ -598,9 +598,6 @@ async function fileFlushReport(
   );
 }
 
-/** Largest achieved percentage kept: beyond it the sample lies far outside the calibration. */
-const ACHIEVED_LIMIT = 1000;
-
 /**
  * Records an accuracy test with the server's computation. A failure puts the system out of
  * tolerance with its reason; a pass brings it back in service.
@@ -618,13 +615,6 @@ export async function recordAccuracyTest(
     await productExists(trx, value.productId, "productId");
     const readings = accuracyInputOf(value);
     const result = computeAccuracyTest(readings, settings.classAAccuracyShare);
-    if (!Number.isFinite(result.achievedPercent) || Math.abs(result.achievedPercent) > ACHIEVED_LIMIT) {
-      throw new RefusalError(
-        refused(400, "Check the readings.", {
-          sampleReading: ["The sample reading lies far outside the calibration mixes: check the readings."],
-        }),
-      );
-    }
     const row = {
       foam_system_id: systemId,
       tested_at: testedAt,
