@@ -1,47 +1,26 @@
 // The demo's year of concentrate stock, seeded into a database of its own: a product below its
 // reorder point, an expired lot, the legacy AR-AFFF held for disposal, and every filed report's use
 // posted once.
-import knexFactory, { type Knex } from "knex";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { currentStockConditions } from "~/models/stock-alerts.server";
 import { stockItems, tankFill } from "~/models/stock.server";
-import knexConfig from "../../knexfile";
-import { testDatabaseName } from "../support/test-database";
+import { privateDatabase } from "../support/test-database";
 
-const name = `${testDatabaseName()}_stock_seed`;
-let knex: Knex;
+const demo = privateDatabase("stock_seed");
+const knex = demo.knex;
 
-function config(database?: string): Knex.Config {
-  const connection = { ...(knexConfig.connection as Knex.MySqlConnectionConfig) };
-  if (database) connection.database = database;
-  else delete connection.database;
-  return { ...knexConfig, connection };
-}
+// The demo's order, with the foam systems whose tanks are the stock's apparatus locations.
+const SEEDS = [
+  "01_agency_and_accounts.ts",
+  "02_catalogue.ts",
+  "02_foam_systems.ts",
+  "03_events.ts",
+  "08_foam_system_records.ts",
+  "08_stock.ts",
+];
 
-beforeAll(async () => {
-  const server = knexFactory(config());
-  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await server.raw(`CREATE DATABASE \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
-  await server.destroy();
-  knex = knexFactory(config(name));
-  await knex.migrate.latest();
-  // The demo's order, with the foam systems whose tanks are the stock's apparatus locations.
-  for (const file of [
-    "01_agency_and_accounts.ts",
-    "02_catalogue.ts",
-    "02_foam_systems.ts",
-    "03_events.ts",
-    "08_foam_system_records.ts",
-    "08_stock.ts",
-  ]) {
-    await knex.seed.run({ specific: file });
-  }
-}, 180_000);
-
-afterAll(async () => {
-  await knex.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await knex.destroy();
-});
+beforeAll(() => demo.seed(SEEDS), 180_000);
+afterAll(() => demo.drop());
 
 describe("the demo stock book", () => {
   it("covers the demo year and posts each filed report's concentrate exactly once", async () => {

@@ -2,9 +2,7 @@
 // computation API, recording maintenance and tests through the system page, the out-of-tolerance
 // warning on usage lines, and the fleet API.
 import { randomUUID } from "node:crypto";
-import knexFactory from "knex";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import knexConfig from "../../knexfile";
 import { db } from "~/lib/db.server";
 import { computeForInputs } from "~/models/event.server";
 import { saveFoamSystem } from "~/models/foam-system.server";
@@ -14,29 +12,18 @@ import { action as systemAction, loader as systemLoader } from "~/routes/foam-sy
 import { makeUser, TEST_PASSWORD } from "../support/factories";
 import { formRequest, getRequest, jsonRequest, routeArgs, settle } from "../support/requests";
 import { signIn } from "../support/session";
-import { testDatabaseName } from "../support/test-database";
+import { privateDatabase } from "../support/test-database";
 import { ensureAgency, makeProduct, makeStation } from "../support/usage-fixtures";
 import { makeApparatusRow } from "../support/catalogue-factories";
 
 const MIGRATION = "20261203140001_foam_systems.ts";
 
 describe("the foam-systems migration", () => {
-  const name = `${testDatabaseName()}_systems_migration`;
-  const server = knexFactory({
-    ...knexConfig,
-    connection: { ...(knexConfig.connection as object), database: undefined },
-  });
-  const knex = knexFactory({ ...knexConfig, connection: { ...(knexConfig.connection as object), database: name } });
+  const database = privateDatabase("systems_migration");
+  const knex = database.knex;
 
-  beforeAll(async () => {
-    await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-    await server.raw(`CREATE DATABASE \`${name}\``);
-  });
-  afterAll(async () => {
-    await knex.destroy();
-    await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-    await server.destroy();
-  });
+  beforeAll(() => database.create());
+  afterAll(() => database.drop());
 
   it("gives every apparatus with proportioner figures one system carrying them, its outlets and its lines", async () => {
     const [, pending] = (await knex.migrate.list()) as [unknown[], Array<{ file: string }>];
