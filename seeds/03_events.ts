@@ -533,11 +533,12 @@ function notableEvents(ids: DemoIds, random: SeededRandom): EventSpec[] {
       createdBy: officer,
       discharges: [
         {
+          // 30 gpm at 0.5 % for 20 minutes: 3 gal, well within BR3's 5 gal tank and its 0.5 gpm proportioner.
           apparatusId: ids.apparatus.BR3,
           outlet: "Bumper nozzle",
           productId: ids.products.classA,
-          percent: 1,
-          flow: 60,
+          percent: 0.5,
+          flow: 30,
           basis: "water",
           minutes: 20,
           method: "non_aspirated",

@@ -44,7 +44,7 @@ export async function seed(knex: Knex): Promise<void> {
     await knex("foam_products").where({ foam_type: type }).update({ shelf_life_months: months });
   }
 
-  const at = (day: string) => new Date(`${day}T15:00:00Z`);
+  const at = (day: string | Date) => (day instanceof Date ? day : new Date(`${day}T15:00:00Z`));
   const locations = await knex.transaction(async (trx) => ({
     s1: await stationStoreLocation(trx, await station("S1")),
     s2: await stationStoreLocation(trx, await station("S2")),
@@ -104,7 +104,7 @@ export async function seed(knex: Knex): Promise<void> {
     to: number | null,
     productId: number,
     gal: number,
-    day: string,
+    day: string | Date,
     reason: string,
     reference = "",
     lotId: number | null = null,
@@ -141,7 +141,8 @@ export async function seed(knex: Knex): Promise<void> {
     "2010-02-01",
     "Opening balance (demo)",
   );
-  await receive(
+  // Past its shelf life by the demo year (the alerts' expired lot): the top-ups below leave it in the store.
+  const expiredLot = await receive(
     locations.s3,
     classA,
     "CA-2003-118",
@@ -181,11 +182,20 @@ export async function seed(knex: Knex): Promise<void> {
   await move("transferred", locations.s1, locations.e1, classA, 25, "2025-12-06", "Fill E1 Class A tank");
   await move("transferred", locations.s2, locations.e2, classA, 15, "2025-12-06", "Fill E2 Class A tank");
   await move("transferred", locations.s1, locations.s3, classA, 60, "2025-12-07", "Stock South Fork");
-  // E3's one system tank holds 50 gal (its catalogue figure): 10 of Class A beside 40 of F3.
-  await move("transferred", locations.s3, locations.e3, classA, 10, "2025-12-07", "Fill E3 Class A tank");
-  await move("transferred", locations.s3, locations.br3, classA, 5, "2025-12-07", "Fill BR3 Class A tank");
+  await move(
+    "transferred",
+    locations.s3,
+    locations.br3,
+    classA,
+    5,
+    "2025-12-07",
+    "Fill BR3 Class A tank",
+    "",
+    classALot,
+  );
   await move("transferred", locations.s1, locations.ft1, f3, 150, "2025-12-08", "Fill Foam Tender 1 F3 tank");
-  await move("transferred", locations.s1, locations.e3, f3, 40, "2025-12-08", "Fill E3 Class B tank");
+  // E3's one system is Class B direct injection: its 50 gal tank (the catalogue figure) holds F3 only.
+  await move("transferred", locations.s1, locations.e3, f3, 50, "2025-12-08", "Fill E3 Class B tank");
 
   // Spring delivery and the annual quality samples (NFPA 11 §13.2.6).
   await receive(locations.s1, classA, "CA-2603-045", "2026-03-01", "pail", 5, 20, "2026-04-02", "PO 26-0388 (demo)");
@@ -203,29 +213,36 @@ export async function seed(knex: Knex): Promise<void> {
   );
 
   // Every filed demo report's use and refills, as filing posts them; after each call the crew tops
-  // the apparatus tanks up from the station store where it holds enough.
+  // the apparatus tanks back up to full from the station store, as far as its sound lots go.
   const tankFills: [number, number, number, number][] = [
     [locations.e1, locations.s1, classA, 25],
     [locations.e2, locations.s2, classA, 15],
-    [locations.e3, locations.s3, classA, 10],
     [locations.br3, locations.s3, classA, 5],
-    [locations.e3, locations.s1, f3, 40],
+    [locations.e3, locations.s1, f3, 50],
     [locations.ft1, locations.s1, f3, 150],
   ];
-  const topUp = async (on: string) => {
+  const hundredthsDown = (gal: number) => Math.floor(gal * 100 + 1e-6) / 100;
+  const topUp = async (on: Date) => {
     for (const [tank, store, productId, full] of tankFills) {
       const inTank = (await stockItems({ locationId: tank, productId }, knex)).reduce(
         (sum, item) => sum + item.onHandGal,
         0,
       );
-      const inStore = (await stockItems({ locationId: store, productId }, knex))
-        .filter((item) => item.lot && item.onHandGal > 0)
-        .reduce((sum, item) => sum + item.onHandGal, 0);
       // A transfer beyond the tank's capacity is refused: fill only the room left in it.
       const fill = (await tankFill(knex)).find((row) => row.locationId === tank);
-      const room = fill?.capacityGal == null ? Infinity : Math.floor(fill.capacityGal - fill.onHandGal);
-      const wanted = Math.min(Math.round((full - inTank) * 100) / 100, Math.floor(inStore), room);
-      if (wanted >= 1) await move("transferred", store, tank, productId, wanted, on, "Top-up after the call");
+      const room = fill?.capacityGal == null ? Infinity : fill.capacityGal - fill.onHandGal;
+      // Back to full to the hundredth: a tank left short would let the next call draw past what the
+      // book holds, booked as "lot not known" below zero that no later fill offsets.
+      let wanted = hundredthsDown(Math.min(full - inTank, room));
+      const lots = (await stockItems({ locationId: store, productId }, knex)).filter(
+        (item) => item.lot && item.lot.id !== expiredLot && item.onHandGal > 0,
+      );
+      for (const item of lots) {
+        const gal = hundredthsDown(Math.min(wanted, item.onHandGal));
+        if (gal < 0.01) continue;
+        await move("transferred", store, tank, productId, gal, on, "Top-up after the call", "", item.lot!.id);
+        wanted = Math.round((wanted - gal) * 100) / 100;
+      }
     }
   };
   const events: Array<{ id: number; cleared_at: Date | null; started_at: Date }> = await knex("events")
@@ -234,8 +251,8 @@ export async function seed(knex: Knex): Promise<void> {
     .select("id", "started_at", "cleared_at");
   for (const event of events) {
     await knex.transaction((trx) => postReportStock(trx, event.id, actor));
-    const after = new Date((event.cleared_at ?? event.started_at).getTime() + 3_600_000);
-    await topUp(after.toISOString().slice(0, 10));
+    // An hour after the call cleared, so that the book never shows a tank filled before its call.
+    await topUp(new Date((event.cleared_at ?? event.started_at).getTime() + 3_600_000));
   }
 
   // The legacy AR-AFFF is held for disposal from now on; the first drums went to a licensed hauler.

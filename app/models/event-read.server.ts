@@ -20,6 +20,7 @@ import {
   type PercentOf,
 } from "~/lib/foam/vocabulary";
 import { readStoredDraft } from "~/lib/foam/report-draft.server";
+import { queryReader } from "~/lib/query-params";
 import { endOfLocalDay, instantToWallClock, startOfLocalDay } from "~/lib/time-zone";
 import { agencySettingsAt, readAgencySettings } from "./agency-settings.server";
 import { usedFoamClass } from "./catalogue.server";
@@ -390,57 +391,34 @@ export type EventFilters = {
   pageSize: number;
 };
 
+/** Pages the list goes to: far past any agency's events at 500 a page, and a bounded OFFSET. */
+const MAX_LIST_PAGE = 100_000;
+
+/**
+ * The list's filters from the query string (`queryReader`): a filter that cannot be used is left
+ * out and named in `errors`; the page shows the rest, the CSV and the API answer 400.
+ */
 export function parseEventFilters(search: URLSearchParams): { filters: EventFilters; errors: Record<string, string> } {
-  const errors: Record<string, string> = {};
-  const date = (name: string) => {
-    const value = search.get(name) ?? "";
-    if (!value) return undefined;
-    if (!/^\d{4}-\d{2}-\d{2}$/.test(value) || Number.isNaN(Date.parse(value))) {
-      errors[name] = "Use a date like 2026-03-31.";
-      return undefined;
-    }
-    return value;
-  };
-  const oneOf = <T extends string>(name: string, allowed: readonly T[]) => {
-    const value = search.get(name) ?? "";
-    if (!value) return undefined;
-    if (!allowed.includes(value as T)) {
-      errors[name] = `Use one of: ${allowed.join(", ")}.`;
-      return undefined;
-    }
-    return value as T;
-  };
-  const positiveInteger = (name: string, fallback?: number, max = Number.MAX_SAFE_INTEGER) => {
-    const value = search.get(name) ?? "";
-    if (!value) return fallback;
-    const number = Number(value);
-    if (!Number.isInteger(number) || number < 1 || number > max) {
-      errors[name] = `Use a whole number from 1 to ${max}.`;
-      return fallback;
-    }
-    return number;
-  };
-  const from = date("from");
-  const to = date("to");
-  const dispatch = (search.get("dispatch") ?? "").trim();
-  if (dispatch.length > 32) errors.dispatch = "A dispatch number has at most 32 characters.";
-  if (from && to && from > to) errors.to = "The end date is before the start date.";
+  const query = queryReader(search);
+  const from = query.day("from");
+  const to = query.day("to");
+  if (from && to && from > to) query.problems.to = "The end date is before the start date.";
   const filters: EventFilters = {
     from,
     to,
-    kind: oneOf("kind", EVENT_KINDS),
-    incidentType: oneOf("type", INCIDENT_TYPES),
-    dispatchNumber: dispatch && dispatch.length <= 32 ? dispatch : undefined,
-    status: oneOf("status", EVENT_STATUSES),
-    stationId: positiveInteger("station"),
-    foamClass: oneOf("class", FOAM_CLASSES),
+    kind: query.choice("kind", EVENT_KINDS),
+    incidentType: query.choice("type", INCIDENT_TYPES),
+    dispatchNumber: query.text("dispatch", 32, "A dispatch number"),
+    status: query.choice("status", EVENT_STATUSES),
+    stationId: query.recordId("station", "a station"),
+    foamClass: query.choice("class", FOAM_CLASSES),
     mine: search.get("mine") === "1",
-    sort: oneOf("sort", Object.keys(SORTABLE) as SortKey[]) ?? "startedAt",
-    direction: oneOf("dir", ["asc", "desc"] as const) ?? "desc",
-    page: positiveInteger("page", 1)!,
-    pageSize: positiveInteger("size", 25, 500)!,
+    sort: query.choice("sort", Object.keys(SORTABLE) as SortKey[]) ?? "startedAt",
+    direction: query.choice("dir", ["asc", "desc"] as const) ?? "desc",
+    page: query.wholeNumber("page", { max: MAX_LIST_PAGE }) ?? 1,
+    pageSize: query.wholeNumber("size", { max: 500 }) ?? 25,
   };
-  return { filters, errors };
+  return { filters, errors: query.problems };
 }
 
 /** Dates in the filters are the agency's calendar days, first and last inclusive. */

@@ -4,6 +4,7 @@ import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/apparatus.$apparatusId.foam-systems.$systemId";
 import { CheckboxField, FormErrors, SelectField, TextField } from "~/components/form-fields";
 import { requireCapability } from "~/lib/access.server";
+import { formVersion, submittedVersion } from "~/lib/catalogue/record-version";
 import { FoamSystemFormSchema } from "~/lib/foam/system-forms";
 import {
   FOAM_SYSTEM_PERCENT_OF,
@@ -48,10 +49,17 @@ export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireCapability(request, "apparatus.edit");
   const apparatusId = requireRecordId(request, params.apparatusId, "No such apparatus.");
   const systemId = systemIdOf(request, params);
-  const formData = await readFormData(request, FoamSystemFormSchema);
+  const formData = await readFormData(request, FoamSystemFormSchema, { fields: ["version"] });
   const submission = parseWithZod(formData, { schema: FoamSystemFormSchema });
   if (submission.status !== "success") return data({ result: submission.reply() }, { status: 400 });
-  const saved = await saveFoamSystem(apparatusId, systemId, submission.value, user, clientAddress(request));
+  const saved = await saveFoamSystem(
+    apparatusId,
+    systemId,
+    submittedVersion(formData),
+    submission.value,
+    user,
+    clientAddress(request),
+  );
   if ("kind" in saved) return refusalData(submission, saved);
   throw redirect(`/foam-systems/${saved.id}`, {
     headers: await flashHeaders(request, `Saved ${submission.value.name}.`),
@@ -96,6 +104,7 @@ export default function FoamSystemEditPage({ loaderData, actionData }: Route.Com
       </h1>
       <Form method="post" className="card space-y-4" {...getFormProps(form)}>
         <FormErrors id={form.errorId} errors={form.errors} />
+        {system ? <input type="hidden" name="version" value={formVersion(actionData?.result, system.version)} /> : null}
         <TextField label="Name" field={fields.name} hint="e.g. Class A direct injection, Class B around-the-pump." />
         <div className="grid gap-4 sm:grid-cols-2">
           <SelectField

@@ -14,6 +14,7 @@ import {
   incidentTypeLabel,
 } from "~/lib/foam/vocabulary";
 import { can } from "~/lib/access";
+import { ignoredFiltersNote } from "~/lib/query-params";
 import { listStationOptions } from "~/models/catalogue.server";
 import { listEvents, parseEventFilters, type SortKey } from "~/models/event-read.server";
 import { dataVersionsForRead } from "~/models/read-versions.server";
@@ -27,7 +28,10 @@ export async function loader({ request }: Route.LoaderArgs) {
     listEvents(user, filters, await dataVersionsForRead(request)),
     listStationOptions(),
   ]);
-  return { ...page, filters, errors, stations, canFile: can(user, "report.create") };
+  // Dates and the dispatch number show their problem at their fields; the rest in one note.
+  const { from: _from, to: _to, dispatch: _dispatch, ...otherErrors } = errors;
+  const filterNote = ignoredFiltersNote(otherErrors);
+  return { ...page, filters, errors, filterNote, stations, canFile: can(user, "report.create") };
 }
 
 const gal = (value: number) => value.toLocaleString("en-US", { maximumFractionDigits: 1 });
@@ -46,7 +50,7 @@ const COLUMNS: Array<{ key: SortKey; label: string; numeric?: boolean }> = [
 ];
 
 export default function Events({ loaderData }: Route.ComponentProps) {
-  const { items, count, totals, filters, errors, stations, canFile } = loaderData;
+  const { items, count, totals, filters, errors, filterNote, stations, canFile } = loaderData;
   const [search] = useSearchParams();
   const withParams = (changes: Record<string, string | undefined>) => {
     const next = new URLSearchParams(search);
@@ -74,6 +78,11 @@ export default function Events({ loaderData }: Route.ComponentProps) {
           ) : null}
         </div>
       </div>
+      {filterNote ? (
+        <p className="caution" role="note">
+          {filterNote}
+        </p>
+      ) : null}
       <Form method="get" className="card grid gap-3 sm:grid-cols-3 lg:grid-cols-5" aria-label="Filter events">
         <Filter label="From" name="from" type="date" value={filters.from} error={errors.from} />
         <Filter label="To" name="to" type="date" value={filters.to} error={errors.to} />

@@ -25,6 +25,7 @@ import {
 } from "~/lib/foam/vocabulary";
 import { mapQuery, parseMapFilters, type BoundingBox } from "~/lib/geo/map-filters";
 import { httpError } from "~/lib/http.server";
+import { ignoredFiltersNote, type QueryProblems } from "~/lib/query-params";
 import { localDateTime } from "~/lib/time-zone";
 import { listStations, mapReadState, usageSummaryKept, type UsageSummary } from "~/models/usage-map.server";
 
@@ -46,7 +47,17 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (!params.get("from")) params.set("from", range.from);
   if (!params.get("to")) params.set("to", range.to);
   params.delete("bbox");
-  const parsed = parseMapFilters(params, timeZone);
+  // A filter the page cannot use is left out (a period, for the last twelve months) and named.
+  const ignored: QueryProblems = {};
+  let parsed = parseMapFilters(params, timeZone);
+  while (!parsed.ok && !(parsed.field in ignored)) {
+    ignored[parsed.field] = parsed.message;
+    if (parsed.field === "from") {
+      params.set("from", range.from);
+      params.set("to", range.to);
+    } else params.delete(parsed.field);
+    parsed = parseMapFilters(params, timeZone);
+  }
   if (!parsed.ok) httpError(400, parsed.message);
   const { filters } = parsed;
   const [stations, summary] = await Promise.all([listStations(), usageSummaryKept(filters, timeZone, versions)]);
@@ -61,6 +72,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     stations,
     summary,
     timeZone,
+    filterNote: ignoredFiltersNote(ignored),
   };
 }
 
@@ -109,6 +121,11 @@ export default function UsageMapPage({ loaderData }: Route.ComponentProps) {
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Usage map</h1>
+      {loaderData.filterNote ? (
+        <p className="caution" role="note">
+          {loaderData.filterNote}
+        </p>
+      ) : null}
       <p className="caution">
         Figures are estimates computed from what officers entered. Circles are sized by concentrate used; a red ring
         marks PFAS-containing foam. A release at or above a reportable quantity must be reported immediately (CERCLA

@@ -2,6 +2,7 @@ import { Form, Link } from "react-router";
 import type { Route } from "./+types/records._index";
 import { requireCapability } from "~/lib/access.server";
 import { RECORDS_REQUEST_STATUS_LABELS, RECORDS_REQUEST_STATUSES } from "~/lib/foam/vocabulary";
+import { ignoredFiltersNote } from "~/lib/query-params";
 import { queueQueryOf } from "~/lib/records/queue-query";
 import { DUE_SOON_BUSINESS_DAYS } from "~/lib/records/urgency";
 import { listRecordsAssignees, listRecordsRequests } from "~/models/records-request.server";
@@ -10,9 +11,9 @@ export const meta: Route.MetaFunction = () => [{ title: "Public-records requests
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCapability(request, "records.manage");
-  const query = queueQueryOf(new URL(request.url));
+  const { query, problems } = queueQueryOf(new URL(request.url));
   const [items, assignees] = await Promise.all([listRecordsRequests(query), listRecordsAssignees()]);
-  return { items, assignees, query };
+  return { items, assignees, query, filterNote: ignoredFiltersNote(problems) };
 }
 
 const COLUMNS = [
@@ -32,7 +33,7 @@ const URGENCY_CLASS = {
 const URGENCY_LABEL = { overdue: "Overdue", "due-soon": "Due soon", "on-time": "", closed: "" };
 
 export default function RecordsQueue({ loaderData }: Route.ComponentProps) {
-  const { items, assignees, query } = loaderData;
+  const { items, assignees, query, filterNote } = loaderData;
   const link = (changes: Record<string, string | undefined>) => {
     const params = new URLSearchParams();
     const next = {
@@ -50,6 +51,11 @@ export default function RecordsQueue({ loaderData }: Route.ComponentProps) {
       <h1 id="records-queue-title" className="text-2xl font-bold">
         Public-records requests
       </h1>
+      {filterNote ? (
+        <p className="caution" role="note">
+          {filterNote}
+        </p>
+      ) : null}
       <p className="text-sm text-slate-ft">
         Due dates follow the agency’s rule in the settings. Overdue requests and those due within{" "}
         {DUE_SOON_BUSINESS_DAYS} business days are marked. The state’s public-records law and the agency’s counsel

@@ -8,7 +8,7 @@ import { requireCapability } from "~/lib/access.server";
 import { HELD_FOR_DISPOSAL_LABEL, UNKNOWN_LOT_LABEL } from "~/lib/foam/vocabulary";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError } from "~/lib/http.server";
-import { recordIdOf } from "~/lib/record-id";
+import { ignoredFiltersNote, queryReader } from "~/lib/query-params";
 import { refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { CountFormSchema } from "~/lib/stock/stock-forms";
@@ -26,12 +26,12 @@ export const meta: Route.MetaFunction = () => [{ title: "Stock count · Foamtall
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "stock.read");
-  const raw = new URL(request.url).searchParams.get("location");
-  const locationId = raw ? recordIdOf(raw) : null;
-  if (raw && locationId === null) httpError(404, "No such location.");
+  const query = queryReader(new URL(request.url).searchParams);
+  const locationId = query.recordId("location", "a location");
+  const filterNote = ignoredFiltersNote(query.problems);
   const { timeZone } = await readAgencySettings();
   const locations = await listStockLocations();
-  if (!locationId) return { location: null, locations, book: [], counts: [], now: "", canManage: false };
+  if (!locationId) return { location: null, locations, book: [], counts: [], now: "", canManage: false, filterNote };
   const location = await getStockLocation(locationId);
   if (!location) httpError(404, "No such location.");
   const [book, counts] = await Promise.all([stockItems({ locationId }), listRecentCounts(locationId)]);
@@ -42,6 +42,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     counts: counts.map((count) => ({ ...count, countedAt: localDateTime(new Date(count.countedAt), timeZone) })),
     now: instantToWallClock(new Date(), timeZone),
     canManage: can(user, "stock.manage"),
+    filterNote,
   };
 }
 
@@ -170,7 +171,7 @@ function CountForm({ location, book, now, lastResult }: CountFormProps) {
 }
 
 export default function StockCountPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { location, locations, book, counts, now, canManage } = loaderData;
+  const { location, locations, book, counts, now, canManage, filterNote } = loaderData;
   return (
     <div className="space-y-8">
       <p>
@@ -179,6 +180,11 @@ export default function StockCountPage({ loaderData, actionData }: Route.Compone
         </Link>
       </p>
       <h1 className="text-2xl font-bold">{location ? `Count ${location.name}` : "Count a location"}</h1>
+      {filterNote ? (
+        <p className="caution" role="note">
+          {filterNote}
+        </p>
+      ) : null}
       <Form method="get" className="flex flex-wrap items-end gap-3">
         <label className="field-label" htmlFor="count-location">
           Location

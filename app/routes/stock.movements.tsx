@@ -10,7 +10,7 @@ import { requireCapability } from "~/lib/access.server";
 import { STOCK_MOVEMENT_KIND_LABELS, UNKNOWN_LOT_LABEL } from "~/lib/foam/vocabulary";
 import { readFormData } from "~/lib/form-data.server";
 import { clientAddress, httpError } from "~/lib/http.server";
-import { recordIdOf } from "~/lib/record-id";
+import { ignoredFiltersNote, queryReader } from "~/lib/query-params";
 import { refusalData } from "~/lib/refusal";
 import { flashHeaders } from "~/lib/session.server";
 import { MoveFormSchema } from "~/lib/stock/stock-forms";
@@ -24,17 +24,10 @@ export const meta: Route.MetaFunction = () => [{ title: "Stock movements · Foam
 /** The page lists the newest movements; `GET /api/stock/movements` gives every one. */
 const PAGE_ROWS = 300;
 
-function locationIdOf(url: URL): number | null {
-  const raw = url.searchParams.get("location");
-  if (raw === null || raw === "") return null;
-  const id = recordIdOf(raw);
-  if (id === null) httpError(404, "No such location.");
-  return id;
-}
-
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireCapability(request, "stock.read");
-  const locationId = locationIdOf(new URL(request.url));
+  const query = queryReader(new URL(request.url).searchParams);
+  const locationId = query.recordId("location", "a location");
   const location = locationId ? await getStockLocation(locationId) : null;
   if (locationId && !location) httpError(404, "No such location.");
   const [movements, options, held, { timeZone }] = await Promise.all([
@@ -60,6 +53,7 @@ export async function loader({ request }: Route.LoaderArgs) {
       manifests: (manifests.get(movement.id) ?? []).map(({ id, name, url }) => ({ id, name, url })),
     })),
     canManage: can(user, "stock.manage"),
+    filterNote: ignoredFiltersNote(query.problems),
   };
 }
 
@@ -95,7 +89,7 @@ export async function action({ request }: Route.ActionArgs) {
 const gal = (value: number) => value.toLocaleString("en-US", { maximumFractionDigits: 2, signDisplay: "exceptZero" });
 
 export default function StockMovementsPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { location, held, options, movements, canManage, now } = loaderData;
+  const { location, held, options, movements, canManage, now, filterNote } = loaderData;
   const [form, fields] = useForm({
     id: "move",
     lastResult: actionData?.result,
@@ -114,6 +108,11 @@ export default function StockMovementsPage({ loaderData, actionData }: Route.Com
         </Link>
       </p>
       <h1 className="text-2xl font-bold">{location ? `Movements at ${location.name}` : "Stock movements"}</h1>
+      {filterNote ? (
+        <p className="caution" role="note">
+          {filterNote}
+        </p>
+      ) : null}
 
       <Form method="get" className="flex flex-wrap items-end gap-3">
         <label className="field-label" htmlFor="location-filter">

@@ -1,4 +1,3 @@
-import S3rver from "s3rver";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
@@ -11,6 +10,7 @@ import { action as stationAction } from "~/routes/stations.$stationId";
 import { makeApparatusRow, makeProductRow, makeStationRow } from "../support/catalogue-factories";
 import { makeUser, TEST_PASSWORD } from "../support/factories";
 import { formRequest, getRequest, routeArgs, settle } from "../support/requests";
+import { startFileStore } from "../support/file-store";
 import { signIn } from "../support/session";
 
 const ORIGIN = "http://127.0.0.1:3000";
@@ -40,22 +40,11 @@ const countOf = async (table: string, where: Record<string, unknown> = {}) =>
 
 const PDF_BYTES = new TextEncoder().encode("%PDF-1.4\n% test safety sheet\n1 0 obj <<>> endobj\n%%EOF\n");
 
-let s3: S3rver;
+let closeFileStore: () => Promise<void>;
 beforeAll(async () => {
-  s3 = new S3rver({
-    address: "127.0.0.1",
-    port: 0,
-    silent: true,
-    resetOnClose: true,
-    directory: `/tmp/s3-catalogue-${process.pid}`,
-  });
-  const { port } = await s3.run();
-  // The cached configuration is the one the storage module reads: point it at this test's fake.
-  env().S3_ENDPOINT = `http://127.0.0.1:${port}`;
+  closeFileStore = await startFileStore("catalogue");
 });
-afterAll(async () => {
-  await s3.close();
-});
+afterAll(() => closeFileStore());
 
 const legacyProduct = {
   name: "Legacy AFFF for a test (test)",

@@ -1,22 +1,13 @@
 import exifr from "exifr";
-import knexFactory, { type Knex } from "knex";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { env } from "~/lib/env.server";
 import { getObject } from "~/lib/storage.server";
-import knexConfig from "../../knexfile";
 import { startFileStore } from "../support/file-store";
-import { testDatabaseName } from "../support/test-database";
+import { privateDatabase } from "../support/test-database";
 
 // The demo's sample attachments, seeded into a database of their own with the object-store fake up.
-const name = `${testDatabaseName()}_demo_files`;
-const server = knexFactory({
-  ...knexConfig,
-  connection: { ...(knexConfig.connection as object), database: undefined },
-});
-const knex: Knex = knexFactory({
-  ...knexConfig,
-  connection: { ...(knexConfig.connection as object), database: name },
-});
+const demo = privateDatabase("demo_files");
+const knex = demo.knex;
 const SEEDS = [
   "01_agency_and_accounts.ts",
   "02_catalogue.ts",
@@ -33,16 +24,11 @@ beforeAll(async () => {
   closeFileStore = await startFileStore("demo-attachments");
   // Knex loads the seed itself, with a storage module of its own that reads process.env.
   process.env.S3_ENDPOINT = env().S3_ENDPOINT;
-  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await server.raw(`CREATE DATABASE \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
-  await knex.migrate.latest();
-  for (const file of SEEDS) await knex.seed.run({ specific: file });
+  await demo.seed(SEEDS);
 }, 120_000);
 
 afterAll(async () => {
-  await knex.destroy();
-  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await server.destroy();
+  await demo.drop();
   await closeFileStore();
   if (endpointBefore === undefined) delete process.env.S3_ENDPOINT;
   else process.env.S3_ENDPOINT = endpointBefore;

@@ -1,19 +1,10 @@
-import knexFactory, { type Knex } from "knex";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { listFleet } from "~/models/foam-system.server";
-import knexConfig from "../../knexfile";
-import { testDatabaseName } from "../support/test-database";
+import { privateDatabase } from "../support/test-database";
 
 // The demo's foam systems, seeded into a database of their own with the catalogue and events around them.
-const name = `${testDatabaseName()}_seed_systems`;
-let knex: Knex;
-
-function config(database?: string): Knex.Config {
-  const connection = { ...(knexConfig.connection as Knex.MySqlConnectionConfig) };
-  if (database) connection.database = database;
-  else delete connection.database;
-  return { ...knexConfig, connection };
-}
+const demo = privateDatabase("seed_systems");
+const knex = demo.knex;
 
 const SEEDS = [
   "01_agency_and_accounts.ts",
@@ -23,20 +14,8 @@ const SEEDS = [
   "08_foam_system_records.ts",
 ];
 
-beforeAll(async () => {
-  const server = knexFactory(config());
-  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await server.raw(`CREATE DATABASE \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
-  await server.destroy();
-  knex = knexFactory(config(name));
-  await knex.migrate.latest();
-  for (const file of SEEDS) await knex.seed.run({ specific: file });
-}, 180_000);
-
-afterAll(async () => {
-  await knex.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await knex.destroy();
-});
+beforeAll(() => demo.seed(SEEDS), 180_000);
+afterAll(() => demo.drop());
 
 describe("the demo's foam systems", () => {
   it("give each of the five apparatus a system with a year of flushes and at least one test", async () => {

@@ -1,38 +1,17 @@
-import knexFactory, { type Knex } from "knex";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { computeUsage, type DischargeInput } from "~/lib/foam/totals";
 import { loadCatalogueFacts } from "~/models/usage-builders.server";
-import knexConfig from "../../knexfile";
-import { testDatabaseName } from "../support/test-database";
+import { privateDatabase } from "../support/test-database";
 import { eventReportableQuantity } from "~/models/environmental-report.server";
 
 // The demo seed runs into a database of its own, so the other tests' rows cannot disturb it.
-const name = `${testDatabaseName()}_seed`;
-let knex: Knex;
-
-function config(database?: string): Knex.Config {
-  const connection = { ...(knexConfig.connection as Knex.MySqlConnectionConfig) };
-  if (database) connection.database = database;
-  else delete connection.database;
-  return { ...knexConfig, connection };
-}
+const demo = privateDatabase("seed");
+const knex = demo.knex;
 
 const SEEDS = ["01_agency_and_accounts.ts", "02_catalogue.ts", "03_events.ts"];
 
-beforeAll(async () => {
-  const server = knexFactory(config());
-  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await server.raw(`CREATE DATABASE \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
-  await server.destroy();
-  knex = knexFactory(config(name));
-  await knex.migrate.latest();
-  for (const file of SEEDS) await knex.seed.run({ specific: file });
-}, 120_000);
-
-afterAll(async () => {
-  await knex.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await knex.destroy();
-});
+beforeAll(() => demo.seed(SEEDS), 120_000);
+afterAll(() => demo.drop());
 
 const number = (value: unknown) => (value == null ? null : Number(value));
 // Stored volumes are DECIMAL(16,6): equal to the computation within the last stored place.

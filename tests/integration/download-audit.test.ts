@@ -1,8 +1,6 @@
 import { createHash } from "node:crypto";
-import S3rver from "s3rver";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/lib/db.server";
-import { env } from "~/lib/env.server";
 import { putObject } from "~/lib/storage.server";
 import { action as pageAction } from "~/routes/environmental";
 import { loader as submissionLoader } from "~/routes/environmental.submissions.$id";
@@ -12,6 +10,7 @@ import { loader as csvLoader } from "~/routes/reports.environmental-csv";
 import { loader as xlsxLoader } from "~/routes/reports.environmental-xlsx";
 import { makeProductRow } from "../support/catalogue-factories";
 import { makeUser, TEST_PASSWORD } from "../support/factories";
+import { startFileStore } from "../support/file-store";
 import { formRequest, getRequest, routeArgs, settle } from "../support/requests";
 import { signIn } from "../support/session";
 import { ensureAgency, makeEvent, makeProduct } from "../support/usage-fixtures";
@@ -19,7 +18,7 @@ import { ensureAgency, makeEvent, makeProduct } from "../support/usage-fixtures"
 // Every file that leaves Foamtally leaves an audit row: who took it, what, which period or record, its digest.
 let enviro: Awaited<ReturnType<typeof makeUser>>;
 let enviroCookie: string;
-let s3: S3rver;
+let closeFileStore: () => Promise<void>;
 
 const sha256 = (bytes: Uint8Array) => createHash("sha256").update(bytes).digest("hex");
 
@@ -30,15 +29,7 @@ async function latestAudit(action: string) {
 }
 
 beforeAll(async () => {
-  s3 = new S3rver({
-    address: "127.0.0.1",
-    port: 0,
-    silent: true,
-    resetOnClose: true,
-    directory: `/tmp/s3-download-audit-${process.pid}`,
-  });
-  const { port } = await s3.run();
-  env().S3_ENDPOINT = `http://127.0.0.1:${port}`;
+  closeFileStore = await startFileStore("download-audit");
   await ensureAgency(db, { report_recipients: "quarterly-desk@test.example" });
   enviro = await makeUser(["environmental"], "Download Auditor");
   enviroCookie = await signIn(enviro.email, TEST_PASSWORD, "10.8.0.1");
@@ -51,9 +42,7 @@ beforeAll(async () => {
   });
 });
 
-afterAll(async () => {
-  await s3.close();
-});
+afterAll(() => closeFileStore());
 
 describe("audited downloads", () => {
   it("records the quarterly workbook's period, file name and digest, and who took it", async () => {

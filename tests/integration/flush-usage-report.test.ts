@@ -64,6 +64,7 @@ describe("a flush that flowed files its usage report", () => {
     const saved = await saveFoamSystem(
       apparatusId,
       null,
+      null,
       {
         name: "Class A injection",
         systemType: "direct_injection",

@@ -2,9 +2,7 @@
 // computation API, recording maintenance and tests through the system page, the out-of-tolerance
 // warning on usage lines, and the fleet API.
 import { randomUUID } from "node:crypto";
-import knexFactory from "knex";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import knexConfig from "../../knexfile";
 import { db } from "~/lib/db.server";
 import { computeForInputs } from "~/models/event.server";
 import { saveFoamSystem } from "~/models/foam-system.server";
@@ -14,29 +12,18 @@ import { action as systemAction, loader as systemLoader } from "~/routes/foam-sy
 import { makeUser, TEST_PASSWORD } from "../support/factories";
 import { formRequest, getRequest, jsonRequest, routeArgs, settle } from "../support/requests";
 import { signIn } from "../support/session";
-import { testDatabaseName } from "../support/test-database";
+import { privateDatabase } from "../support/test-database";
 import { ensureAgency, makeProduct, makeStation } from "../support/usage-fixtures";
 import { makeApparatusRow } from "../support/catalogue-factories";
 
 const MIGRATION = "20261203140001_foam_systems.ts";
 
 describe("the foam-systems migration", () => {
-  const name = `${testDatabaseName()}_systems_migration`;
-  const server = knexFactory({
-    ...knexConfig,
-    connection: { ...(knexConfig.connection as object), database: undefined },
-  });
-  const knex = knexFactory({ ...knexConfig, connection: { ...(knexConfig.connection as object), database: name } });
+  const database = privateDatabase("systems_migration");
+  const knex = database.knex;
 
-  beforeAll(async () => {
-    await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-    await server.raw(`CREATE DATABASE \`${name}\``);
-  });
-  afterAll(async () => {
-    await knex.destroy();
-    await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-    await server.destroy();
-  });
+  beforeAll(() => database.create());
+  afterAll(() => database.drop());
 
   it("gives every apparatus with proportioner figures one system carrying them, its outlets and its lines", async () => {
     const [, pending] = (await knex.migrate.list()) as [unknown[], Array<{ file: string }>];
@@ -186,6 +173,67 @@ describe("POST /api/foam-tests/compute", () => {
     expect(negative.status).toBe(400);
     expect(Object.keys(negative.body.errors)).toEqual(["waterGal"]);
   });
+
+  it("answers hostile or absurd readings with 400 and a message at each field, never a figure", async () => {
+    // JSON.stringify cannot write Infinity: 1e999 is what a script would send, and JSON.parse reads it as Infinity.
+    const raw = await settle(() =>
+      computeApi(
+        routeArgs(
+          new Request("http://127.0.0.1:3000/api/foam-tests/compute", {
+            method: "POST",
+            body: '{"method":"flow","foamClass":"B","ratedPercent":3,"concentrateGal":1e999,"waterGal":97}',
+            headers: { "Content-Type": "application/json", Cookie: cookie },
+          }),
+        ),
+      ),
+    );
+    expect(raw.thrown).toBe(false);
+    const infinite = raw.value as Response;
+    expect(infinite.status).toBe(400);
+    expect((await infinite.json()).errors).toEqual({
+      concentrateGal: ["Enter the concentrate drawn (gal) as a number."],
+    });
+
+    const absurd = await compute({ method: "flow", foamClass: "A", ratedPercent: 99, concentrateGal: 0, waterGal: 97 });
+    expect(absurd.status).toBe(400);
+    expect(absurd.body.errors).toEqual({
+      ratedPercent: ["The rated percent must be at most 10."],
+      concentrateGal: ["The concentrate drawn (gal) must be more than 0."],
+    });
+
+    const curve = {
+      method: "refractometer",
+      foamClass: "B",
+      ratedPercent: 3,
+      calibration: [
+        { percent: 0, reading: 1 },
+        { percent: 3, reading: 7 },
+      ],
+    };
+    const farOut = await compute({ ...curve, sampleReading: 999_999 });
+    expect(farOut.status).toBe(400);
+    expect(Object.keys(farOut.body.errors)).toEqual(["sampleReading"]);
+    expect(farOut.body.errors.sampleReading[0]).toMatch(/more than 100 % of solution/);
+
+    const flat = await compute({
+      ...curve,
+      calibration: [
+        { percent: 0, reading: 1 },
+        { percent: 1e-300, reading: 2 },
+      ],
+      sampleReading: 1.5,
+    });
+    expect(flat.status).toBe(400);
+    expect(Object.keys(flat.body.errors)).toEqual(["calibration"]);
+
+    const tooMany = await compute({
+      ...curve,
+      calibration: Array.from({ length: 21 }, (_, index) => ({ percent: index / 4, reading: 1 + index / 2 })),
+      sampleReading: 2,
+    });
+    expect(tooMany.status).toBe(400);
+    expect(tooMany.body.error).toMatch(/calibration has more than 20 entries/);
+  });
 });
 
 describe("a system's records, its tolerance and the fleet", () => {
@@ -210,6 +258,7 @@ describe("a system's records, its tolerance and the fleet", () => {
     ).id;
     const saved = await saveFoamSystem(
       apparatusId,
+      null,
       null,
       {
         name: "Class B around-the-pump",
@@ -377,5 +426,13 @@ describe("a system's records, its tolerance and the fleet", () => {
     });
     expect(statusOf(outcome.value)).toBe(400);
     expect(errorsOf(outcome.value).calibration?.[0]).toMatch(/at least two/);
+  });
+
+  it("refuses a recorded test whose sample reads back past 100 % of solution, writing nothing", async () => {
+    const before = await db("foam_accuracy_tests").where({ foam_system_id: systemId }).count({ n: "*" });
+    const outcome = await post(refractometerTest("2026-03-22T09:00", "999"));
+    expect(statusOf(outcome.value)).toBe(400);
+    expect(errorsOf(outcome.value).sampleReading?.[0]).toMatch(/more than 100 % of solution/);
+    expect(await db("foam_accuracy_tests").where({ foam_system_id: systemId }).count({ n: "*" })).toEqual(before);
   });
 });

@@ -1,8 +1,7 @@
 // The printable record of an accuracy test: a PDF for those who may read the fleet, a 404 for a test of another system.
 import { beforeAll, describe, expect, it } from "vitest";
-import { db } from "~/lib/db.server";
 import { loader as recordPdf } from "~/routes/foam-systems.$systemId.tests.$testId.record-pdf";
-import { makeApparatusRow } from "../support/catalogue-factories";
+import { makeSystemWithFlowTest } from "../support/catalogue-factories";
 import { makeUser, TEST_PASSWORD } from "../support/factories";
 import { getRequest, routeArgs, settle } from "../support/requests";
 import { signIn } from "../support/session";
@@ -16,27 +15,7 @@ beforeAll(async () => {
   await ensureAgency();
   const officer = await makeUser(["officer"], "Officer Printer");
   cookie = await signIn(officer.email, TEST_PASSWORD);
-  const apparatus = await makeApparatusRow();
-  [systemId] = await db("foam_systems").insert({ apparatus_id: apparatus.id, name: "Printed system" });
-  [testId] = await db("foam_accuracy_tests").insert({
-    foam_system_id: systemId,
-    tested_at: new Date("2026-04-01T15:00:00Z"),
-    tested_by: officer.id,
-    method: "flow",
-    foam_class: "B",
-    rated_percent: 3,
-    readings_json: JSON.stringify({
-      method: "flow",
-      foamClass: "B",
-      ratedPercent: 3,
-      concentrateGal: 3.2,
-      waterGal: 96.8,
-    }),
-    achieved_percent: 3.2,
-    band_low: 3,
-    band_high: 3.9,
-    pass: true,
-  });
+  ({ systemId, testId } = await makeSystemWithFlowTest("Printed system", officer.id));
 });
 
 const get = (system: number, test: number) =>

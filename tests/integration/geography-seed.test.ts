@@ -1,26 +1,14 @@
-import knexFactory from "knex";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import knexConfig from "../../knexfile";
 import { seed as seedGeography } from "../../seeds/04_geography";
-import { testDatabaseName } from "../support/test-database";
+import { privateDatabase } from "../support/test-database";
 
 // Its own database, so that an empty one (no accounts, no events) can be seeded.
-const name = `${testDatabaseName()}_geo_seed`;
-const connection = { ...(knexConfig.connection as object) };
-const server = knexFactory({ ...knexConfig, connection: { ...connection, database: undefined } });
-const knex = knexFactory({ ...knexConfig, connection: { ...connection, database: name } });
+const database = privateDatabase("geo_seed");
+const knex = database.knex;
 
-beforeAll(async () => {
-  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await server.raw(`CREATE DATABASE \`${name}\``);
-  await knex.migrate.latest();
-});
-
-afterAll(async () => {
-  await knex.destroy();
-  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await server.destroy();
-});
+// Migrated with no seed files: each test runs the geography seed itself.
+beforeAll(() => database.seed([]));
+afterAll(() => database.drop());
 
 describe("the demo geography seed", () => {
   it("loads the invented district's five layers into an empty database", async () => {

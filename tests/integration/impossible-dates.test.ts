@@ -71,6 +71,7 @@ beforeAll(async () => {
   const saved = await saveFoamSystem(
     apparatusId,
     null,
+    null,
     { name: "Calendar system", systemType: "around_the_pump", percentOf: "solution" },
     { id: chief.id, email: chief.email, name: chief.name, roles: ["chief"], stationId: null, epoch: 0 } as never,
   );

@@ -1,26 +1,12 @@
-import knexFactory from "knex";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import knexConfig from "../../knexfile";
-import { testDatabaseName } from "../support/test-database";
+import { privateDatabase } from "../support/test-database";
 
 // Its own database, so that rolling everything back does not disturb other test files.
-const name = `${testDatabaseName()}_migrations`;
-const server = knexFactory({
-  ...knexConfig,
-  connection: { ...(knexConfig.connection as object), database: undefined },
-});
-const knex = knexFactory({ ...knexConfig, connection: { ...(knexConfig.connection as object), database: name } });
+const database = privateDatabase("migrations");
+const knex = database.knex;
 
-beforeAll(async () => {
-  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await server.raw(`CREATE DATABASE \`${name}\``);
-});
-
-afterAll(async () => {
-  await knex.destroy();
-  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await server.destroy();
-});
+beforeAll(() => database.create());
+afterAll(() => database.drop());
 
 async function tableNames(): Promise<string[]> {
   const [rows] = await knex.raw("SHOW TABLES");

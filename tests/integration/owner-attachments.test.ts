@@ -26,7 +26,7 @@ import { loader as movementsPageLoader } from "~/routes/stock.movements";
 import { action as eventUploadAction } from "~/routes/api.events.$id.attachments";
 import { loader as editLoader } from "~/routes/events.$id.edit";
 import { demoDocumentPdf, demoPhotoJpeg } from "../../scripts/demo-files";
-import { makeApparatusRow } from "../support/catalogue-factories";
+import { makeSystemWithFlowTest } from "../support/catalogue-factories";
 import { makeUser, TEST_PASSWORD } from "../support/factories";
 import { startFileStore } from "../support/file-store";
 import { formRequest, getRequest, routeArgs, settle } from "../support/requests";
@@ -88,27 +88,7 @@ beforeAll(async () => {
   environmental = await person(["environmental"], "Manifest Keeper");
   clerk = await person(["records"], "Records Clerk");
 
-  const apparatus = await makeApparatusRow();
-  [systemId] = await db("foam_systems").insert({ apparatus_id: apparatus.id, name: "Printout system" });
-  [testId] = await db("foam_accuracy_tests").insert({
-    foam_system_id: systemId,
-    tested_at: new Date("2026-04-01T15:00:00Z"),
-    tested_by: officer.id,
-    method: "flow",
-    foam_class: "B",
-    rated_percent: 3,
-    readings_json: JSON.stringify({
-      method: "flow",
-      foamClass: "B",
-      ratedPercent: 3,
-      concentrateGal: 3.2,
-      waterGal: 96.8,
-    }),
-    achieved_percent: 3.2,
-    band_low: 3,
-    band_high: 3.9,
-    pass: true,
-  });
+  ({ systemId, testId } = await makeSystemWithFlowTest("Printout system", officer.id));
 
   const station = (await makeStation()).id;
   const product = (await makeProduct({ foamClass: "B", foamType: "f3" })).id;

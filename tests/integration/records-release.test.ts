@@ -2,11 +2,9 @@
 // personnel names, notes or unrounded coordinates; the files are kept with their digests and sent.
 import { createHash } from "node:crypto";
 import { PDFParse } from "pdf-parse";
-import S3rver from "s3rver";
 import * as XLSX from "xlsx";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/lib/db.server";
-import { env } from "~/lib/env.server";
 import { DEFAULT_REDACTIONS } from "~/lib/records/redaction";
 import { getObject } from "~/lib/storage.server";
 import { buildReleasePackage, selectReleaseEvents, sendReleasePackage } from "~/exports/release-package.server";
@@ -14,23 +12,14 @@ import { usageReportPdf } from "~/exports/report-pdf.server";
 import { getReport } from "~/models/event-read.server";
 import { createRecordsRequest, publicStatusOf } from "~/models/records-request.server";
 import { makeUser } from "../support/factories";
+import { startFileStore } from "../support/file-store";
 import { ensureAgency, makeApparatus, makeEvent } from "../support/usage-fixtures";
 
-let s3: S3rver;
+let closeFileStore: () => Promise<void>;
 beforeAll(async () => {
-  s3 = new S3rver({
-    address: "127.0.0.1",
-    port: 0,
-    silent: true,
-    resetOnClose: true,
-    directory: `/tmp/s3-records-${process.pid}`,
-  });
-  const { port } = await s3.run();
-  env().S3_ENDPOINT = `http://127.0.0.1:${port}`;
+  closeFileStore = await startFileStore("records");
 });
-afterAll(async () => {
-  await s3.close();
-});
+afterAll(() => closeFileStore());
 
 async function pdfText(bytes: Uint8Array): Promise<string> {
   const parser = new PDFParse({ data: Buffer.from(bytes) });

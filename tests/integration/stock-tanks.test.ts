@@ -2,9 +2,7 @@
 // system tank, a transfer refused beyond the tank's capacity, and a report's use drawn from the tank
 // of the system its line was placed on.
 import { randomUUID } from "node:crypto";
-import knexFactory from "knex";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import knexConfig from "../../knexfile";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import type { FiledReport } from "~/lib/foam/report-schema";
@@ -13,28 +11,17 @@ import { saveFoamSystem } from "~/models/foam-system.server";
 import { apparatusTankLocation, moveStock, receiveStock, tankFill } from "~/models/stock.server";
 import { makeApparatusRow } from "../support/catalogue-factories";
 import { makeUser } from "../support/factories";
-import { testDatabaseName } from "../support/test-database";
+import { privateDatabase } from "../support/test-database";
 import { ensureAgency, makeProduct, makeStation } from "../support/usage-fixtures";
 
 const MIGRATION = "20261203170001_stock_tank_locations.ts";
 
 describe("the stock-tank migration", () => {
-  const name = `${testDatabaseName()}_tank_locations`;
-  const server = knexFactory({
-    ...knexConfig,
-    connection: { ...(knexConfig.connection as object), database: undefined },
-  });
-  const knex = knexFactory({ ...knexConfig, connection: { ...(knexConfig.connection as object), database: name } });
+  const database = privateDatabase("tank_locations");
+  const knex = database.knex;
 
-  beforeAll(async () => {
-    await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-    await server.raw(`CREATE DATABASE \`${name}\``);
-  });
-  afterAll(async () => {
-    await knex.destroy();
-    await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-    await server.destroy();
-  });
+  beforeAll(() => database.create());
+  afterAll(() => database.drop());
 
   it("ties each apparatus tank to its system tank, keeps the balance on the first and adds the others", async () => {
     const [, pending] = (await knex.migrate.list()) as [unknown[], Array<{ file: string }>];
@@ -137,6 +124,7 @@ describe("stock in foam system tanks", () => {
     const system = async (name: string, outlets: string, tankCapacityGal: number, tankProductId: number) => {
       const saved = await saveFoamSystem(
         apparatusId,
+        null,
         null,
         {
           name,

@@ -1,24 +1,15 @@
 // The move of frozen quarterly submissions from LONGBLOB rows to the object store keeps every
 // file's SHA-256 equal to the digest recorded when the quarter was submitted, both ways.
 import { createHash, randomBytes } from "node:crypto";
-import knexFactory, { type Knex } from "knex";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { env } from "~/lib/env.server";
 import { getObject } from "~/lib/storage.server";
-import knexConfig from "../../knexfile";
 import { startFileStore } from "../support/file-store";
-import { testDatabaseName } from "../support/test-database";
+import { privateDatabase } from "../support/test-database";
 
 const MOVE = "20261203130002_submissions_in_object_store.ts";
-const name = `${testDatabaseName()}_submission_move`;
-const server = knexFactory({
-  ...knexConfig,
-  connection: { ...(knexConfig.connection as object), database: undefined },
-});
-const knex: Knex = knexFactory({
-  ...knexConfig,
-  connection: { ...(knexConfig.connection as object), database: name },
-});
+const database = privateDatabase("submission_move");
+const knex = database.knex;
 let closeFileStore: () => Promise<void>;
 
 const sha256 = (bytes: Uint8Array) => createHash("sha256").update(bytes).digest("hex");
@@ -54,15 +45,12 @@ beforeAll(async () => {
   closeFileStore = await startFileStore("submission-move");
   // Knex loads the migration itself, with a storage module of its own that reads process.env.
   process.env.S3_ENDPOINT = env().S3_ENDPOINT;
-  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await server.raw(`CREATE DATABASE \`${name}\``);
+  await database.create();
   await migrateToJustBeforeMove();
 });
 
 afterAll(async () => {
-  await knex.destroy();
-  await server.raw(`DROP DATABASE IF EXISTS \`${name}\``);
-  await server.destroy();
+  await database.drop();
   await closeFileStore();
   if (endpointBefore === undefined) delete process.env.S3_ENDPOINT;
   else process.env.S3_ENDPOINT = endpointBefore;

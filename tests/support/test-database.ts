@@ -1,5 +1,5 @@
 import knexFactory, { type Knex } from "knex";
-import { connectionTo, recreateDatabase, throwawayName } from "../../scripts/throwaway-database";
+import { connectionTo, dropDatabase, recreateDatabase, throwawayName } from "../../scripts/throwaway-database";
 
 export function testDatabaseName(): string {
   return throwawayName(process.env.TEST_DB_NAME, "foamtally_test", "foamtally_test");
@@ -34,4 +34,29 @@ export function appAccountKnex(): Knex {
       password: process.env.DB_PASSWORD ?? "",
     },
   });
+}
+
+/**
+ * A database of one test file's own beside the test database (`<test database>_<suffix>`), so that
+ * what the file migrates, rolls back or seeds cannot disturb the others. `knex` connects as the
+ * migration account; `create` makes the database empty, `seed` also migrates it to the latest and
+ * runs the named seed files in order, `drop` closes the connection and removes the database.
+ */
+export function privateDatabase(suffix: string) {
+  const name = `${testDatabaseName()}_${suffix}`;
+  const knex = knexFactory(connectionTo(name));
+  return {
+    name,
+    knex,
+    create: () => recreateDatabase(name),
+    async seed(files: readonly string[]) {
+      await recreateDatabase(name);
+      await knex.migrate.latest();
+      for (const file of files) await knex.seed.run({ specific: file });
+    },
+    async drop() {
+      await knex.destroy();
+      await dropDatabase(name);
+    },
+  };
 }

@@ -1,5 +1,5 @@
 /**
- * Optimistic concurrency for catalogue records (foam products, apparatus, stations): every edit form
+ * Optimistic concurrency for catalogue records (foam products, apparatus, stations, foam systems): every edit form
  * carries the `version` it was opened with; the save compares it with the stored row inside its
  * transaction and refuses a stale one instead of overwriting someone else's change.
  */

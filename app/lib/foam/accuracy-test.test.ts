@@ -5,6 +5,7 @@ import {
   AccuracyTestInputSchema,
   computeAccuracyTest,
   fitCalibration,
+  MAX_CALIBRATION_POINTS,
   withinBand,
 } from "./accuracy-test";
 
@@ -148,5 +149,147 @@ describe("the compute request", () => {
     expect(fieldsOf({ method: "flow", foamClass: "B", ratedPercent: 3, concentrateGal: -1, waterGal: 10 })).toContain(
       "concentrateGal",
     );
+  });
+
+  // reading = 2 × percent + 1: 1 reads as 0 %, 201 as 100 %.
+  const curve = (overrides: Record<string, unknown> = {}) => ({
+    method: "refractometer",
+    foamClass: "B",
+    ratedPercent: 3,
+    calibration: [
+      { percent: 0, reading: 1 },
+      { percent: 3, reading: 7 },
+      { percent: 6, reading: 13 },
+    ],
+    sampleReading: 7,
+    ...overrides,
+  });
+  const flow = (overrides: Record<string, unknown> = {}) => ({
+    method: "flow",
+    foamClass: "B",
+    ratedPercent: 3,
+    concentrateGal: 3,
+    waterGal: 97,
+    ...overrides,
+  });
+  const messagesOf = (body: unknown) => {
+    const parsed = AccuracyTestInputSchema.safeParse(body);
+    expect(parsed.success).toBe(false);
+    return Object.fromEntries(parsed.error!.issues.map((issue) => [issue.path.join("."), issue.message]));
+  };
+
+  it("takes the edges of every bound", () => {
+    expect(AccuracyTestInputSchema.safeParse(curve({ ratedPercent: 10 })).success).toBe(true);
+    expect(AccuracyTestInputSchema.safeParse(flow({ ratedPercent: 0.1 })).success).toBe(true);
+    const edges = curve({
+      calibration: [
+        { percent: 0, reading: 1 },
+        { percent: 100, reading: 201 },
+      ],
+    });
+    expect(AccuracyTestInputSchema.safeParse({ ...edges, sampleReading: 1 }).success).toBe(true);
+    expect(AccuracyTestInputSchema.safeParse({ ...edges, sampleReading: 201 }).success).toBe(true);
+    expect(AccuracyTestInputSchema.safeParse(flow({ concentrateGal: 10_000, waterGal: 1_000_000 })).success).toBe(true);
+  });
+
+  it("refuses a rated percent of 0 or above 10 at its field", () => {
+    expect(messagesOf(flow({ ratedPercent: 0 }))).toEqual({ ratedPercent: "The rated percent must be more than 0." });
+    expect(messagesOf(curve({ ratedPercent: 10.01 }))).toEqual({
+      ratedPercent: "The rated percent must be at most 10.",
+    });
+    expect(messagesOf(flow({ ratedPercent: 99 }))).toEqual({ ratedPercent: "The rated percent must be at most 10." });
+  });
+
+  it("refuses a calibration mix above 100 % and readings above 1,000,000", () => {
+    expect(
+      messagesOf(
+        curve({
+          calibration: [
+            { percent: 0, reading: 1 },
+            { percent: 900_000, reading: 2 },
+          ],
+        }),
+      ),
+    ).toEqual({ "calibration.1.percent": "The calibration percent must be at most 100." });
+    expect(
+      messagesOf(
+        curve({
+          calibration: [
+            { percent: 0, reading: 1 },
+            { percent: 3, reading: 1_000_001 },
+          ],
+          sampleReading: 2_000_000,
+        }),
+      ),
+    ).toEqual({
+      "calibration.1.reading": "The calibration reading must be at most 1,000,000.",
+      sampleReading: "The sample reading must be at most 1,000,000.",
+    });
+  });
+
+  it("refuses a flow test's volumes of 0 or past their bounds", () => {
+    expect(messagesOf(flow({ concentrateGal: 0, waterGal: 1_000_001 }))).toEqual({
+      concentrateGal: "The concentrate drawn (gal) must be more than 0.",
+      waterGal: "The metered water (gal) must be at most 1,000,000.",
+    });
+    expect(messagesOf(flow({ concentrateGal: 10_001 }))).toEqual({
+      concentrateGal: "The concentrate drawn (gal) must be at most 10,000.",
+    });
+  });
+
+  it("refuses NaN, Infinity and numbers sent as text at their fields", () => {
+    expect(Object.keys(messagesOf(flow({ concentrateGal: Number.NaN, waterGal: Infinity })))).toEqual([
+      "concentrateGal",
+      "waterGal",
+    ]);
+    expect(messagesOf(curve({ sampleReading: -Infinity, ratedPercent: "3" }))).toEqual({
+      ratedPercent: "Enter the rated percent as a number.",
+      sampleReading: "Enter the sample reading as a number.",
+    });
+  });
+
+  it("refuses a sample that reads back below 0 % or above 100 % of solution", () => {
+    expect(messagesOf(curve({ sampleReading: 0.5 })).sampleReading).toMatch(/less than 0 % of solution/);
+    expect(messagesOf(curve({ sampleReading: 201.5 })).sampleReading).toMatch(/more than 100 % of solution/);
+    expect(messagesOf(curve({ sampleReading: 999_999 })).sampleReading).toMatch(/more than 100 % of solution/);
+  });
+
+  it("refuses a calibration too flat to read a sample through, never answering NaN or Infinity", () => {
+    // Mixes 0 % and 1e-300 % differ, but the line's slope overflows.
+    expect(
+      messagesOf(
+        curve({
+          calibration: [
+            { percent: 0, reading: 1 },
+            { percent: 1e-300, reading: 2 },
+          ],
+          sampleReading: 1.5,
+        }),
+      ),
+    ).toEqual({
+      calibration: "The calibration mixes do not give a line to read the sample through: check the readings.",
+    });
+    // Readings that differ by next to nothing give a slope that reads the sample far past 100 %.
+    expect(
+      messagesOf(
+        curve({
+          calibration: [
+            { percent: 0, reading: 1e-300 },
+            { percent: 3, reading: 2e-300 },
+          ],
+          sampleReading: 1,
+        }),
+      ).sampleReading,
+    ).toMatch(/more than 100 %/);
+  });
+
+  it("refuses more calibration mixes than the form holds", () => {
+    const many = Array.from({ length: MAX_CALIBRATION_POINTS + 1 }, (_, index) => ({
+      percent: index / 4,
+      reading: 1 + index / 2,
+    }));
+    expect(messagesOf(curve({ calibration: many, sampleReading: 2 }))).toEqual({
+      calibration: `Enter at most ${MAX_CALIBRATION_POINTS} calibration mixes.`,
+    });
   });
 });

@@ -56,29 +56,40 @@ export function withinBand(achievedPercent: number, [low, high]: readonly [numbe
   return kept >= low && kept <= high;
 }
 
-const nonNegative = (label: string) =>
+const bounded = (label: string, { min, max, minIncluded }: { min: number; max: number; minIncluded: boolean }) =>
   z
     .number({ error: `Enter the ${label} as a number.` })
     .refine(Number.isFinite, `Enter the ${label} as a number.`)
-    .refine((value) => value >= 0, `The ${label} cannot be negative.`)
-    .refine((value) => value <= 1_000_000, `The ${label} must be at most 1,000,000.`);
-
-const positive = (label: string, max: number) =>
-  z
-    .number({ error: `Enter the ${label} as a number.` })
-    .refine(Number.isFinite, `Enter the ${label} as a number.`)
-    .refine((value) => value > 0, `The ${label} must be more than 0.`)
+    .refine(
+      (value) => (minIncluded ? value >= min : value > min),
+      minIncluded && min === 0 ? `The ${label} cannot be negative.` : `The ${label} must be more than ${min}.`,
+    )
     .refine((value) => value <= max, `The ${label} must be at most ${max.toLocaleString("en-US")}.`);
 
-const foamClass = z.enum(FOAM_CLASSES, { error: "Choose Class A or Class B." });
-const ratedPercent = positive("rated percent", 99);
+const nonNegative = (label: string, max: number) => bounded(label, { min: 0, max, minIncluded: true });
+const positive = (label: string, max: number) => bounded(label, { min: 0, max, minIncluded: false });
 
+/**
+ * Foam concentrates are proportioned at 0.1–1 % (Class A) and 1, 3 or 6 % (Class B) of solution
+ * (from memory); 10 % leaves room for any listed product while refusing a figure that is no rating.
+ */
+export const MAX_RATED_PERCENT = 10;
+/** Instrument readings: a refractometer's scale or a conductivity meter's µS/cm (common practice, no source). */
+export const MAX_READING = 1_000_000;
 export const MAX_CALIBRATION_POINTS = 20;
 
+const foamClass = z.enum(FOAM_CLASSES, { error: "Choose Class A or Class B." });
+const ratedPercent = positive("rated percent", MAX_RATED_PERCENT);
+
 const calibration = z
-  .array(z.object({ percent: nonNegative("calibration percent"), reading: nonNegative("calibration reading") }), {
-    error: "Send the calibration mixes as a list of { percent, reading }.",
-  })
+  .array(
+    z.object({
+      // A known mix is a share of foam solution, so 0 (plain water) to 100 (concentrate alone).
+      percent: nonNegative("calibration percent", 100),
+      reading: nonNegative("calibration reading", MAX_READING),
+    }),
+    { error: "Send the calibration mixes as a list of { percent, reading }." },
+  )
   .min(2, "Enter at least two calibration mixes.")
   .max(MAX_CALIBRATION_POINTS, `Enter at most ${MAX_CALIBRATION_POINTS} calibration mixes.`)
   .superRefine((points, ctx) => {
@@ -94,13 +105,46 @@ const calibration = z
     }
   });
 
-export const CurveTestSchema = z.object({
-  method: z.enum(["refractometer", "conductivity"]),
-  foamClass,
-  ratedPercent,
-  calibration,
-  sampleReading: nonNegative("sample reading"),
-});
+const sampleReading = nonNegative("sample reading", MAX_READING);
+
+/**
+ * The sample read back through the calibration line must be a share of solution, 0 to 100 %; a
+ * line too flat to read anything back (readings or mixes that differ by next to nothing) is refused
+ * at the calibration. Checked only once the mixes and the sample are each within their bounds.
+ */
+function checkReadBack(test: { calibration?: unknown; sampleReading?: unknown }, ctx: z.RefinementCtx) {
+  const points = calibration.safeParse(test.calibration);
+  const sample = sampleReading.safeParse(test.sampleReading);
+  if (!points.success || !sample.success) return;
+  const fit = fitCalibration(points.data);
+  if (!Number.isFinite(fit.slope) || !Number.isFinite(fit.intercept) || fit.slope === 0) {
+    ctx.addIssue({
+      code: "custom",
+      path: ["calibration"],
+      message: "The calibration mixes do not give a line to read the sample through: check the readings.",
+    });
+    return;
+  }
+  const achieved = (sample.data - fit.intercept) / fit.slope;
+  if (Number.isFinite(achieved) && achieved >= 0 && achieved <= 100) return;
+  ctx.addIssue({
+    code: "custom",
+    path: ["sampleReading"],
+    message: `The sample reading lies outside what the calibration mixes can tell: through their line it reads as ${
+      achieved < 0 ? "less than 0 %" : "more than 100 %"
+    } of solution. Check the readings.`,
+  });
+}
+
+export const CurveTestSchema = z
+  .object({
+    method: z.enum(["refractometer", "conductivity"]),
+    foamClass,
+    ratedPercent,
+    calibration,
+    sampleReading,
+  })
+  .superRefine(checkReadBack);
 
 export const FlowTestSchema = z.object({
   method: z.literal("flow"),

@@ -1,4 +1,5 @@
 import { EVENT_KINDS, FOAM_CLASSES, type EventKind, type FoamClass } from "~/lib/foam/vocabulary";
+import { recordIdOf } from "~/lib/record-id";
 import { parseReportPeriod } from "~/lib/reporting/period";
 
 /** West, south, east, north in WGS 84 degrees. */
@@ -53,7 +54,8 @@ export function parseMapFilters(params: URLSearchParams, timeZone: string): MapF
     return { ok: false, field: "kind", message: `kind must be one of ${EVENT_KINDS.join(", ")} (or empty for all).` };
   }
   const station = params.get("station") ?? "";
-  if (station && !/^\d{1,9}$/.test(station)) {
+  const stationId = station ? recordIdOf(station) : null;
+  if (station && stationId === null) {
     return { ok: false, field: "station", message: "station must be a station id (or empty for all)." };
   }
   return {
@@ -66,7 +68,7 @@ export function parseMapFilters(params: URLSearchParams, timeZone: string): MapF
       bbox,
       foamClass: (foamClass || null) as FoamClass | null,
       kind: (kind || null) as EventKind | null,
-      stationId: station ? Number(station) : null,
+      stationId,
     },
   };
 }

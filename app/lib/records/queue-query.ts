@@ -1,24 +1,32 @@
 import { z } from "zod";
 import { RECORDS_REQUEST_STATUSES } from "~/lib/foam/vocabulary";
+import { queryReader, type QueryProblems } from "~/lib/query-params";
 
-/** The queue's filters and order, read from the query string (unknown values fall back to defaults). */
-export const QueueQuerySchema = z.object({
-  status: z.enum([...RECORDS_REQUEST_STATUSES, "open", "all"]).catch("open"),
-  assignee: z
-    .union([z.literal("none"), z.coerce.number().int().positive()])
-    .optional()
-    .catch(undefined),
-  sort: z.enum(["received", "due", "status", "assignee"]).catch("due"),
-  dir: z.enum(["asc", "desc"]).catch("asc"),
-});
+const QUEUE_STATUSES = [...RECORDS_REQUEST_STATUSES, "open", "all"] as const;
+const QUEUE_SORTS = ["received", "due", "status", "assignee"] as const;
 
-export function queueQueryOf(url: URL) {
-  return QueueQuerySchema.parse({
-    status: url.searchParams.get("status") ?? undefined,
-    assignee: url.searchParams.get("assignee") || undefined,
-    sort: url.searchParams.get("sort") ?? undefined,
-    dir: url.searchParams.get("dir") ?? undefined,
-  });
+export type QueueQuery = {
+  status: (typeof QUEUE_STATUSES)[number];
+  assignee?: number | "none";
+  sort: (typeof QUEUE_SORTS)[number];
+  dir: "asc" | "desc";
+};
+
+/**
+ * The queue's filters and order from the query string (`queryReader`): what cannot be used falls
+ * back to its default and is named in `problems` (the page says so, the API answers 400).
+ */
+export function queueQueryOf(url: URL): { query: QueueQuery; problems: QueryProblems } {
+  const reader = queryReader(url.searchParams);
+  const assignee =
+    url.searchParams.get("assignee") === "none" ? ("none" as const) : reader.recordId("assignee", "a person");
+  const query: QueueQuery = {
+    status: reader.choice("status", QUEUE_STATUSES) ?? "open",
+    assignee,
+    sort: reader.choice("sort", QUEUE_SORTS) ?? "due",
+    dir: reader.choice("dir", ["asc", "desc"] as const) ?? "asc",
+  };
+  return { query, problems: reader.problems };
 }
 
 /** The form a clerk uses to move a request on: one schema per intent. */
