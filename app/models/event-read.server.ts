@@ -562,7 +562,7 @@ export async function listEvents(user: SessionUser, filters: EventFilters, versi
   const { timeZone } = await agencySettingsAt(versions.catalogue);
   const pageVersion =
     versions.reports && versions.catalogue && filters.pageSize <= KEPT_PAGE_ROWS
-      ? `${versions.reports}`
+      ? `${versions.reports} ${versions.catalogue}`
       : null;
   const [items, totals] = await Promise.all([
     keptListPages.get(JSON.stringify([user.id, timeZone, filters]), pageVersion, () =>
