@@ -167,7 +167,8 @@ export function EventLocationMap({
     const controller = new AbortController();
     const timer = setTimeout(() => {
       setCheckState("loading");
-      fetch(`/api/geo/check?lat=${lat}&lon=${lon}`, {
+      // Fixed decimals (as stored, about 0.1 m): the API reads decimal degrees, never an exponent.
+      fetch(`/api/geo/check?lat=${lat.toFixed(6)}&lon=${lon.toFixed(6)}`, {
         signal: controller.signal,
         headers: { Accept: "application/json" },
       })

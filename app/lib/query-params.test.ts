@@ -39,6 +39,17 @@ describe("reading a query string's filters", () => {
     expect(Object.keys(query.problems).sort()).toEqual(["a", "b", "c", "d", "e", "size"]);
   });
 
+  it("reads decimal degrees written in digits within their range", () => {
+    const query = read("lat=44.9537&lon=-93.09&a=0x10&b=1e1&c=%2045&d=91&e=.5&f=-&g=Infinity");
+    const degrees = (name: string) => query.decimal(name, { min: -90, max: 90 }, "A latitude, −90 to 90.");
+    expect(degrees("lat")).toBe(44.9537);
+    expect(query.decimal("lon", { min: -180, max: 180 }, "A longitude.")).toBe(-93.09);
+    expect(degrees("e")).toBe(0.5);
+    for (const name of ["a", "b", "c", "d", "f", "g"]) expect(degrees(name)).toBeUndefined();
+    expect(Object.keys(query.problems).sort()).toEqual(["a", "b", "c", "d", "f", "g"]);
+    expect(query.problems.a).toBe("A latitude, −90 to 90.");
+  });
+
   it("reads a word of a list and bounded text", () => {
     const query = read(`kind=training&dir=sideways&dispatch=%2026-004512%20&long=${"x".repeat(33)}`);
     expect(query.choice("kind", ["incident", "training"] as const)).toBe("training");

@@ -23,11 +23,14 @@ export type QueryReader = {
   choice<T extends string>(name: string, allowed: readonly T[]): T | undefined;
   /** A whole number from `min` to `max`, written in digits. */
   wholeNumber(name: string, range: { min?: number; max: number }): number | undefined;
+  /** A number in decimal digits (`-93.25`, `45`; no exponent, hex or spaces) from `min` to `max`. */
+  decimal(name: string, range: { min: number; max: number }, problem: string): number | undefined;
   /** Free text of at most `max` characters, trimmed. */
   text(name: string, max: number, what: string): string | undefined;
 };
 
 const DIGITS = /^\d{1,16}$/;
+const DECIMAL = /^[+-]?(?:\d{1,16}(?:\.\d{0,16})?|\.\d{1,16})$/;
 
 export function queryReader(search: URLSearchParams): QueryReader {
   const problems: QueryProblems = {};
@@ -65,6 +68,16 @@ export function queryReader(search: URLSearchParams): QueryReader {
       const number = DIGITS.test(value) ? Number(value) : Number.NaN;
       if (!(number >= min && number <= max)) {
         problems[name] = `Use a whole number from ${min} to ${max}.`;
+        return undefined;
+      }
+      return number;
+    },
+    decimal(name, { min, max }, problem) {
+      const value = valueOf(name);
+      if (!value) return undefined;
+      const number = DECIMAL.test(value) ? Number(value) : Number.NaN;
+      if (!(number >= min && number <= max)) {
+        problems[name] = problem;
         return undefined;
       }
       return number;

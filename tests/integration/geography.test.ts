@@ -196,6 +196,18 @@ describe("GET /api/geo/check and /api/geo/addresses", () => {
     );
     expect((bad.value as Response).status).toBe(400);
     expect((await (bad.value as Response).json()).errors.lat[0]).toMatch(/latitude/);
+    // Hex, exponents and a missing coordinate are not decimal degrees either.
+    for (const [query, field] of [
+      ["lat=0x10&lon=-98.2", "lat"],
+      ["lat=38.7&lon=-9.82e1", "lon"],
+      ["lat=38.7", "lon"],
+    ]) {
+      const refused = await settle(() =>
+        checkLoader(routeArgs(getRequest(`/api/geo/check?${query}`, { Cookie: officer }))),
+      );
+      expect((refused.value as Response).status).toBe(400);
+      expect(Object.keys((await (refused.value as Response).json()).errors)).toEqual([field]);
+    }
     expect(await status(() => checkLoader(routeArgs(getRequest("/api/geo/check?lat=38.7&lon=-98.2"))))).toBe(401);
   });
 
