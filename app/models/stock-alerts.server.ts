@@ -7,20 +7,13 @@ import { rolesFor } from "~/lib/access";
 import { decimalOrZero } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
+import { addMonths } from "~/lib/foam/system-schedule";
+import { shelfLifeEnds } from "~/lib/stock/shelf-life";
 import { readAgencySettings } from "./agency-settings.server";
 import { queueMail } from "./mail-outbox.server";
 
 export type StockConditionKind = "reorder" | "expired" | "sample_due";
 export type StockCondition = { key: string; kind: StockConditionKind; message: string };
-
-/** `day` (YYYY-MM-DD) plus whole months, as YYYY-MM-DD (the last day of a shorter month). */
-export function addMonths(day: string, months: number): string {
-  const [year, month, date] = day.split("-").map(Number);
-  const target = new Date(Date.UTC(year, month - 1 + months, 1));
-  const last = new Date(Date.UTC(target.getUTCFullYear(), target.getUTCMonth() + 1, 0)).getUTCDate();
-  target.setUTCDate(Math.min(date, last));
-  return target.toISOString().slice(0, 10);
-}
 
 const isoDay = (value: unknown): string | null =>
   value ? (value instanceof Date ? value.toISOString().slice(0, 10) : String(value).slice(0, 10)) : null;
@@ -79,8 +72,8 @@ export async function currentStockConditions(
     const onHand = decimalOrZero(lot.on_hand);
     if (onHand <= 0) continue;
     const made = isoDay(lot.manufactured_on);
-    if (made && lot.shelf_life_months) {
-      const expires = addMonths(made, Number(lot.shelf_life_months));
+    const expires = shelfLifeEnds(made, lot.shelf_life_months == null ? null : Number(lot.shelf_life_months));
+    if (expires) {
       if (expires < today) {
         conditions.push({
           key: `expired:${lot.id}`,

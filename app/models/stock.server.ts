@@ -8,6 +8,7 @@ import type { SessionUser } from "~/lib/auth.server";
 import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db, type Db } from "~/lib/db.server";
 import { concentrateCostSql } from "~/lib/stock/concentrate-cost";
+import { pastShelfLife } from "~/lib/stock/shelf-life";
 import {
   STOCK_LOCATION_KIND_LABELS,
   type FoamClass,
@@ -204,14 +205,23 @@ async function factsFor(connection: Db, productIds: number[]): Promise<StockFact
     : [];
   const held = new Set(products.filter((row) => Boolean(Number(row.held_for_disposal))).map((row) => row.id as number));
   const lots = productIds.length
-    ? await connection("stock_lots").whereIn("product_id", productIds).select("id", "product_id", "manufactured_on")
+    ? await connection("stock_lots as t")
+        .join("foam_products as p", "p.id", "t.product_id")
+        .whereIn("t.product_id", productIds)
+        .select("t.id", "t.product_id", "t.manufactured_on", "p.shelf_life_months")
     : [];
   const lotProduct = new Map<number, number>(lots.map((row) => [row.id, row.product_id]));
+  // Oldest made first, so the lot that ends its shelf life first goes first; a lot already past it
+  // goes after every other (its quality is in doubt until sampled), and a lot of unknown age last.
+  const today = new Date().toISOString().slice(0, 10);
   const lotOrder = new Map<number, number>(
-    lots.map((row) => [
-      row.id,
-      row.manufactured_on ? new Date(row.manufactured_on).getTime() : Number.MAX_SAFE_INTEGER,
-    ]),
+    lots.map((row) => {
+      const made = row.manufactured_on ? new Date(row.manufactured_on) : null;
+      const madeOn = made ? made.toISOString().slice(0, 10) : null;
+      const months = row.shelf_life_months == null ? null : Number(row.shelf_life_months);
+      const age = made ? made.getTime() : Number.MAX_SAFE_INTEGER / 4;
+      return [row.id, pastShelfLife(madeOn, months, today) ? Number.MAX_SAFE_INTEGER / 2 + age : age];
+    }),
   );
   return {
     heldForDisposal: (productId) => held.has(productId),

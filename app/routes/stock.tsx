@@ -226,7 +226,15 @@ export default function StockPage({ loaderData, actionData }: Route.ComponentPro
                   <th scope="row">{tank.name}</th>
                   <td>{tank.capacityGal === null ? "Not recorded" : gal(tank.capacityGal)}</td>
                   <td>{gal(tank.onHandGal, 2)}</td>
-                  <td>{tank.fillPercent === null ? "—" : `${tank.fillPercent} %`}</td>
+                  <td>
+                    {tank.fillPercent === null ? "—" : `${tank.fillPercent} %`}
+                    {tank.capacityGal !== null && tank.onHandGal > tank.capacityGal + 0.005 ? (
+                      <span className="block text-xs text-amber-800">
+                        The book is over the capacity by {gal(tank.onHandGal - tank.capacityGal, 2)} gal: refills read
+                        more than the reports computed. Count the tank to settle it.
+                      </span>
+                    ) : null}
+                  </td>
                 </tr>
               ))}
             </tbody>

@@ -299,6 +299,60 @@ describe("moving and counting stock", () => {
     expect(await count()).toBe(before);
   });
 
+  it("draws a lot within its shelf life before an older one past it, and the old one only when the rest runs out", async () => {
+    // A 20-year shelf life: the lot made in 2000 ended its life in 2020, the one made in 2020 lasts to 2040.
+    const product = (await makeProduct({ foamClass: "B", foamType: "f3" })).id;
+    await db("foam_products").where({ id: product }).update({ shelf_life_months: 240 });
+    const [cache] = await db("stock_locations").insert({ kind: "cache", name: `Cache ${randomUUID().slice(0, 6)}` });
+    const [spare] = await db("stock_locations").insert({ kind: "cache", name: `Spare ${randomUUID().slice(0, 6)}` });
+    const receive = async (manufacturedOn: string) => {
+      const received = await receiveStock(keeper, {
+        locationId: cache,
+        version: await versionOf("stock_locations", cache),
+        productId: product,
+        lotNumber: `SL-${randomUUID().slice(0, 6)}`,
+        manufacturedOn,
+        container: "pail",
+        containerGal: 5,
+        containerCount: 2,
+        supplier: "Test Supply (test)",
+        deliveryReference: "",
+        receivedOn: "2026-03-01",
+      });
+      if (received.kind !== "done") throw new Error(received.message);
+      return received.lotId;
+    };
+    const pastItsLife = await receive("2000-01-01");
+    const withinItsLife = await receive("2020-01-01");
+    const move = async (gal: number) => {
+      const moved = await moveStock(keeper, {
+        kind: "transferred",
+        locationId: cache,
+        toLocationId: spare,
+        version: await versionOf("stock_locations", cache),
+        productId: product,
+        gal,
+        at: new Date(),
+        reason: "Move to the spare cache",
+        reference: "",
+      });
+      if (moved.kind !== "done") throw new Error(moved.message);
+      return db("stock_movements")
+        .whereIn("id", moved.movementIds)
+        .where({ location_id: cache })
+        .select("lot_id", "gal");
+    };
+    expect((await move(4)).map((row) => [row.lot_id, Number(row.gal)])).toEqual([[withinItsLife, -4]]);
+    const rest = (await move(8)).map((row) => [row.lot_id, Number(row.gal)]);
+    expect(rest).toEqual(
+      expect.arrayContaining([
+        [withinItsLife, -6],
+        [pastItsLife, -2],
+      ]),
+    );
+    expect(rest).toHaveLength(2);
+  });
+
   it("answers a delivery larger than a movement may be with 400 at the container count, writing no lot", async () => {
     const cookie = await signIn(keeper.email, TEST_PASSWORD, "10.15.0.2");
     const lots = async () => Number((await db("stock_lots").count({ n: "*" }).first())!.n);
