@@ -35,8 +35,12 @@ function dictionaryAfter(text: string): Buffer {
  * together, oldest out first.
  */
 export class PiecewiseGzip {
-  // By text, then by the dictionary before it (a text is nearly always kept after one only).
-  private readonly kept = new Map<string, { dictionary: Buffer | null; piece: KeptPiece }[]>();
+  // By text: the dictionary a piece after it starts from, and its compressed forms by the dictionary
+  // before it (a text is nearly always kept after one only).
+  private readonly kept = new Map<
+    string,
+    { after: Buffer; entries: { dictionary: Buffer | null; piece: KeptPiece }[] }
+  >();
   private keptBytes = 0;
   /** Pieces compressed (not found kept) since this instance was made. */
   compressedPieces = 0;
@@ -51,7 +55,11 @@ export class PiecewiseGzip {
     // compressed unreadable to crc32.
     const texts = pieces.filter((piece) => piece !== "");
     const parts = await Promise.all(
-      texts.map((text, index) => this.piece(text, index === 0 ? null : dictionaryAfter(texts[index - 1]))),
+      texts.map((text, index) => {
+        if (index === 0) return this.piece(text, null);
+        const before = texts[index - 1];
+        return this.piece(text, this.kept.get(before)?.after ?? dictionaryAfter(before));
+      }),
     );
     let crc = 0;
     let length = 0;
@@ -69,12 +77,12 @@ export class PiecewiseGzip {
     const sameDictionary = (entry: { dictionary: Buffer | null }) =>
       entry.dictionary === null || dictionary === null
         ? entry.dictionary === dictionary
-        : entry.dictionary.equals(dictionary);
-    const entries = this.kept.get(text);
-    const found = entries?.find(sameDictionary);
-    if (entries && found) {
+        : entry.dictionary === dictionary || entry.dictionary.equals(dictionary);
+    const kept = this.kept.get(text);
+    const found = kept?.entries.find(sameDictionary);
+    if (kept && found) {
       this.kept.delete(text);
-      this.kept.set(text, entries);
+      this.kept.set(text, kept);
       return found.piece;
     }
     const bytes = Buffer.from(text, "utf8");
@@ -86,17 +94,23 @@ export class PiecewiseGzip {
     const piece = { deflated, crc: crc32(bytes), bytes: bytes.length };
     this.compressedPieces += 1;
     const current = this.kept.get(text);
-    if (!current?.some(sameDictionary)) {
+    if (!current?.entries.some(sameDictionary)) {
       const entry = { dictionary, piece };
-      if (current) current.push(entry);
-      else this.kept.set(text, [entry]);
-      this.keptBytes += (current ? 0 : text.length) + (dictionary?.length ?? 0) + deflated.length;
+      if (current) {
+        current.entries.push(entry);
+      } else {
+        const after = Buffer.from(bytes.subarray(-WINDOW_BYTES));
+        this.kept.set(text, { after, entries: [entry] });
+        this.keptBytes += text.length + after.length;
+      }
+      this.keptBytes += (dictionary?.length ?? 0) + deflated.length;
     }
     for (const [oldest, dropped] of this.kept) {
       if (this.keptBytes <= this.budgetBytes) break;
       this.kept.delete(oldest);
-      this.keptBytes -= oldest.length;
-      for (const entry of dropped) this.keptBytes -= (entry.dictionary?.length ?? 0) + entry.piece.deflated.length;
+      this.keptBytes -= oldest.length + dropped.after.length;
+      for (const entry of dropped.entries)
+        this.keptBytes -= (entry.dictionary?.length ?? 0) + entry.piece.deflated.length;
     }
     return piece;
   }

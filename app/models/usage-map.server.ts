@@ -23,8 +23,8 @@ import { dataVersionsForRead } from "./read-versions.server";
 /** Reports still in draft are the officer's work in progress and stay off the map and totals. */
 const MAPPED_STATUSES = ["filed", "returned", "accepted"];
 
-function filteredEvents(filters: MapFilters): Knex.QueryBuilder {
-  const query = db("events as e")
+function filteredEvents(filters: MapFilters, connection: Knex = db): Knex.QueryBuilder {
+  const query = connection("events as e")
     .whereIn("e.status", MAPPED_STATUSES)
     .whereNotNull("e.latitude")
     .whereNotNull("e.longitude")
@@ -98,68 +98,71 @@ type MapEventRow = {
   foam_classes: string;
 };
 
+const MAP_EVENT_COLUMNS = [
+  "e.id",
+  "e.number",
+  "e.kind",
+  "e.status",
+  "e.started_at",
+  "e.address",
+  "e.latitude",
+  "e.longitude",
+  "e.water_gal",
+  "e.concentrate_gal",
+  "e.solution_gal",
+  "e.pfas_containing",
+  "e.drainage_basin",
+  "e.nearest_waterway",
+  "e.nearest_waterway_m",
+  "e.within_waterway_buffer",
+  "s.code as station_code",
+  "e.class_a_concentrate_gal",
+  "e.class_b_concentrate_gal",
+  "e.foam_classes",
+];
+
+/** The map's order: by start, the id breaking ties, so the same events always come the same way. */
+const inMapOrder = (query: Knex.QueryBuilder) => query.orderBy("e.started_at").orderBy("e.id");
+
+type MapFeature = MapEventCollection["features"][number];
+
+function mapFeature(row: MapEventRow): MapFeature {
+  const usesA = row.foam_classes.includes("A");
+  const usesB = row.foam_classes.includes("B");
+  return {
+    type: "Feature",
+    geometry: { type: "Point", coordinates: [degrees(row.longitude), degrees(row.latitude)] },
+    properties: {
+      id: row.id,
+      number: row.number,
+      kind: row.kind,
+      status: row.status,
+      startedAt: row.started_at ? new Date(row.started_at).toISOString().replace(".000Z", "Z") : null,
+      address: row.address,
+      station: row.station_code ?? null,
+      foamClass: usesA && usesB ? "A+B" : usesA ? "A" : usesB ? "B" : "none",
+      pfasContaining: Boolean(row.pfas_containing),
+      waterGal: gallons(row.water_gal),
+      concentrateGal: gallons(row.concentrate_gal),
+      solutionGal: gallons(row.solution_gal),
+      classAConcentrateGal: gallons(row.class_a_concentrate_gal),
+      classBConcentrateGal: gallons(row.class_b_concentrate_gal),
+      drainageBasin: row.drainage_basin ?? null,
+      nearestWaterway: row.nearest_waterway ?? null,
+      nearestWaterwayM: metres(row.nearest_waterway_m),
+      withinWaterwayBuffer: row.within_waterway_buffer == null ? null : Boolean(row.within_waterway_buffer),
+    },
+  };
+}
+
 /**
  * Every mapped event that matches, as an RFC 7946 FeatureCollection with its totals: the event's id
  * once (`properties.id`; its page is `/events/:id`), coordinates to five decimals, distances to the
  * metre, instants to the second.
  */
 export async function mapEvents(filters: MapFilters): Promise<MapEventCollection> {
-  const rows: MapEventRow[] = await filteredEvents(filters)
-    .leftJoin("stations as s", "s.id", "e.station_id")
-    .orderBy("e.started_at")
-    .select(
-      "e.id",
-      "e.number",
-      "e.kind",
-      "e.status",
-      "e.started_at",
-      "e.address",
-      "e.latitude",
-      "e.longitude",
-      "e.water_gal",
-      "e.concentrate_gal",
-      "e.solution_gal",
-      "e.pfas_containing",
-      "e.drainage_basin",
-      "e.nearest_waterway",
-      "e.nearest_waterway_m",
-      "e.within_waterway_buffer",
-      "s.code as station_code",
-      "e.class_a_concentrate_gal",
-      "e.class_b_concentrate_gal",
-      "e.foam_classes",
-    );
-  return {
-    type: "FeatureCollection",
-    features: rows.map((row) => {
-      const usesA = row.foam_classes.includes("A");
-      const usesB = row.foam_classes.includes("B");
-      return {
-        type: "Feature",
-        geometry: { type: "Point", coordinates: [degrees(row.longitude), degrees(row.latitude)] },
-        properties: {
-          id: row.id,
-          number: row.number,
-          kind: row.kind,
-          status: row.status,
-          startedAt: row.started_at ? new Date(row.started_at).toISOString().replace(".000Z", "Z") : null,
-          address: row.address,
-          station: row.station_code ?? null,
-          foamClass: usesA && usesB ? "A+B" : usesA ? "A" : usesB ? "B" : "none",
-          pfasContaining: Boolean(row.pfas_containing),
-          waterGal: gallons(row.water_gal),
-          concentrateGal: gallons(row.concentrate_gal),
-          solutionGal: gallons(row.solution_gal),
-          classAConcentrateGal: gallons(row.class_a_concentrate_gal),
-          classBConcentrateGal: gallons(row.class_b_concentrate_gal),
-          drainageBasin: row.drainage_basin ?? null,
-          nearestWaterway: row.nearest_waterway ?? null,
-          nearestWaterwayM: metres(row.nearest_waterway_m),
-          withinWaterwayBuffer: row.within_waterway_buffer == null ? null : Boolean(row.within_waterway_buffer),
-        },
-      };
-    }),
-  };
+  const rows = await mapEventRowsOf(inMapOrder(filteredEvents(filters)));
+  return { type: "FeatureCollection", features: rows.map(mapFeature) };
 }
 
 type Totals = { events: number; waterGal: number; concentrateGal: number; solutionGal: number };
@@ -403,28 +406,126 @@ export type MapEventsBody = { etag: string | null; gzipped: Buffer };
 // The budget holds the texts too: a year of 20,000 events is about 10 MB of text, 0.65 MB gzipped.
 const mapEventPieces = new PiecewiseGzip(64 * 1024 * 1024, 9);
 
+/** Whether a piece of the map's events ends after this event: about one in 64, by a hash of its id. */
+const endsPiece = (id: number) => Math.imul(id, 0x9e3779b1) >>> 26 === 0;
+
 /**
- * `JSON.stringify(collection)` cut into pieces. A piece ends after an event whose id falls on a
- * boundary (about one in 64 by a hash of the id), not after a count, so an event added or removed
- * changes only its own piece, wherever it sorts.
+ * Items cut into pieces, each ending after an item whose id is a boundary (`endsPiece`), not after a
+ * count, so an event added or removed changes only its own piece, wherever it sorts.
  */
-export function geoJsonPieces(collection: MapEventCollection): string[] {
-  const pieces = ['{"type":"FeatureCollection","features":['];
-  const { features } = collection;
-  let start = 0;
-  const cut = (end: number) => {
-    if (end === start) return;
-    // One JSON.stringify per piece, its brackets dropped: much quicker than one per feature.
-    const text = JSON.stringify(features.slice(start, end));
-    pieces.push((start === 0 ? "" : ",") + text.slice(1, -1));
-    start = end;
-  };
-  features.forEach((feature, index) => {
-    if (Math.imul(feature.properties.id, 0x9e3779b1) >>> 26 === 0) cut(index + 1);
-  });
-  cut(features.length);
-  pieces.push("]}");
+export function cutIntoPieces<T>(items: readonly T[], idOf: (item: T) => number): T[][] {
+  const pieces: T[][] = [];
+  let piece: T[] = [];
+  for (const item of items) {
+    piece.push(item);
+    if (endsPiece(idOf(item))) {
+      pieces.push(piece);
+      piece = [];
+    }
+  }
+  if (piece.length) pieces.push(piece);
   return pieces;
+}
+
+/** The GeoJSON text of a piece's features inside the collection's array (a comma first, but for the first piece). */
+export function pieceText(features: readonly MapFeature[], first: boolean): string {
+  // One JSON.stringify per piece, its brackets dropped: much quicker than one per feature.
+  return (first ? "" : ",") + JSON.stringify(features).slice(1, -1);
+}
+
+const COLLECTION_HEAD = '{"type":"FeatureCollection","features":[';
+const COLLECTION_TAIL = "]}";
+
+/** Texts kept by what they were written from, bounded by their length, the least recently used out first. */
+class KeptTexts {
+  private readonly texts = new Map<string, string>();
+  private length = 0;
+
+  constructor(private readonly budget: number) {}
+
+  get(key: string): string | undefined {
+    const text = this.texts.get(key);
+    if (text !== undefined) {
+      this.texts.delete(key);
+      this.texts.set(key, text);
+    }
+    return text;
+  }
+
+  set(key: string, text: string): void {
+    const before = this.texts.get(key);
+    if (before !== undefined) this.length -= key.length + before.length;
+    this.texts.delete(key);
+    this.texts.set(key, text);
+    this.length += key.length + text.length;
+    for (const [oldest, dropped] of this.texts) {
+      if (this.length <= this.budget) break;
+      this.texts.delete(oldest);
+      this.length -= oldest.length + dropped.length;
+    }
+  }
+}
+
+// Each piece's text, kept by what it was written from: the catalogue's stamp (station codes), whether
+// it comes first, and each of its events' id and row stamp, which a trigger raises on every change
+// of the row (decision 181). A new reports version then writes only the pieces whose events changed.
+const keptPieceTexts = new KeptTexts(48 * 1024 * 1024);
+let pieceTextsWritten = 0;
+
+/** How many piece texts this process has written (not found kept), for tests and benchmarks. */
+export const mapPieceTextsWritten = () => pieceTextsWritten;
+
+/**
+ * The map's events as GeoJSON text in pieces, joined: exactly `JSON.stringify(await mapEvents(filters))`.
+ * The stamps and the rows are read in one transaction, so they are one snapshot of the data.
+ */
+export async function mapEventPieceTexts(filters: MapFilters, catalogue: string | null): Promise<string[]> {
+  return db.transaction(async (trx) => {
+    const stamps: { id: number; row_stamp: number | string }[] = await inMapOrder(filteredEvents(filters, trx)).select(
+      "e.id",
+      "e.row_stamp",
+    );
+    const groups = cutIntoPieces(stamps, (row) => row.id);
+    const keys = groups.map(
+      (group, index) =>
+        `${catalogue} ${index === 0 ? "first" : "next"} ${group.map((row) => `${row.id}.${row.row_stamp}`).join(",")}`,
+    );
+    const texts = keys.map((key) => (catalogue === null ? undefined : keptPieceTexts.get(key)));
+    const missing = groups.flatMap((group, index) => (texts[index] === undefined ? group.map((row) => row.id) : []));
+    if (missing.length) {
+      // Most pieces missing (a first request, a catalogue change): one pass over the filter is quicker.
+      const rows: MapEventRow[] =
+        missing.length > stamps.length / 2
+          ? await mapEventRowsOf(filteredEvents(filters, trx))
+          : (
+              await Promise.all(
+                chunks(missing, 1000).map((ids) => mapEventRowsOf(trx("events as e").whereIn("e.id", ids))),
+              )
+            ).flat();
+      const byId = new Map(rows.map((row) => [row.id, row]));
+      groups.forEach((group, index) => {
+        if (texts[index] !== undefined) return;
+        const text = pieceText(
+          group.map((row) => mapFeature(byId.get(row.id)!)),
+          index === 0,
+        );
+        texts[index] = text;
+        pieceTextsWritten += 1;
+        if (catalogue !== null) keptPieceTexts.set(keys[index], text);
+      });
+    }
+    return [COLLECTION_HEAD, ...(texts as string[]), COLLECTION_TAIL];
+  });
+}
+
+function mapEventRowsOf(query: Knex.QueryBuilder): Promise<MapEventRow[]> {
+  return query.leftJoin("stations as s", "s.id", "e.station_id").select(...MAP_EVENT_COLUMNS);
+}
+
+function chunks<T>(items: readonly T[], size: number): T[][] {
+  return Array.from({ length: Math.ceil(items.length / size) }, (_, index) =>
+    items.slice(index * size, (index + 1) * size),
+  );
 }
 
 const keptMapEvents = new VersionedCache<MapEventsBody>(24);
@@ -438,7 +539,7 @@ export async function mapEventsBody(filters: MapFilters, versions: DataVersions)
   const version = mapDataVersion(versions);
   const key = filtersKey(filters);
   return keptMapEvents.get(key, version, async () => {
-    const gzipped = await mapEventPieces.gzip(geoJsonPieces(await mapEvents(filters)));
+    const gzipped = await mapEventPieces.gzip(await mapEventPieceTexts(filters, versions.catalogue));
     const tag = createHash("sha256")
       .update(`${version ?? "unversioned"} ${key}`)
       .digest("base64url")
