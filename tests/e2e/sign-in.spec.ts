@@ -28,8 +28,15 @@ test.describe("signing in", () => {
         "Quarterly summaries",
         "Concentrate stock",
       ],
-      records: ["Home", "Events"],
-      admin: ["Home", "People and roles", "Agency settings", "Apparatus and stations", "Mail outbox"],
+      records: ["Home", "Events", "Public-records requests"],
+      admin: [
+        "Home",
+        "People and roles",
+        "Agency settings",
+        "Apparatus and stations",
+        "Mail outbox",
+        "Public-records requests",
+      ],
     };
     for (const role of Object.keys(expected) as (keyof typeof DEMO)[]) {
       await signInAs(page, role);
