@@ -1,5 +1,6 @@
 import { recordAudit } from "~/lib/audit.server";
 import { db, type Db } from "~/lib/db.server";
+import { retryingDeadlocks } from "~/lib/deadlock-retry";
 import { sendMail } from "~/lib/mail.server";
 
 export type MailKind =
@@ -59,6 +60,11 @@ export type DeliveryOutcome = { sent: number; failed: number; retrying: number }
  * a route) never take the same message, and neither waits for the other's locks.
  */
 async function claimDueMail(limit: number): Promise<number[]> {
+  // Senders racing for the same rows can still deadlock on the status index; the victim claims again.
+  return retryingDeadlocks(() => claimDueMailOnce(limit));
+}
+
+async function claimDueMailOnce(limit: number): Promise<number[]> {
   return db.transaction(async (trx) => {
     const ids: number[] = await trx("mail_outbox")
       .where((q) =>
