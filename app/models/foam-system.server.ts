@@ -699,7 +699,7 @@ export async function saveFoamSystem(
     const current = id == null ? null : await lockSystem(trx, id);
     if (current && current.apparatus_id !== apparatusId) throw new RefusalError(refused(404, "No such foam system."));
     if (current && Number(current.version) !== expectedVersion) {
-      throw new RefusalError(conflict(staleRecordMessage("foam system")));
+      throw new RefusalError(conflict(staleRecordMessage("foam system", "recorded an accuracy test on it")));
     }
     const clash = await trx("foam_systems")
       .where({ apparatus_id: apparatusId, name: value.name })

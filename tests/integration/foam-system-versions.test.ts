@@ -132,7 +132,9 @@ describe("saving a foam system from its edit page", () => {
     expect(stale.thrown).toBe(false);
     expect(statusOf(stale.value)).toBe(409);
     const reply = replyOf(stale.value);
-    expect(reply.error?.[""]?.[0]).toMatch(/Someone else saved this foam system after you opened it/);
+    expect(reply.error?.[""]?.[0]).toMatch(
+      /This foam system changed after you opened it \(someone saved it, or recorded an accuracy test on it\)/,
+    );
     expect(reply.initialValue).toMatchObject({
       name: "Second person's name (test)",
       maxConcentrateGpm: "9",

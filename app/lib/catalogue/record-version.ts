@@ -22,9 +22,13 @@ export class StaleRecordError extends Error {
   }
 }
 
-export function staleRecordMessage(what: string): string {
+/** `changedBy`: what else than an edit moves the record's version, said after "someone saved it". */
+export function staleRecordMessage(what: string, changedBy?: string): string {
+  const who = changedBy
+    ? `This ${what} changed after you opened it (someone saved it, or ${changedBy})`
+    : `Someone else saved this ${what} after you opened it`;
   return (
-    `Someone else saved this ${what} after you opened it, so your changes were not saved. ` +
+    `${who}, so your changes were not saved. ` +
     "What you typed is still below: note what you need, reload the page to see the saved version, then make your changes again."
   );
 }
