@@ -1,5 +1,6 @@
 import { createHash } from "node:crypto";
 import type { Knex } from "knex";
+import { LRUCache } from "lru-cache";
 import { decimalOrNull, decimalOrZero } from "~/lib/decimal";
 import { db } from "~/lib/db.server";
 import { releasedGallonsSql } from "~/lib/foam/released-volume";
@@ -436,40 +437,14 @@ export function pieceText(features: readonly MapFeature[], first: boolean): stri
 const COLLECTION_HEAD = '{"type":"FeatureCollection","features":[';
 const COLLECTION_TAIL = "]}";
 
-/** Texts kept by what they were written from, bounded by their length, the least recently used out first. */
-class KeptTexts {
-  private readonly texts = new Map<string, string>();
-  private length = 0;
-
-  constructor(private readonly budget: number) {}
-
-  get(key: string): string | undefined {
-    const text = this.texts.get(key);
-    if (text !== undefined) {
-      this.texts.delete(key);
-      this.texts.set(key, text);
-    }
-    return text;
-  }
-
-  set(key: string, text: string): void {
-    const before = this.texts.get(key);
-    if (before !== undefined) this.length -= key.length + before.length;
-    this.texts.delete(key);
-    this.texts.set(key, text);
-    this.length += key.length + text.length;
-    for (const [oldest, dropped] of this.texts) {
-      if (this.length <= this.budget) break;
-      this.texts.delete(oldest);
-      this.length -= oldest.length + dropped.length;
-    }
-  }
-}
-
 // Each piece's text, kept by what it was written from: the catalogue's stamp (station codes), whether
 // it comes first, and each of its events' id and row stamp, which a trigger raises on every change
 // of the row (decision 181). A new reports version then writes only the pieces whose events changed.
-const keptPieceTexts = new KeptTexts(48 * 1024 * 1024);
+// Bounded by the length of the texts and their keys, the least recently used out first.
+const keptPieceTexts = new LRUCache<string, string>({
+  maxSize: 48 * 1024 * 1024,
+  sizeCalculation: (text, key) => text.length + key.length,
+});
 let pieceTextsWritten = 0;
 
 /** How many piece texts this process has written (not found kept), for tests and benchmarks. */
