@@ -23,9 +23,9 @@ import {
   FOAM_CLASSES,
   WATER_ONLY_LABEL,
 } from "~/lib/foam/vocabulary";
-import { mapQuery, parseMapFilters, type BoundingBox } from "~/lib/geo/map-filters";
+import { mapQuery, readMapFilters, type BoundingBox } from "~/lib/geo/map-filters";
 import { httpError } from "~/lib/http.server";
-import { ignoredFiltersNote, type QueryProblems } from "~/lib/query-params";
+import { ignoredFiltersNote } from "~/lib/query-params";
 import { localDateTime } from "~/lib/time-zone";
 import { listStations, mapReadState, usageSummaryKept, type UsageSummary } from "~/models/usage-map.server";
 
@@ -48,18 +48,8 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (!params.get("to")) params.set("to", range.to);
   params.delete("bbox");
   // A filter the page cannot use is left out (a period, for the last twelve months) and named.
-  const ignored: QueryProblems = {};
-  let parsed = parseMapFilters(params, timeZone);
-  while (!parsed.ok && !(parsed.field in ignored)) {
-    ignored[parsed.field] = parsed.message;
-    if (parsed.field === "from") {
-      params.set("from", range.from);
-      params.set("to", range.to);
-    } else params.delete(parsed.field);
-    parsed = parseMapFilters(params, timeZone);
-  }
-  if (!parsed.ok) httpError(400, parsed.message);
-  const { filters } = parsed;
+  const { filters, problems } = readMapFilters(params, timeZone, range);
+  if (!filters) httpError(400, "The period cannot be read.");
   const [stations, summary] = await Promise.all([listStations(), usageSummaryKept(filters, timeZone, versions)]);
   return {
     filters: {
@@ -72,7 +62,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     stations,
     summary,
     timeZone,
-    filterNote: ignoredFiltersNote(ignored),
+    filterNote: ignoredFiltersNote(problems),
   };
 }
 
