@@ -159,7 +159,8 @@ function mapFeature(row: MapEventRow): MapFeature {
 /**
  * Every mapped event that matches, as an RFC 7946 FeatureCollection with its totals: the event's id
  * once (`properties.id`; its page is `/events/:id`), coordinates to five decimals, distances to the
- * metre, instants to the second.
+ * metre, instants to the second. Read whole, in one query: the reference that the kept pieces of
+ * `mapEventPieceTexts` must join to exactly (`tests/integration/map-events-kept.test.ts`).
  */
 export async function mapEvents(filters: MapFilters): Promise<MapEventCollection> {
   const rows = await mapEventRowsOf(inMapOrder(filteredEvents(filters)));
